@@ -1,0 +1,1 @@
+//! Report renderers: view types and text, JSON, Markdown and HTML output of an outcome.
