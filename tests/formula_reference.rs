@@ -131,11 +131,10 @@ fn dbe_matches_the_textbook_formula() {
 
 /// quiddity's aggregated peak at nominal mass M+k: (relative %, mass), 0 when absent.
 fn peak_at(formula: &Formula, k: u64) -> (f64, f64) {
-    let nominal = formula.nominal_mass() + k;
     aggregated_pattern(formula)
         .relative(0.0)
         .iter()
-        .find(|p| p.mz.round() as u64 == nominal)
+        .find(|p| (p.mz - formula.monoisotopic_mass()).round() as u64 == k)
         .map_or((0.0, 0.0), |p| (p.relative, p.mz))
 }
 
