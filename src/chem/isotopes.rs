@@ -299,18 +299,17 @@ fn isotopologues(formula: &Formula, prune_below: f64) -> Vec<Peak> {
         let others = best_total / modes[k];
         let configs = element.enumerate(cut_total / others, MAX_ELEMENT_CONFIGURATIONS);
         // A partial product is kept only if, completed by the most probable configuration
-        // of every element still to come, it could reach the cut-off. Both lists are
-        // sorted most probable first, so each loop stops at the first product below it;
-        // when the list outgrows twice the cap it is cut to the cap and the cut-off
+        // of every element still to come, it could reach the cut-off. The configurations
+        // come most probable first, so the inner loop stops at the first product below
+        // it; when the list outgrows twice the cap it is cut to the cap and the cut-off
         // rises to the least probable survivor, which bounds the work.
         let bound_after = remaining_best[k + 1];
         let mut cut_now = cut_total;
-        partial.sort_by(|a, b| b.probability.total_cmp(&a.probability));
         let best_config = configs.first().map_or(0.0, |c| c.probability);
         let mut next = Vec::new();
         for a in &partial {
             if a.probability * best_config * bound_after < cut_now {
-                break;
+                continue;
             }
             for b in &configs {
                 let p = a.probability * b.probability;
@@ -348,7 +347,7 @@ fn keep_most_probable(peaks: &mut Vec<Peak>, cap: usize) {
 /// Sorts by mass and merges neighbours closer than m/R, chaining (a peak joins the group
 /// when its gap to the previous peak is below the resolution width at its mass).
 fn merge_within_resolution(mut peaks: Vec<Peak>, resolving_power: f64) -> Vec<Peak> {
-    peaks.sort_by(|a, b| a.mz.total_cmp(&b.mz));
+    peaks.sort_unstable_by(|a, b| a.mz.total_cmp(&b.mz));
     let mut merged: Vec<Peak> = Vec::new();
     let mut last_mass = f64::NEG_INFINITY;
     for p in peaks {
