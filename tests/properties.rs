@@ -28,8 +28,9 @@ fn formula_text_from(
     (
         prop::collection::vec((0..atoms.len(), 1..max_count, any::<bool>(), 1u32..4), 1..6),
         -3i32..=3,
+        any::<bool>(),
     )
-        .prop_map(|(units, charge)| {
+        .prop_map(|(units, charge, radical)| {
             let mut text = String::new();
             for (atom, count, grouped, times) in units {
                 if grouped {
@@ -44,6 +45,9 @@ fn formula_text_from(
                 -1 => text.push('-'),
                 z if z > 0 => text.push_str(&format!(" {z}+")),
                 z => text.push_str(&format!(" {}-", -z)),
+            }
+            if radical && charge != 0 {
+                text.push('.');
             }
             text
         })

@@ -493,20 +493,34 @@ impl Formula {
         self.radical
     }
 
-    /// The same atoms with another charge (radical mark kept).
+    /// The same atoms with another charge (radical mark kept for an ion, dropped for a
+    /// neutral formula, which has no radical-ion notation).
     pub fn with_charge(&self, charge: i32) -> Formula {
         Formula {
             charge,
+            radical: self.radical && charge != 0,
+            atoms: self.atoms.clone(),
+        }
+    }
+
+    /// The same formula with the radical-ion mark set or cleared (ignored when neutral).
+    pub fn with_radical(&self, radical: bool) -> Formula {
+        Formula {
+            radical: radical && self.charge != 0,
             ..self.clone()
         }
     }
 
-    /// The same formula with the radical mark set or cleared.
-    pub fn with_radical(&self, radical: bool) -> Formula {
-        Formula {
-            radical,
-            ..self.clone()
+    /// Adds `count` atoms of `atom` in place (building formulas without text, e.g. when
+    /// enumerating candidates for a measured mass).
+    pub fn add_atom(&mut self, atom: Atom, count: u32) -> Result<(), FormulaArithmeticError> {
+        if count == 0 {
+            return Ok(());
         }
+        let held = u64::from(self.count(atom));
+        let total = checked_count(held + u64::from(count))?;
+        self.atoms.insert(atom, total);
+        Ok(())
     }
 
     /// The neutral molecule with these atoms.
@@ -535,10 +549,11 @@ impl Formula {
             let slot = atoms.entry(*atom).or_insert(0);
             *slot = checked_count(u64::from(*slot) + u64::from(*n))?;
         }
+        let charge = checked_charge(i64::from(self.charge) + i64::from(other.charge))?;
         Ok(Formula {
             atoms,
-            charge: checked_charge(i64::from(self.charge) + i64::from(other.charge))?,
-            radical: self.radical != other.radical,
+            charge,
+            radical: (self.radical != other.radical) && charge != 0,
         })
     }
 
@@ -561,10 +576,11 @@ impl Formula {
                 atoms.insert(*atom, held - n);
             }
         }
+        let charge = checked_charge(i64::from(self.charge) - i64::from(other.charge))?;
         Ok(Formula {
             atoms,
-            charge: checked_charge(i64::from(self.charge) - i64::from(other.charge))?,
-            radical: self.radical != other.radical,
+            charge,
+            radical: (self.radical != other.radical) && charge != 0,
         })
     }
 
@@ -752,6 +768,13 @@ impl fmt::Display for Formula {
             write!(f, ".")?;
         }
         Ok(())
+    }
+}
+
+impl serde::Serialize for Formula {
+    /// As its Hill-order text, which [`Formula::parse`] reads back.
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_str(self)
     }
 }
 
@@ -1365,6 +1388,36 @@ mod tests {
             })
         );
         assert_eq!(m.times(2).expect("fits").to_string(), "C16H20N8O4");
+    }
+
+    #[test]
+    fn building_without_text_matches_parsing() {
+        let mut built = Formula::new();
+        let carbon = Atom::from_symbol("C").expect("C");
+        let hydrogen = Atom::from_symbol("H").expect("H");
+        built.add_atom(carbon, 2).expect("fits");
+        built.add_atom(hydrogen, 6).expect("fits");
+        built.add_atom(carbon, 0).expect("fits");
+        assert_eq!(built, f("C2H6"));
+        assert_eq!(
+            built.add_atom(carbon, u32::MAX),
+            Err(FormulaArithmeticError::Overflow)
+        );
+        let from_counts = Formula::from_composition(&Composition::from_pairs([("C", 2), ("H", 6)]));
+        assert_eq!(from_counts, Some(f("C2H6")));
+        assert_eq!(
+            serde_json::to_string(&f("OHC2H5")).expect("json"),
+            "\"C2H6O\""
+        );
+    }
+
+    #[test]
+    fn radical_marks_vanish_on_neutral_results() {
+        let radical_cation = f("C6H6+.");
+        assert!(!radical_cation.with_charge(0).is_radical());
+        let neutral = radical_cation.minus(&f("H+")).expect("fits");
+        assert_eq!(neutral.charge(), 0);
+        assert_eq!(Formula::parse(&neutral.to_string()), Ok(neutral));
     }
 
     #[test]
