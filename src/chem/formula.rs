@@ -224,7 +224,7 @@ pub enum FormulaErrorKind {
         symbol: String,
     },
     /// An isotope label naming no natural isotope.
-    #[error("{symbol} has no natural isotope of mass number {mass_number}")]
+    #[error("no natural isotope of {symbol} has mass number {mass_number}")]
     UnknownIsotope {
         /// Element symbol.
         symbol: String,
@@ -1313,6 +1313,10 @@ mod tests {
         ];
         for (input, kind, offset) in table {
             assert_eq!(&err(input), &(kind.clone(), *offset), "{input:?}");
+            // Messages are lower case without a trailing period (diag convention).
+            let message = kind.to_string();
+            assert!(!message.starts_with(char::is_uppercase), "{message}");
+            assert!(!message.ends_with('.'), "{message}");
         }
     }
 
