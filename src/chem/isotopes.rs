@@ -4,21 +4,24 @@
 //! Aggregated pattern: each element's single-atom distribution over mass numbers is a
 //! polynomial; the molecule's distribution is the product of those polynomials raised to
 //! the atom counts. Powers are taken by repeated squaring, and after every product the
-//! tails below `prune_below` × the largest coefficient are cut (they cannot grow back
-//! above that level relative to the peak by more than the tiny mass they carry). Each
-//! bin also carries Σ p·m so that its peak sits at the probability-weighted mean mass of
-//! the isotopologues it holds.
+//! tails below `prune_below` × the largest coefficient are cut, which keeps the vectors
+//! short and loses far less than 1e-9 of the probability for molecular formulas (tested).
+//! Each bin also carries Σ p·m so that its peak sits at the probability-weighted mean
+//! mass of the isotopologues it holds.
 //!
 //! Fine structure: each element's isotopologues are a multinomial over its isotopes; they
 //! are generated best-first from the most probable configuration (found by hill climbing)
-//! by moving one atom between isotopes, down to the cut-off. Elements are then combined as sparse products, skipping partial products that
-//! cannot reach the cut-off even with the most probable configuration of the elements
-//! still to come. Finally peaks closer than m/R (the full width at half maximum at
-//! resolving power R) are merged into their probability-weighted centroid.
+//! by moving one atom between isotopes, down to the cut-off. Elements are then combined
+//! as sparse products, skipping partial products that cannot reach the cut-off even with
+//! the most probable configuration of the elements still to come. Finally peaks closer
+//! than m/R (the full width at half maximum at resolving power R) are merged into their
+//! probability-weighted centroid. The number of isotopologues kept is capped
+//! ([`MAX_ELEMENT_CONFIGURATIONS`], [`MAX_FINE_PEAKS`]); only formulas with hundreds of
+//! atoms of many-isotope elements (Sn, Hg, Se, Zn) reach the caps.
 //!
 //! Both report m/z (electron masses removed for ions, divided by |charge|), probabilities
 //! that sum to 1 over the retained peaks, and the probability retained before that
-//! normalisation (1 minus what pruning dropped).
+//! normalisation (1 minus what pruning and the caps dropped).
 
 use super::elements::ELECTRON_MASS;
 use super::formula::{Atom, Formula};
