@@ -411,12 +411,14 @@ impl SeniorCheck {
 }
 
 /// The LEWIS check as quiddity implements it (octet rule bookkeeping, after Kind & Fiehn
-/// 2007, `from memory`): the species has an even number of electrons, so every electron
-/// can sit in a bond or lone pair, and DBE ≥ 0, so the atoms at their standard valences
-/// have enough bonds to complete their octets (duet for H).
+/// 2007, `from memory`), on the neutral molecule with these atoms (charge ignored, like
+/// the SENIOR rules, so the molecular ion M+. of a valid molecule passes and an
+/// even-electron ion such as [M+H]+ does not): the molecule has an even number of
+/// electrons, so every electron can sit in a bond or lone pair, and DBE ≥ 0, so the atoms
+/// at their standard valences have enough bonds to complete their octets (duet for H).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
 pub struct LewisCheck {
-    /// Total electrons of the species (Σ atomic numbers − charge).
+    /// Electrons of the neutral molecule (Σ atomic numbers).
     pub electron_count: i64,
     /// Even electron count.
     pub even_electrons: bool,
@@ -700,10 +702,9 @@ impl Formula {
         }
     }
 
-    /// The LEWIS check on the species (charge included in the electron count); see
-    /// [`LewisCheck`].
+    /// The LEWIS check on the neutral molecule with these atoms; see [`LewisCheck`].
     pub fn lewis(&self) -> LewisCheck {
-        let electron_count = self.electron_count();
+        let electron_count = self.neutral().electron_count();
         LewisCheck {
             electron_count,
             even_electrons: electron_count % 2 == 0,
@@ -1440,6 +1441,12 @@ mod tests {
         // H6C would need DBE −1: fails LEWIS and SENIOR rule 3.
         assert!(!f("CH6").lewis().passes());
         assert!(!f("CH6").senior().connected);
+        // Both checks judge the neutral molecule: benzene's M+. passes, an even-electron
+        // [M+H]+ formula does not.
+        assert!(f("C6H6+.").lewis().passes());
+        assert!(f("C6H6+.").senior().passes());
+        assert!(!f("C5H6N+").lewis().passes());
+        assert!(!f("C5H6N+").senior().passes());
         // SENIOR rule 2: a lone carbon cannot satisfy its four valences.
         assert!(!f("C").senior().covers_max_valence);
         assert!(f("C6H6+.").is_odd_electron());
