@@ -95,8 +95,16 @@ pub enum FileKind {
     Columns,
 }
 
-/// JCAMP-DX when the first line that is not blank or a `$$` comment starts with `##`.
+/// JCAMP-DX when the first line that is not blank or a `$$` comment starts with `##`, or
+/// when any line starts with `##TITLE=` (so that stray text at the top of a JCAMP-DX file
+/// is reported as such rather than read as columns).
 pub fn detect_kind(src: &str) -> FileKind {
+    if src
+        .lines()
+        .any(|l| l.trim_start().to_ascii_uppercase().starts_with("##TITLE"))
+    {
+        return FileKind::Jcamp;
+    }
     for line in src.lines() {
         let t = line.trim();
         if t.is_empty() || t.starts_with("$$") {
