@@ -256,6 +256,65 @@ fn crossing(y: &[f64], from: usize, to: usize, level: f64) -> Option<f64> {
     None
 }
 
+/// Least-squares parabola through the points around maximum `m` that lie above `level`;
+/// returns its vertex when it has at least 5 points and a proper top inside them.
+fn top_parabola(x: &[f64], y: &[f64], i: usize, m: &Maximum, level: f64) -> Option<(f64, f64)> {
+    let mut l = i;
+    while l > m.left_base && y[l - 1] > level {
+        l -= 1;
+    }
+    let mut r = i;
+    while r < m.right_base && y[r + 1] > level {
+        r += 1;
+    }
+    if r - l + 1 < 5 {
+        return None;
+    }
+    // Fit y = c0 + c1 t + c2 t² with t centred on x[i] for conditioning.
+    let (mut s0, mut s1, mut s2, mut s3, mut s4) = (0.0, 0.0, 0.0, 0.0, 0.0);
+    let (mut sy, mut sty, mut stty) = (0.0, 0.0, 0.0);
+    for j in l..=r {
+        let t = x[j] - x[i];
+        let t2 = t * t;
+        s0 += 1.0;
+        s1 += t;
+        s2 += t2;
+        s3 += t2 * t;
+        s4 += t2 * t2;
+        sy += y[j];
+        sty += t * y[j];
+        stty += t2 * y[j];
+    }
+    // Cramer's rule on the 3×3 normal equations.
+    let det3 = |a: [[f64; 3]; 3]| {
+        a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1])
+            - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0])
+            + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0])
+    };
+    let n = [[s0, s1, s2], [s1, s2, s3], [s2, s3, s4]];
+    let d = det3(n);
+    if d.abs() < 1e-300 {
+        return None;
+    }
+    let rhs = [sy, sty, stty];
+    let solve = |col: usize| {
+        let mut a = n;
+        for row in 0..3 {
+            a[row][col] = rhs[row];
+        }
+        det3(a) / d
+    };
+    let (c0, c1, c2) = (solve(0), solve(1), solve(2));
+    if c2 >= 0.0 {
+        return None;
+    }
+    let t = -c1 / (2.0 * c2);
+    if t < x[l] - x[i] || t > x[r] - x[i] {
+        return None;
+    }
+    Some((x[i] + t, c0 + c1 * t + c2 * t * t))
+}
+
 /// Picks bands of the absorbance trace `y` on the evenly spaced ascending grid `x`
 /// (baseline already removed). Bands come out in decreasing wavenumber, as analysts list them.
 pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>, PickStats) {
@@ -305,8 +364,16 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         } else {
             0.0
         };
-        let at = x[i] + delta * spacing;
-        let height = b - 0.25 * (a - c) * delta;
+        let mut at = x[i] + delta * spacing;
+        let mut height = b - 0.25 * (a - c) * delta;
+        // On a wide top, noise moves the highest point about; a least-squares parabola
+        // through the top quarter of the band (by prominence) finds the centre better.
+        if let Some((top_at, top_height)) =
+            top_parabola(x, &smooth, i, m, height - 0.25 * m.prominence)
+        {
+            at = top_at;
+            height = top_height;
+        }
         let level = height - m.prominence / 2.0;
         let left = crossing(&smooth, i, m.left_base, level);
         let right = crossing(&smooth, i, m.right_base, level);
