@@ -3,6 +3,8 @@
 //! baseline. Every band must come back within 2 cm⁻¹ and 10 % of its width, and the
 //! `common practice` shapes must be classified as the trade classifies them.
 
+#![allow(clippy::unwrap_used)] // helpers of an integration test panic on purpose
+
 use quiddity::ir::jcamp::{write_jcamp, JcampForm, WriteSpectrum};
 use quiddity::ir::synth::{synthesize, SynthBand, SynthSpectrum};
 use quiddity::ir::{
@@ -40,7 +42,7 @@ fn pick(text: &str) -> PickedSpectrum {
         .unwrap_or_else(|e| panic!("{}", quiddity::diag::render_all(&e)))
 }
 
-fn nearest<'a>(bands: &'a [PickedBand], at: f64) -> &'a PickedBand {
+fn nearest(bands: &[PickedBand], at: f64) -> &PickedBand {
     bands
         .iter()
         .min_by(|a, b| (a.at - at).abs().total_cmp(&(b.at - at).abs()))
