@@ -52,5 +52,11 @@ fn bench(c: &mut Criterion) {
     }
 }
 
-criterion_group!(benches, bench);
+// criterion_group! makes an undocumented public function.
+#[allow(missing_docs)]
+mod group {
+    use super::*;
+    criterion_group!(benches, bench);
+}
+use group::benches;
 criterion_main!(benches);

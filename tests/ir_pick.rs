@@ -281,3 +281,70 @@ fn region_and_minimum_strength_filter_the_list_but_not_the_classes() {
         assert!((got - want).abs() < 3.0, "{at:?}");
     }
 }
+
+// --- Real spectra of the JCAMP-DX test suite (origin: tests/fixtures/ir/SOURCES.md) -------
+
+fn suite(name: &str) -> PickedSpectrum {
+    let path = format!(
+        "{}/tests/fixtures/ir/jcamp-testsuite/{name}",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let bytes = std::fs::read(&path).unwrap();
+    bands_from_file_contents(&bytes, name, &PickOptions::default()).unwrap()
+}
+
+/// The suite's AFFN file is titled 2,2'-BIPYRIDINE. What the trade expects of such a
+/// spectrum (common practice, from memory): the strongest band is the C–H out-of-plane
+/// bend of the 2-substituted pyridine rings near 750–770 cm⁻¹; several ring stretches of
+/// at least medium strength between 1400 and 1600; aromatic C–H stretches above 3000 weak;
+/// no carbonyl (nothing above weak between 1650 and 1800).
+#[test]
+fn suite_bipyridine_spectrum_shows_the_bands_the_trade_expects() {
+    let picked = suite("ir-transmittance-affn.dx");
+    assert_eq!(picked.header.title.as_deref(), Some("2,2'-BIPYRIDINE"));
+    let strongest = picked
+        .bands
+        .iter()
+        .max_by(|a, b| a.height.total_cmp(&b.height))
+        .unwrap();
+    assert!((740.0..780.0).contains(&strongest.at), "{strongest:?}");
+    let ring = picked
+        .bands
+        .iter()
+        .filter(|b| (1400.0..1600.0).contains(&b.at) && b.strength >= Strength::Medium)
+        .count();
+    assert!(ring >= 3, "{:?}", picked.bands);
+    assert!(picked
+        .bands
+        .iter()
+        .filter(|b| b.at > 3000.0)
+        .all(|b| b.strength == Strength::Weak));
+    assert!(picked
+        .bands
+        .iter()
+        .filter(|b| (1650.0..1800.0).contains(&b.at))
+        .all(|b| b.strength == Strength::Weak));
+}
+
+/// One sample of the suite stored as percent transmittance and as absorbance: after
+/// conversion both must give the same bands (positions within 0.5 cm⁻¹) — every band at
+/// least 0.08 absorbance high (weaker ones sit near the 1 % floor, which depends on the clipped
+/// strongest band). Relative heights differ: the two files clip the saturated
+/// strongest band differently, at A = 5 and at T = 10⁻⁴.
+#[test]
+fn suite_sample_as_transmittance_and_as_absorbance_gives_the_same_bands() {
+    let positions = |p: &PickedSpectrum| -> Vec<f64> {
+        p.bands
+            .iter()
+            .filter(|b| b.height >= 0.08 && b.kind == BandKind::Peak)
+            .map(|b| b.at)
+            .collect()
+    };
+    let t = positions(&suite("ir-transmittance-difdup.jcm"));
+    let a = positions(&suite("ir-absorbance-difdup.jcm"));
+    assert!(t.len() >= 5, "{t:?}");
+    assert_eq!(t.len(), a.len(), "{t:?} vs {a:?}");
+    for (x, y) in t.iter().zip(&a) {
+        assert!((x - y).abs() <= 0.5, "{t:?} vs {a:?}");
+    }
+}

@@ -90,7 +90,23 @@ struct BandsView<'a> {
 
 const CAUTION: &str = "bands are measured features of the trace, to be checked against the plotted spectrum; any reading of them is a screening lead, not an identification";
 
+/// Four decimals for ordinary absorbances, scientific notation for tiny ones (some files
+/// carry absorption coefficients of order 10⁻⁴).
+fn significant(v: f64) -> String {
+    if v.abs() >= 0.01 || v == 0.0 {
+        format!("{v:.4}")
+    } else {
+        format!("{v:.3e}")
+    }
+}
+
+/// Rounds to `decimals` places, or to 4 significant digits when that would lose the value.
 fn round(v: f64, decimals: i32) -> f64 {
+    if v != 0.0 && v.abs() < 10f64.powi(-decimals + 1) {
+        let digits = 3 - v.abs().log10().floor() as i32;
+        let f = 10f64.powi(digits);
+        return (v * f).round() / f;
+    }
     let f = 10f64.powi(decimals);
     (v * f).round() / f
 }
@@ -175,17 +191,17 @@ fn write_text(out: &mut dyn Write, origin: &str, picked: &PickedSpectrum) -> std
     } else {
         writeln!(
             out,
-            "{:>8}  {:<8}  {:<6}  {:>7}  {:>5}  {:>6}  {:<8}",
+            "{:>8}  {:<8}  {:<6}  {:>9}  {:>5}  {:>6}  {:<8}",
             "cm-1", "strength", "shape", "height", "rel", "FWHM", "kind"
         )?;
         for b in &picked.bands {
             writeln!(
                 out,
-                "{:>8.1}  {:<8}  {:<6}  {:>7.4}  {:>5.2}  {:>6}  {:<8}",
+                "{:>8.1}  {:<8}  {:<6}  {:>9}  {:>5.2}  {:>6}  {:<8}",
                 b.at,
                 b.strength.word(),
                 b.shape.map_or("-", |s| s.word()),
-                b.height,
+                significant(b.height),
                 b.relative_height,
                 b.fwhm.map_or("-".to_owned(), |w| format!("{w:.1}")),
                 match b.kind {

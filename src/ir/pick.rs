@@ -377,13 +377,15 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         let level = height - m.prominence / 2.0;
         let left = crossing(&smooth, i, m.left_base, level);
         let right = crossing(&smooth, i, m.right_base, level);
+        let centre_index = (at - x[0]) / spacing;
         let fwhm = match (left, right) {
             (Some(l), Some(r)) => Some((r - l) * spacing),
             // One side runs into a taller neighbour: mirror the side that was measured.
-            (Some(l), None) => Some(2.0 * (i as f64 + delta - l) * spacing),
-            (None, Some(r)) => Some(2.0 * (r - i as f64 - delta) * spacing),
+            (Some(l), None) => Some(2.0 * (centre_index - l) * spacing),
+            (None, Some(r)) => Some(2.0 * (r - centre_index) * spacing),
             (None, None) => None,
-        };
+        }
+        .filter(|w| *w > 0.0);
         peak_indices.push(i);
         bands.push(PickedBand {
             at,
@@ -478,10 +480,11 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
             }
         }
         // One shoulder per place even when two strong bands both reach it.
+        let same_place = (d_window as f64 / 2.0).max(2.0) * spacing;
         for s in shoulders {
             if !bands
                 .iter()
-                .any(|b| b.kind == BandKind::Shoulder && (b.at - s.at).abs() < 2.0 * spacing)
+                .any(|b| b.kind == BandKind::Shoulder && (b.at - s.at).abs() < same_place)
             {
                 bands.push(s);
             }

@@ -38,7 +38,10 @@
 //! * **Abscissa check.** With `(X++(Y..Y))`, the X at the start of each line, times
 //!   XFACTOR, must match FIRSTX + index·Δx for the line's first ordinate within half a point
 //!   spacing plus half the last digit written on the line; otherwise an ordinate is missing
-//!   or extra. Line abscissae must run one way (non-monotonic X is an error).
+//!   or extra. Exception: when NPOINTS is given and equals the ordinates decoded, lines
+//!   labelled up to 1.5 spacings off (some writers give the abscissa of the point before
+//!   the line's first ordinate) are accepted with a note. Line abscissae must run one way
+//!   (non-monotonic X is an error).
 //! * **Counts.** NPOINTS, when given, must equal the number of ordinates decoded.
 //!   DELTAX, when given, must match (LASTX − FIRSTX)/(NPOINTS − 1) within 1 % (files round
 //!   it). The X of point i is FIRSTX + i·(LASTX − FIRSTX)/(NPOINTS − 1).
@@ -111,6 +114,8 @@ pub struct BlockData {
     pub y: Vec<f64>,
     /// 0-based line of the data record's `##`.
     pub line: usize,
+    /// What the decoder tolerated (e.g. line abscissae one point off).
+    pub notes: Vec<String>,
 }
 
 /// Checks that `bytes` are text and returns them as `&str`.
@@ -234,10 +239,11 @@ pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
         ));
     }
     let list = normalise_variable_list(&record.value);
+    let mut notes = Vec::new();
     let (kind, data) = match (record.label.as_str(), list.as_str()) {
         ("XYDATA", "(X++(Y..Y))") => (
             DataKind::XyData,
-            decode_xyy(block, record, xfactor, yfactor)?,
+            decode_xyy(block, record, xfactor, yfactor, &mut notes)?,
         ),
         ("XYDATA" | "XYPOINTS", "(XY..XY)") => (
             DataKind::XyPoints,
@@ -289,6 +295,7 @@ pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
         x,
         y,
         line: record.line,
+        notes,
     })
 }
 
@@ -301,6 +308,7 @@ fn decode_xyy(
     record: &Ldr,
     xfactor: f64,
     yfactor: f64,
+    notes: &mut Vec<String>,
 ) -> Result<(Vec<f64>, Vec<f64>), JcampError> {
     let firstx = header_number(block, "FIRSTX")?.ok_or(JcampError::on_line(
         record.line,
@@ -386,7 +394,8 @@ fn decode_xyy(
             },
         ));
     }
-    if let Some(declared) = header_number(block, "NPOINTS")? {
+    let npoints_declared = header_number(block, "NPOINTS")?;
+    if let Some(declared) = npoints_declared {
         if declared.round() < 0.0 || declared.round() != n as f64 {
             return Err(JcampError::on_line(
                 last_line,
@@ -420,6 +429,7 @@ fn decode_xyy(
     }
     let direction = if dx > 0.0 { "up" } else { "down" };
     let mut previous: Option<f64> = None;
+    let mut lagging_noted = false;
     for &(line_idx, x_line, index, decimals) in &line_abscissae {
         if let Some(p) = previous {
             if (x_line - p) * dx.signum() <= 0.0 && index > 0 {
@@ -438,7 +448,24 @@ fn decode_xyy(
         let expected = firstx + index as f64 * dx;
         let granularity = 10f64.powi(-decimals) * xfactor.abs();
         let tolerance = 0.5 * dx.abs() + 0.5 * granularity;
-        if (x_line - expected).abs() > tolerance {
+        let off_by = (x_line - expected).abs();
+        // Some writers label each line with the abscissa of the point before its first
+        // ordinate. When NPOINTS confirms the count, an offset of up to one and a half
+        // point spacings is that labelling habit, not a lost ordinate: note it once.
+        if off_by > tolerance
+            && npoints_declared.is_some()
+            && off_by <= 1.5 * dx.abs() + 0.5 * granularity
+        {
+            if !lagging_noted {
+                notes.push(format!(
+                    "line abscissae are up to one point off their first ordinate (first on line {}); NPOINTS confirms the count, so X is taken from FIRSTX, LASTX and NPOINTS",
+                    line_idx + 1
+                ));
+                lagging_noted = true;
+            }
+            continue;
+        }
+        if off_by > tolerance {
             return Err(JcampError::at(
                 line_idx,
                 0,
@@ -592,6 +619,7 @@ pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, J
         ));
     }
     let data = decode_block(block)?;
+    notes.extend(data.notes.iter().cloned());
 
     // X units.
     let x_units_raw = block.value("XUNITS").map(str::to_owned);
