@@ -385,3 +385,85 @@ proptest! {
         let _ = jcamp::read_blocks(&text);
     }
 }
+
+// --- Other records and layouts ------------------------------------------------------------
+
+#[test]
+fn a_peak_table_gives_its_peaks_as_bands_with_relative_strengths() {
+    let src = "##TITLE=peaks (invented)\n##JCAMP-DX=5.01\n##DATA TYPE=INFRARED PEAK TABLE\n##XUNITS=1/CM\n##YUNITS=ABSORBANCE\n##PEAK TABLE=(XY..XY)\n1715.0, 1.0; 2960.0, 0.5\n1050.0, 0.1\n##END=\n";
+    let picked =
+        bands_from_file_contents(src.as_bytes(), "p.jdx", &PickOptions::default()).unwrap();
+    assert_eq!(picked.header.format, "JCAMP-DX 5.01");
+    let words: Vec<(f64, &str)> = picked
+        .bands()
+        .iter()
+        .map(|b| (b.at, b.strength.word()))
+        .collect();
+    assert_eq!(
+        words,
+        vec![(2960.0, "strong"), (1715.0, "strong"), (1050.0, "weak")]
+    );
+    assert!(picked.bands().iter().all(|b| b.shape.is_none()));
+    assert!(picked.notes.iter().any(|n| n.contains("peak table")));
+}
+
+#[test]
+fn micrometre_xypoints_are_converted_and_resampled_with_notes() {
+    // Invented: a band at 5.8 µm (about 1724 cm-1) on a 0.01 µm grid.
+    let mut src = String::from("##TITLE=um (invented)\n##JCAMP-DX=4.24\n##DATA TYPE=INFRARED SPECTRUM\n##XUNITS=MICROMETERS\n##YUNITS=ABSORBANCE\n##XYPOINTS=(XY..XY)\n");
+    for i in 0..=1000 {
+        let um = 2.5 + i as f64 * 0.0125;
+        let cm1 = 1e4 / um;
+        let a = 0.8 * 10.0f64.powi(2) / ((cm1 - 1724.0).powi(2) + 10.0f64.powi(2));
+        src.push_str(&format!("{um:.4}, {a:.6}\n"));
+    }
+    src.push_str("##END=\n");
+    let picked =
+        bands_from_file_contents(src.as_bytes(), "um.jdx", &PickOptions::default()).unwrap();
+    assert!(
+        picked.notes.iter().any(|n| n.contains("micrometres")),
+        "{:?}",
+        picked.notes
+    );
+    assert!(
+        picked.notes.iter().any(|n| n.contains("resampled")),
+        "{:?}",
+        picked.notes
+    );
+    let band = picked
+        .bands
+        .iter()
+        .max_by(|a, b| a.height.total_cmp(&b.height))
+        .unwrap();
+    assert!((band.at - 1724.0).abs() < 2.0, "{band:?}");
+}
+
+#[test]
+fn of_several_blocks_the_first_infrared_one_is_read_and_the_note_says_so() {
+    let infrared = GOOD.replace("##TITLE=t", "##TITLE=second");
+    let src = format!(
+        "##TITLE=link\n##JCAMP-DX=5.01\n##DATA TYPE=LINK\n##BLOCKS=3\n##TITLE=structure\n##JCAMP-CS=3.7\n##END=\n##TITLE=mass\n##DATA TYPE=MASS SPECTRUM\n##XUNITS=M/Z\n##PEAK TABLE=(XY..XY)\n43,100\n##END=\n{infrared}##END=\n"
+    );
+    let picked =
+        bands_from_file_contents(src.as_bytes(), "linked.jdx", &PickOptions::default()).unwrap();
+    assert_eq!(picked.header.title.as_deref(), Some("second"));
+    assert!(
+        picked
+            .notes
+            .iter()
+            .any(|n| n.contains("4 blocks") && n.contains("read block 4")),
+        "{:?}",
+        picked.notes
+    );
+}
+
+#[test]
+fn missing_units_are_taken_from_the_options_or_asked_for() {
+    let src = GOOD.replace("##XUNITS=1/CM\n", "");
+    let err = first_error(src.as_bytes());
+    assert_eq!(err, "error: bad.jdx:1:1: ##XUNITS= is missing; expected 1/CM or MICROMETERS (or give the x units as an option)");
+    let mut options = PickOptions::default();
+    options.read.x_units = Some(quiddity::ir::XUnits::Wavenumber);
+    let picked = bands_from_file_contents(src.as_bytes(), "ok.jdx", &options).unwrap();
+    assert!(picked.notes.iter().any(|n| n.contains("no XUNITS")));
+}
