@@ -4,7 +4,7 @@
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use quiddity::ir::jcamp::{write_jcamp, JcampForm, WriteSpectrum};
 use quiddity::ir::synth::{synthesize, SynthBand};
-use quiddity::ir::{bands_from_file_contents, PickOptions};
+use quiddity::ir::{bands_from_file_contents, read_spectrum, PickOptions, SpectrumData};
 
 fn spectrum(form: JcampForm) -> String {
     // Invented: 12 bands, noise and a sloping baseline, 7 001 points from 4000 to 500 cm-1.
@@ -40,6 +40,28 @@ fn spectrum(form: JcampForm) -> String {
 
 fn bench(c: &mut Criterion) {
     let options = PickOptions::default();
+    // The stages on their own, to see where the time goes.
+    let text = spectrum(JcampForm::DifDup);
+    c.bench_function("read only 7001 points (difdup)", |b| {
+        b.iter(|| read_spectrum(black_box(text.as_bytes()), "bench.jdx", &options.read).is_ok())
+    });
+    let read = read_spectrum(text.as_bytes(), "bench.jdx", &options.read).unwrap_or_else(|_| {
+        panic!("the benchmark spectrum reads");
+    });
+    let SpectrumData::Trace(trace) = read.data else {
+        panic!("a trace");
+    };
+    c.bench_function("prepare (T to A, ALS baseline) 7001 points", |b| {
+        b.iter(|| quiddity::ir::prepare_trace(black_box(&trace), true, &mut Vec::new()))
+    });
+    let prepared = quiddity::ir::prepare_trace(&trace, true, &mut Vec::new());
+    c.bench_function("pick only 7001 points", |b| {
+        b.iter(|| {
+            quiddity::ir::pick::pick_bands(black_box(&prepared.x), &prepared.y, &options.pick)
+                .0
+                .len()
+        })
+    });
     for (name, form) in [("difdup", JcampForm::DifDup), ("affn", JcampForm::Affn)] {
         let text = spectrum(form);
         c.bench_function(&format!("read+pick 7001 points ({name})"), |b| {

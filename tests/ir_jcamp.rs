@@ -467,3 +467,13 @@ fn missing_units_are_taken_from_the_options_or_asked_for() {
     let picked = bands_from_file_contents(src.as_bytes(), "ok.jdx", &options).unwrap();
     assert!(picked.notes.iter().any(|n| n.contains("no XUNITS")));
 }
+
+#[test]
+fn huge_dup_counts_are_refused_before_they_exhaust_memory() {
+    let src = GOOD.replace("1005 6 7 8 9 10", "1005 6s99999999");
+    assert!(first_error(src.as_bytes())
+        .starts_with("error: bad.jdx:12:7: DUP count 999999999; expected at most"));
+    let many = format!("1005 6{}", "Z99999".repeat(200));
+    let src = GOOD.replace("1005 6 7 8 9 10", &many);
+    assert!(first_error(src.as_bytes()).contains("ordinates in all"));
+}

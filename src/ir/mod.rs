@@ -158,7 +158,10 @@ pub fn prepare_trace(
         y.reverse();
     }
     if !preprocess::is_uniform(&x) {
-        let step = preprocess::median_step(&x);
+        // The median step, but never more than four grid points per point read, so that
+        // one tiny step cannot blow the grid up.
+        let range = x[x.len() - 1] - x[0];
+        let step = preprocess::median_step(&x).max(range / (4.0 * x.len() as f64));
         let (gx, gy) = preprocess::resample_uniform(&x, &y, step);
         notes.push(format!(
             "uneven point spacing: resampled to an even {step:.4} cm-1 grid by linear interpolation"

@@ -133,7 +133,8 @@ pub fn noise_sigma(y: &[f64]) -> f64 {
         return 0.0;
     }
     let mut d2: Vec<f64> = y.windows(3).map(|w| w[0] - 2.0 * w[1] + w[2]).collect();
-    let m = median(&mut d2.clone());
+    let mut scratch = d2.clone();
+    let m = median(&mut scratch);
     for v in &mut d2 {
         *v = (*v - m).abs();
     }
@@ -405,7 +406,8 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         let d2 = savgol(y, d_window / 2, 3, 2);
         let d2_noise = {
             let mut tmp: Vec<f64> = d2.clone();
-            let m = median(&mut tmp.clone());
+            let m = median(&mut tmp);
+            tmp.copy_from_slice(&d2);
             for v in &mut tmp {
                 *v = (*v - m).abs();
             }

@@ -47,6 +47,21 @@ fn is_sep(b: u8) -> bool {
 
 /// Reads the digits and dots following a pseudo-digit and builds the value.
 fn pseudo_number(bytes: &[u8], start: usize, lead: u32, negative: bool) -> (f64, usize) {
+    // Fast path: digits only (the usual case), accumulated exactly while they fit in 2^53.
+    let mut end = start;
+    let mut value = u64::from(lead);
+    let mut exact = true;
+    while end < bytes.len() && bytes[end].is_ascii_digit() {
+        value = value
+            .saturating_mul(10)
+            .saturating_add(u64::from(bytes[end] - b'0'));
+        exact &= value < (1u64 << 53);
+        end += 1;
+    }
+    if exact && bytes.get(end) != Some(&b'.') {
+        let v = value as f64;
+        return (if negative { -v } else { v }, end);
+    }
     let mut end = start;
     while end < bytes.len() && (bytes[end].is_ascii_digit() || bytes[end] == b'.') {
         end += 1;
@@ -81,9 +96,17 @@ pub fn tokenize(line: &str, line_idx: usize) -> Result<Vec<Located>, JcampError>
             i += 1;
             continue;
         }
-        let column = line[..i].chars().count();
+        // Every byte before `i` was ASCII (anything else stops the tokenizer), so the byte
+        // index is the column in characters.
+        let column = i;
         // Whole-word not-a-number spellings, before they are taken for pseudo-digits.
-        if i == 0 || is_sep(bytes[i - 1]) {
+        let first_letter = match b {
+            b'+' | b'-' => bytes.get(i + 1).copied(),
+            _ => Some(b),
+        };
+        if matches!(first_letter, Some(b'n' | b'N' | b'i' | b'I'))
+            && (i == 0 || is_sep(bytes[i - 1]))
+        {
             let end = bytes[i..]
                 .iter()
                 .position(|&c| is_sep(c))
@@ -222,6 +245,10 @@ pub fn tokenize(line: &str, line_idx: usize) -> Result<Vec<Located>, JcampError>
 /// asking for billions of points.
 pub const MAX_DUP: u32 = 1_000_000;
 
+/// Largest number of ordinates a data record may expand to (a mid-IR spectrum has tens of
+/// thousands); a guard against DUP counts that would exhaust memory.
+pub const MAX_ORDINATES: usize = 10_000_000;
+
 /// Expands ordinate tokens into values. `start` is the value the first DIF may refer to
 /// (none at the start of a line). Returns the values and whether the last ordinate was
 /// written in DIF form (which makes the next line start with a Y-check value).
@@ -266,12 +293,14 @@ pub fn expand_ordinates(
                         JcampErrorKind::ZeroDup,
                     ));
                 }
-                if n > MAX_DUP {
+                if n > MAX_DUP || out.len() + n as usize > MAX_ORDINATES {
                     return Err(JcampError::at(
                         line_idx,
                         located.column,
                         JcampErrorKind::OutOfRange {
-                            what: format!("DUP count {n}; expected at most {MAX_DUP}"),
+                            what: format!(
+                                "DUP count {n}; expected at most {MAX_DUP} and at most {MAX_ORDINATES} ordinates in all"
+                            ),
                         },
                     ));
                 }

@@ -374,11 +374,14 @@ fn decode_xyy(
             first_index,
             decimals_of_first_value(text),
         ));
-        if ys.len() > 50_000_000 {
+        if ys.len() > asdf::MAX_ORDINATES {
             return Err(JcampError::on_line(
                 line_idx,
                 JcampErrorKind::OutOfRange {
-                    what: "more than 50 million ordinates; expected a spectrum".to_owned(),
+                    what: format!(
+                        "more than {} ordinates; expected a spectrum",
+                        asdf::MAX_ORDINATES
+                    ),
                 },
             ));
         }
