@@ -214,7 +214,15 @@ fn decimals_of_first_value(line: &str) -> i32 {
     }
 }
 
-/// Decodes the data of `block`: the first XYDATA, XYPOINTS or PEAK TABLE record.
+/// Decodes the data of `block`: the first XYDATA, XYPOINTS or PEAK TABLE record, scaled
+/// by XFACTOR and YFACTOR, with NPOINTS checked.
+///
+/// Grammar:
+/// ```text
+/// data record = "##XYDATA=" "(X++(Y..Y))" 1*xyy-line
+///             | ( "##XYDATA=" | "##XYPOINTS=" ) "(XY..XY)" 1*xy-line
+///             | "##PEAK TABLE=" ( "(XY..XY)" | "(XYW..XYW)" ) 1*xy-line
+/// ```
 pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
     let Some(record) = block
         .records
@@ -571,7 +579,12 @@ fn is_infrared(data_type: &str) -> bool {
     t.contains("INFRARED") || t.split_whitespace().next() == Some("IR")
 }
 
-/// Reads the first infrared spectrum of a JCAMP-DX text.
+/// Reads the first infrared spectrum of a JCAMP-DX text: picks the block, decodes its
+/// data, converts X to wavenumbers and normalises the ordinates, and summarises the header.
+///
+/// Grammar: `file = 1*block` with `block = "##TITLE=" ... "##END="` (see the module
+/// documentation); the block read is the first whose DATA TYPE contains INFRARED (or is
+/// IR…), else the first without a DATA TYPE, among blocks that hold data.
 pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, JcampError> {
     let blocks = read_blocks(src)?;
     let mut notes = Vec::new();
