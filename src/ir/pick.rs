@@ -376,7 +376,9 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
             at = top_at;
             height = top_height;
         }
-        let level = height - m.prominence / 2.0;
+        // Half prominence below the highest sample, the point the prominence is measured
+        // from (the fitted top can differ slightly and would shift the level).
+        let level = b - m.prominence / 2.0;
         let left = crossing(&smooth, i, m.left_base, level);
         let right = crossing(&smooth, i, m.right_base, level);
         let centre_index = (at - x[0]) / spacing;
