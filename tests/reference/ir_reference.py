@@ -8,8 +8,10 @@ needs no Python:
 * peaks_reference.tsv    - scipy.signal find_peaks / peak_prominences / peak_widths on an
                            invented noise-free spectrum (the same formula as
                            quiddity::ir::synth, Lorentzian and Gaussian bands)
+* asls_reference.tsv     - pybaselines.whittaker.asls (asymmetric least squares baseline,
+                           Eilers & Boelens 2005) on an invented trace
 
-Run:  python3 -m venv /tmp/irref && /tmp/irref/bin/pip install scipy numpy jcamp==1.3.2
+Run:  python3 -m venv /tmp/irref && /tmp/irref/bin/pip install scipy numpy jcamp==1.3.2 pybaselines==1.2.1
       /tmp/irref/bin/python tests/reference/ir_reference.py
 """
 
@@ -34,7 +36,8 @@ OUT = os.path.join(ROOT, "tests", "fixtures", "ir", "reference")
 def version_line():
     return (
         f"# python {sys.version.split()[0]}, numpy {np.__version__}, scipy {scipy.__version__}, "
-        f"jcamp {importlib.metadata.version('jcamp')}\n"
+        f"jcamp {importlib.metadata.version('jcamp')}, "
+        f"pybaselines {importlib.metadata.version('pybaselines')}\n"
     )
 
 
@@ -121,8 +124,25 @@ def peaks_table():
             f.write(f"{float(x[p])!r}\t{float(y[p])!r}\t{float(pr)!r}\t{float(wd)!r}\n")
 
 
+def asls_table():
+    from pybaselines.whittaker import asls
+
+    # Invented: a curved sloping baseline under two Gaussian bands, 400 points.
+    x = np.arange(400, dtype=float)
+    base = 0.1 + 0.0005 * x + 0.2 * np.sin(x / 150.0)
+    y = base + 1.0 * np.exp(-0.5 * ((x - 120.0) / 8.0) ** 2) + 0.6 * np.exp(-0.5 * ((x - 260.0) / 20.0) ** 2)
+    baseline, params = asls(y, lam=1e5, p=0.01, diff_order=2, max_iter=50, tol=0.0)
+    with open(os.path.join(OUT, "asls_reference.tsv"), "w") as f:
+        f.write(version_line())
+        f.write("# asls(y, lam=1e5, p=0.01, diff_order=2, max_iter=50, tol=0)\n")
+        f.write("x\ty\tbaseline\n")
+        for xi, yi, bi in zip(x, y, baseline):
+            f.write(f"{float(xi)!r}\t{float(yi)!r}\t{float(bi)!r}\n")
+
+
 if __name__ == "__main__":
     os.makedirs(OUT, exist_ok=True)
     jcamp_table()
     savgol_table()
     peaks_table()
+    asls_table()
