@@ -66,13 +66,13 @@ fn parse_region(text: &str) -> Result<(f64, f64), String> {
 struct BandView {
     at: f64,
     strength: Strength,
-    #[serde(skip_serializing_if = "Option::is_none")]
+    /// Always present (null when the width is unknown, as for a peak table), so scripts
+    /// can rely on the contract's three keys.
     shape: Option<crate::ir::Shape>,
     kind: BandKind,
     height: f64,
     relative_height: f64,
     prominence: f64,
-    #[serde(skip_serializing_if = "Option::is_none")]
     fwhm: Option<f64>,
 }
 
@@ -166,8 +166,8 @@ fn write_text(out: &mut dyn Write, origin: &str, picked: &PickedSpectrum) -> std
     if let Some(data_type) = &h.data_type {
         rows.push(("data type".to_owned(), data_type.clone()));
     }
-    for (label, value) in &h.fields {
-        rows.push((label.to_lowercase(), value.clone()));
+    for field in &h.fields {
+        rows.push((field.label.to_lowercase(), field.value.clone()));
     }
     if let Some(resolution) = &h.resolution {
         rows.push(("resolution".to_owned(), resolution.clone()));

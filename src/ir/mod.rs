@@ -26,7 +26,9 @@ pub mod synth;
 
 pub use band::{Band, Shape, Strength};
 pub use pick::{BandKind, PickParams, PickStats, PickedBand};
-pub use spectrum::{HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits};
+pub use spectrum::{
+    HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits,
+};
 
 use crate::diag::Diagnostic;
 use preprocess::AlsParams;

@@ -64,8 +64,8 @@ pub use ldr::{Block, Ldr};
 pub use write::{write_jcamp, JcampForm, WriteSpectrum};
 
 use super::spectrum::{
-    guess_ordinate, normalise_transmittance, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum,
-    SpectrumData, Trace, XUnits,
+    guess_ordinate, normalise_transmittance, HeaderField, HeaderSummary, Ordinate, ReadOptions,
+    ReadSpectrum, SpectrumData, Trace, XUnits,
 };
 use asdf::{expand_ordinates, tokenize, Token};
 
@@ -289,8 +289,7 @@ pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
             ));
         }
     }
-    if let Some(bad) = y.iter().chain(x.iter()).position(|v| !v.is_finite()) {
-        let _ = bad;
+    if y.iter().chain(x.iter()).any(|v| !v.is_finite()) {
         return Err(JcampError::on_line(
             record.line,
             JcampErrorKind::NotANumber {
@@ -753,7 +752,10 @@ pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, J
         .iter()
         .filter(|r| SUMMARY_LABELS.contains(&r.label.as_str()))
         .filter(|r| !r.full_value().trim().is_empty())
-        .map(|r| (r.raw_label.clone(), r.full_value()))
+        .map(|r| HeaderField {
+            label: r.raw_label.clone(),
+            value: r.full_value(),
+        })
         .collect();
     let header = HeaderSummary {
         format: match version {
