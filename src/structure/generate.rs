@@ -65,6 +65,10 @@ pub struct Summary {
     pub stopped: bool,
     /// Why there can be no structure at all (formula and groups disagree), when known.
     pub no_structure_reason: Option<String>,
+    /// Finished labelled graphs dropped because an equal aromatised structure was already
+    /// emitted: Kekulé forms of one aromatic ring. Zero for structures without benzene or
+    /// pyridine rings, which is what shows that the augmentation itself is exact.
+    pub duplicates_merged: u64,
 }
 
 /// One atom of a unit shape.
@@ -137,6 +141,7 @@ pub fn for_each_structure(
                     emitted: 0,
                     stopped: false,
                     no_structure_reason: Some(reason),
+                    duplicates_merged: 0,
                 })
             }
         },
@@ -146,6 +151,7 @@ pub fn for_each_structure(
         emitted: 0,
         stopped: false,
         no_structure_reason: None,
+        duplicates_merged: 0,
     };
     for problem in &problems {
         let mut run = Run {
@@ -153,6 +159,7 @@ pub fn for_each_structure(
             seen: &mut seen,
             visit: &mut visit,
             emitted: 0,
+            merged: 0,
         };
         let start_states = problem.start_states();
         let mut flow = ControlFlow::Continue(());
@@ -163,6 +170,7 @@ pub fn for_each_structure(
             }
         }
         summary.emitted += run.emitted;
+        summary.duplicates_merged += run.merged;
         if flow.is_break() {
             summary.stopped = true;
             break;
@@ -596,6 +604,7 @@ struct Run<'a, F: FnMut(Molecule) -> ControlFlow<()>> {
     seen: &'a mut HashSet<CanonicalKey>,
     visit: &'a mut F,
     emitted: u64,
+    merged: u64,
 }
 
 impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
@@ -819,6 +828,7 @@ impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
             }
         }
         if !self.seen.insert(CanonicalKey::of(&m)) {
+            self.merged += 1;
             return ControlFlow::Continue(());
         }
         self.emitted += 1;
