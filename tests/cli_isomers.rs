@@ -44,11 +44,11 @@ fn json_lists_every_structure_once() {
         [
             "CC(C)(C)O",
             "CC(C)CO",
-            "CC(C)OC",
             "CCC(C)O",
             "CCCCO",
-            "CCCOC",
-            "CCOCC"
+            "CCOCC",
+            "COC(C)C",
+            "COCCC"
         ]
     );
     assert_eq!(v["structures"][0]["features"]["alcohols"][0], "tertiary");
