@@ -723,9 +723,39 @@ impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
                 break;
             }
             chosen.push((a, b, order));
+            if self.lower_bound_cost(with, chosen) + i64::from(with.budget_used)
+                > i64::from(p.budget)
+            {
+                // Adding bonds never lowers the cost: no completion of `chosen` fits.
+                chosen.pop();
+                break;
+            }
             self.attachments(with, pairs, k + 1, chosen, out);
             chosen.pop();
         }
+    }
+
+    /// A lower bound on the budget the bonds `chosen` consume: every bond beyond the
+    /// first costs its order (group mode: 1), less one for each double bond that could
+    /// be a hypervalent S=O or P=O.
+    fn lower_bound_cost(&self, with: &State, chosen: &[(usize, usize, u8)]) -> i64 {
+        let p = self.problem;
+        let mut cost = -1i64;
+        for &(a, b, order) in chosen {
+            if !p.plain {
+                cost += 1;
+                continue;
+            }
+            cost += i64::from(order);
+            if order == 2 {
+                let (ea, eb) = (p.atom_spec(with, a).element, p.atom_spec(with, b).element);
+                let hyper = |x: Element| matches!(x, Element::S | Element::P);
+                if (ea == Element::O && hyper(eb)) || (eb == Element::O && hyper(ea)) {
+                    cost -= 1;
+                }
+            }
+        }
+        cost
     }
 
     /// The canonical-augmentation test. Returns the child's canonical form when the unit
