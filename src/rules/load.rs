@@ -61,7 +61,12 @@ where
     }
     let mut catalogue = loader.cross_check();
     catalogue.digest = digest(&files);
-    let diagnostics = loader.diagnostics;
+    let mut diagnostics = loader.diagnostics;
+    // File order, then place; problems without a file (a missing required id) come last.
+    diagnostics.sort_by(|a, b| {
+        let key = |d: &Diagnostic| (d.origin.starts_with('<'), d.origin.clone(), d.position);
+        key(a).cmp(&key(b))
+    });
     (catalogue, diagnostics)
 }
 
@@ -289,13 +294,22 @@ impl<'a> Loader<'a> {
         match yaml::deserialize_item::<T>(file.text, node) {
             Ok(raw) => Some(raw),
             Err(e) => {
-                let mut key_path = path_text(&place.path);
-                if let Some(inner) = &e.inner_path {
-                    key_path = format!("{key_path}.{inner}");
+                // Rebuild the full key path; an unknown key is located in the tree itself,
+                // so the caret sits on the misspelt key rather than on its mapping.
+                let mut inner = e.inner_path.as_deref().map(parse_path).unwrap_or_default();
+                let unknown_key = unknown_field(&e.message);
+                if let Some(key) = &unknown_key {
+                    inner.push(Step::Key(key.clone()));
                 }
-                let position = e
-                    .position
-                    .unwrap_or_else(|| Position::of_offset(file.text, node.offset));
+                let mut full = place.path.clone();
+                full.extend(inner.iter().cloned());
+                let key_path = path_text(&full);
+                let position = match (&unknown_key, e.position) {
+                    (Some(_), _) | (None, None) => {
+                        Position::of_offset(file.text, yaml::offset_of(node, &inner))
+                    }
+                    (None, Some(p)) => p,
+                };
                 let mut d = Diagnostic::error(file.name, e.message.clone())
                     .at(file.text, position)
                     .with_key_path(key_path);
@@ -822,6 +836,46 @@ impl<'a> Loader<'a> {
     }
 }
 
+/// The key named by serde's `unknown field "x", ...` message.
+fn unknown_field(message: &str) -> Option<String> {
+    let rest = message.strip_prefix("unknown field \"")?;
+    rest.split_once('"').map(|(word, _)| word.to_owned())
+}
+
+/// Parses serde_yaml's path text (`bands[0].range`) into steps.
+fn parse_path(text: &str) -> Vec<Step> {
+    let mut steps = Vec::new();
+    for part in text.split('.') {
+        let (key, indices) = match part.find('[') {
+            Some(i) => (&part[..i], &part[i..]),
+            None => (part, ""),
+        };
+        if !key.is_empty() {
+            steps.push(Step::Key(key.to_owned()));
+        }
+        for index in indices.split('[').filter(|s| !s.is_empty()) {
+            if let Ok(i) = index.trim_end_matches(']').parse() {
+                steps.push(Step::Index(i));
+            }
+        }
+    }
+    steps
+}
+
+/// The closest candidate to `word`: by edit distance, else a candidate with the same
+/// letters in another order (a transposition such as `rnage` for `range`).
+fn suggest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
+    closest_match(word, candidates.iter().copied()).or_else(|| {
+        let mut sorted: Vec<char> = word.chars().collect();
+        sorted.sort_unstable();
+        candidates.iter().copied().find(|c| {
+            let mut other: Vec<char> = c.chars().collect();
+            other.sort_unstable();
+            other == sorted
+        })
+    })
+}
+
 /// A "did you mean" hint for serde's unknown-field and unknown-variant messages, which
 /// read `unknown field "x", expected one of "a", "b"` (quotes already turned to `"`).
 fn suggest_from_serde(message: &str) -> Option<String> {
@@ -836,5 +890,5 @@ fn suggest_from_serde(message: &str) -> Option<String> {
         .filter(|(i, _)| i % 2 == 1)
         .map(|(_, s)| s)
         .collect();
-    closest_match(word, candidates).map(|s| format!("did you mean \"{s}\"?"))
+    suggest(word, &candidates).map(|s| format!("did you mean \"{s}\"?"))
 }
