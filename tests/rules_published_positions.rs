@@ -302,12 +302,19 @@ fn vapour_phase_moves_carbonyls_up_and_frees_o_h() {
         .is_some_and(|r| r.contains_within(1780.0, 0.0)));
 }
 
+/// A compound: its name, formula as (symbol, count) pairs and the groups it holds.
+type DbeCase = (
+    &'static str,
+    &'static [(&'static str, u32)],
+    &'static [&'static str],
+);
+
 #[test]
 fn group_dbe_adds_up_to_the_formula_dbe_of_known_compounds() {
     // common practice: DBE = 1 + ½ Σ n(v − 2) of the formula equals the rings plus pi
     // bonds, which the groups and plain rings account for.
     let c = catalogue();
-    let cases: &[(&str, &[(&str, u32)], &[&str])] = &[
+    let cases: &[DbeCase] = &[
         (
             "acetone",
             &[("C", 3), ("H", 6), ("O", 1)],
