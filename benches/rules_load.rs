@@ -1,6 +1,9 @@
 //! How long loading and validating the shipped catalogue takes (every `solve` pays it
 //! once), and how long one `rules at` look-up takes.
 
+// criterion_group! and criterion_main! generate undocumented public items.
+#![allow(missing_docs)]
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use quiddity::rules::{embedded_catalogue, load, rules_at, EMBEDDED_FILES};
 
