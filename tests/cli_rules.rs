@@ -190,7 +190,7 @@ fn list_text_marks_families() {
     );
     assert!(out
         .lines()
-        .any(|l| l.starts_with("ketone_saturated") && l.contains("(a ketone)")));
+        .any(|l| l.starts_with("ketone_saturated") && l.contains("(subtype of ketone)")));
 }
 
 #[test]
