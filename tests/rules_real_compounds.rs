@@ -44,7 +44,7 @@ const fn c(
     }
 }
 
-use Technique::{Film, Gas, Kbr};
+use Technique::{Film, Gas, Kbr, Mull};
 
 /// Band positions recalled from reference spectra (from memory); `S` = strong or medium.
 const COMPOUNDS: &[Compound] = &[
@@ -720,6 +720,36 @@ const COMPOUNDS: &[Compound] = &[
             (1280.0, S),
         ],
     ),
+    // Sample artefacts: a mineral-oil mull and a moist KBr pellet.
+    c(
+        "benzoic acid (mull)",
+        &["carboxylic_acid", "aromatic_ring"],
+        false,
+        Mull,
+        &[
+            (2920.0, S),
+            (2850.0, S),
+            (1685.0, S),
+            (1605.0, S),
+            (1460.0, S),
+            (1375.0, S),
+            (1290.0, S),
+        ],
+    ),
+    c(
+        "benzophenone (moist KBr)",
+        &["ketone_conjugated", "aromatic_ring", "aromatic_ring"],
+        false,
+        Kbr,
+        &[
+            (3420.0, S),
+            (3060.0, S),
+            (1660.0, S),
+            (1640.0, S),
+            (1600.0, S),
+            (1450.0, S),
+        ],
+    ),
     // Vapour phase (GC-IR), from memory of vapour-phase reference spectra (Nyquist, vol. 1).
     c(
         "acetic acid (vapour)",
@@ -920,4 +950,17 @@ fn the_checks_can_fail() {
         .bands;
     let as_alkane = c("toluene as ring", &["ring"], true, Film, toluene_bands);
     assert!(unexplained(&catalogue, &as_alkane).contains(&3030.0));
+    // Mull oil explains its C-H bands only when the technique is a mull.
+    let mull = COMPOUNDS
+        .iter()
+        .find(|c| c.name == "benzoic acid (mull)")
+        .expect("mull case");
+    let as_film = c(
+        "benzoic acid mull read as film",
+        &["aromatic_ring"],
+        false,
+        Film,
+        mull.bands,
+    );
+    assert!(unexplained(&catalogue, &as_film).contains(&2920.0));
 }
