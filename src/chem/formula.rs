@@ -271,6 +271,9 @@ pub enum FormulaErrorKind {
     /// Digits with nothing to multiply.
     #[error("a count must directly follow an element symbol or a closing bracket")]
     DetachedCount,
+    /// Input ended where an element symbol or a group was expected (`2`, `C.2`).
+    #[error("expected an element symbol or a group")]
+    ExpectedAtom,
     /// A dot with no formula part after it.
     #[error("expected a formula part after the adduct dot")]
     MissingPartAfterDot,
@@ -975,7 +978,7 @@ impl<'a> Parser<'a> {
 
     fn expected_unit_error(&self) -> FormulaError {
         match self.peek() {
-            None => self.error(FormulaErrorKind::Empty, self.pos),
+            None => self.error(FormulaErrorKind::ExpectedAtom, self.pos),
             Some(c) if c.is_ascii_digit() => self.error(FormulaErrorKind::DetachedCount, self.pos),
             Some(c) => self.error(FormulaErrorKind::UnexpectedChar { found: c }, self.pos),
         }
@@ -1293,6 +1296,8 @@ mod tests {
             ("C2H6O·", FormulaErrorKind::MissingPartAfterDot, 5),
             ("C+-", FormulaErrorKind::MixedSigns, 2),
             ("C 6", FormulaErrorKind::DetachedCount, 2),
+            ("2", FormulaErrorKind::ExpectedAtom, 1),
+            ("CuSO4·5", FormulaErrorKind::ExpectedAtom, 8),
             ("C6H6^2", FormulaErrorKind::MissingSign, 6),
             ("C+ H", FormulaErrorKind::UnexpectedChar { found: 'H' }, 3),
             (
