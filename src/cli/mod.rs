@@ -113,6 +113,7 @@ where
     match result {
         Ok(Status::Success) => ExitCode::from(0),
         Ok(Status::Negative) => ExitCode::from(1),
+        Err(failure) if failure.diagnostics.is_empty() => ExitCode::from(0),
         Err(failure) => {
             let mut err = std::io::stderr().lock();
             for d in &failure.diagnostics {
@@ -131,8 +132,15 @@ pub(crate) fn print_json<T: serde::Serialize>(out: &mut dyn Write, value: &T) ->
     Ok(Status::Success)
 }
 
-/// Turns a failed write to stdout into a failure.
+/// Turns a failed write to stdout into a failure. A reader that closed the pipe early
+/// (`quiddity ... | head`) is not an error of ours: that failure carries no diagnostics
+/// and ends the command quietly with status 0.
 pub(crate) fn io_failure(e: std::io::Error) -> Failure {
+    if e.kind() == std::io::ErrorKind::BrokenPipe {
+        return Failure {
+            diagnostics: Vec::new(),
+        };
+    }
     Diagnostic::error("<stdout>", format!("cannot write output: {e}")).into()
 }
 
