@@ -1,0 +1,152 @@
+//! Explanation of observed bands (DESIGN.md, evidence semantics 3 and 4).
+//!
+//! Every strong or medium band at or above 1500 cm⁻¹ must be explained by a band rule of
+//! a group of the candidate (any role), by a skeleton rule whose `needs_any` holds (a group
+//! of the candidate, or `sp3_carbon`: a skeleton carbon or a group holding a saturated
+//! C–H), by a fingerprint pattern of a group present, or by an artefact of the technique.
+//! Otherwise the candidate is ruled out. Weak bands and fingerprint bands are never
+//! demanded; unexplained, they lower the score.
+//!
+//! Explaining checks position and shape, not strength (a band stronger or weaker than
+//! usual is scored lower, not refused), so that real spectra with unusual intensities do
+//! not lose their true candidate.
+
+use super::super::model::{GroupData, Problem};
+use super::diagnostic_bands::explains;
+use crate::ir::{Band, Strength};
+use crate::rules::{Catalogue, Technique};
+
+/// Everything that could explain one observed band, found once per band.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct BandExplainers {
+    /// The band must be explained (strong or medium, diagnostic region).
+    pub demanded: bool,
+    /// Artefact rules (index, quality).
+    pub artefacts: Vec<(usize, f64)>,
+    /// Group band rules (concrete group index, rule index, quality).
+    pub groups: Vec<(usize, usize, f64)>,
+    /// Skeleton rules (index, quality).
+    pub skeleton: Vec<(usize, f64)>,
+    /// Pattern bands (pattern index, concrete groups it supports, quality).
+    pub patterns: Vec<(usize, Vec<usize>, f64)>,
+}
+
+/// True when a band of this strength and position must be explained.
+pub fn is_demanded(band: &Band) -> bool {
+    band.in_diagnostic_region() && band.strength != Strength::Weak
+}
+
+/// Finds every rule that can explain `band`.
+pub fn explainers_of(
+    band: &Band,
+    catalogue: &Catalogue,
+    groups: &[GroupData<'_>],
+    technique: Option<Technique>,
+    tolerance: f64,
+) -> BandExplainers {
+    let mut out = BandExplainers {
+        demanded: is_demanded(band),
+        ..BandExplainers::default()
+    };
+    for (i, a) in catalogue.artefacts.iter().enumerate() {
+        let technique_ok = a.techniques.is_empty() || technique.is_none_or(|t| a.techniques.contains(&t));
+        let shape_ok = super::diagnostic_bands::shape_compatible(band.shape, a.shape);
+        if technique_ok && shape_ok && a.range.contains_within(band.at, tolerance) {
+            let half = (a.range.hi - a.range.lo) / 2.0;
+            let q = 1.0 - (band.at - a.range.centre()).abs() / (half + tolerance);
+            out.artefacts.push((i, q.clamp(0.0, 1.0)));
+        }
+    }
+    for (gi, g) in groups.iter().enumerate() {
+        for (ri, rule) in g.group.bands.iter().enumerate() {
+            if let Some(q) = explains(band, rule, technique, tolerance) {
+                out.groups.push((gi, ri, q));
+            }
+        }
+    }
+    for (si, s) in catalogue.skeleton.iter().enumerate() {
+        if let Some(q) = explains(band, &s.band, technique, tolerance) {
+            out.skeleton.push((si, q));
+        }
+    }
+    for (pi, p) in catalogue.patterns.iter().enumerate() {
+        let supported: Vec<usize> = (0..groups.len())
+            .filter(|&j| groups[j].lineage.contains(&p.supports))
+            .collect();
+        let best = p
+            .bands
+            .iter()
+            .filter_map(|r| explains(band, r, technique, tolerance))
+            .fold(None, |acc: Option<f64>, q| Some(acc.map_or(q, |a| a.max(q))));
+        if let Some(q) = best {
+            out.patterns.push((pi, supported, q));
+        }
+    }
+    out
+}
+
+/// What the candidate's hydrogens must provide for a band that only the skeleton
+/// explains.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct HydrogenNeeds {
+    /// At least one H on a saturated carbon (skeleton, or a group holding sp3 C–H).
+    pub sp3_h: bool,
+    /// At least one H on an open `carbon_or_h` position of one of these groups (sp2 C–H).
+    pub h_on_groups: Option<Vec<usize>>,
+}
+
+/// Whether skeleton rule `si` applies to the candidate.
+pub fn skeleton_applies(problem: &Problem<'_>, si: usize, counts: &[u32], skeleton_c: u32) -> bool {
+    let (needs, sp3) = &problem.skeleton_needs[si];
+    (*sp3 && (skeleton_c > 0 || counts.iter().zip(&problem.groups).any(|(n, g)| *n > 0 && g.sp3_ch)))
+        || needs.iter().any(|&j| counts[j] > 0)
+}
+
+/// Checks every demanded band; returns the unexplained ones (active band indices) and
+/// the hydrogen needs of bands only the skeleton explains.
+pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> (Vec<usize>, HydrogenNeeds) {
+    let mut unexplained = Vec::new();
+    let mut needs = HydrogenNeeds::default();
+    for (bi, ex) in problem.explainers.iter().enumerate() {
+        if !ex.demanded || !ex.artefacts.is_empty() {
+            continue;
+        }
+        if ex.groups.iter().any(|(g, _, _)| counts[*g] > 0)
+            || ex.patterns.iter().any(|(_, gs, _)| gs.iter().any(|&g| counts[g] > 0))
+        {
+            continue;
+        }
+        let applicable: Vec<usize> = ex
+            .skeleton
+            .iter()
+            .map(|(si, _)| *si)
+            .filter(|&si| skeleton_applies(problem, si, counts, skeleton_c))
+            .collect();
+        if applicable.is_empty() {
+            unexplained.push(bi);
+            continue;
+        }
+        let all_sp3 = applicable.iter().all(|&si| problem.skeleton_needs[si].1);
+        let none_sp3 = applicable.iter().all(|&si| !problem.skeleton_needs[si].1);
+        if all_sp3 {
+            needs.sp3_h = true;
+        } else if none_sp3 {
+            let carriers: Vec<usize> = applicable
+                .iter()
+                .flat_map(|&si| problem.skeleton_needs[si].0.iter().copied())
+                .filter(|&g| counts[g] > 0)
+                .collect();
+            needs.h_on_groups = Some(carriers);
+        }
+    }
+    (unexplained, needs)
+}
+
+/// Words for an unexplained band.
+pub fn describe_unexplained(band: &Band) -> String {
+    let shape = band.shape.map(|s| format!(" {s}")).unwrap_or_default();
+    format!(
+        "the {}{shape} band at {:.0} cm⁻¹ is left unexplained (no group, skeleton or artefact rule covers it)",
+        band.strength, band.at
+    )
+}
