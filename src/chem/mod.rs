@@ -2,5 +2,16 @@
 //! Knows nothing of IR or of functional groups.
 
 pub mod composition;
+pub mod elements;
+pub mod formula;
+pub mod isotopes;
 
 pub use composition::Composition;
+pub use elements::{Element, Isotope, ELECTRON_MASS};
+pub use formula::{
+    Atom, Formula, FormulaArithmeticError, FormulaError, FormulaErrorKind, LewisCheck,
+    NitrogenRule, SeniorCheck,
+};
+pub use isotopes::{
+    aggregated_pattern, fine_structure_pattern, IsotopePattern, Peak, RelativePeak,
+};
