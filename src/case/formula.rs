@@ -1,76 +1,39 @@
-//! The formula text of a case file turned into element counts. Kept in one function so
-//! that the chemistry core's full parser can take over without touching the rest.
+//! The formula text of a case file turned into a neutral molecular formula by the
+//! chemistry core's parser; kept in one function so the case layer has one seam to chem.
 
-use crate::chem::composition::standard_valence;
-use crate::chem::Composition;
+use crate::chem::{Composition, Formula};
 
-/// Parses `C8H8O`-style formulas (element symbols with optional counts, parentheses with
-/// multipliers). Message on failure, lower case.
-pub fn parse_formula(text: &str) -> Result<Composition, String> {
-    let chars: Vec<char> = text.chars().filter(|c| !c.is_whitespace()).collect();
-    let mut stack: Vec<Composition> = vec![Composition::new()];
-    let mut i = 0;
-    let read_count = |i: &mut usize| -> Result<u32, String> {
-        let start = *i;
-        while *i < chars.len() && chars[*i].is_ascii_digit() {
-            *i += 1;
-        }
-        if start == *i {
-            return Ok(1);
-        }
-        let digits: String = chars[start..*i].iter().collect();
-        digits
-            .parse::<u32>()
-            .ok()
-            .filter(|n| *n <= 100_000)
-            .ok_or_else(|| format!("count {digits} is too large"))
-    };
-    while i < chars.len() {
-        let c = chars[i];
-        if c == '(' {
-            stack.push(Composition::new());
-            i += 1;
-        } else if c == ')' {
-            if stack.len() < 2 {
-                return Err("unbalanced \")\"".into());
-            }
-            i += 1;
-            let n = read_count(&mut i)?;
-            let inner = stack.pop().ok_or("unbalanced \")\"")?;
-            let outer = stack.last_mut().ok_or("unbalanced \")\"")?;
-            for (s, k) in inner.iter() {
-                outer.add(s, k * n);
-            }
-        } else if c.is_ascii_uppercase() {
-            let mut symbol = c.to_string();
-            i += 1;
-            if i < chars.len() && chars[i].is_ascii_lowercase() {
-                symbol.push(chars[i]);
-                i += 1;
-            }
-            if standard_valence(&symbol).is_none() {
-                return Err(format!("unknown element symbol \"{symbol}\""));
-            }
-            let n = read_count(&mut i)?;
-            let symbol = if symbol == "D" {
-                "H".to_owned()
-            } else {
-                symbol
-            };
-            stack.last_mut().ok_or("unbalanced \")\"")?.add(&symbol, n);
-        } else {
-            return Err(format!(
-                "unexpected character \"{c}\" at position {}",
-                i + 1
-            ));
-        }
+/// A formula problem: message, 0-based byte offset inside the formula text, hint.
+pub struct FormulaProblem {
+    /// Lower-case message.
+    pub message: String,
+    /// Offset inside the formula text, when known.
+    pub offset: Option<usize>,
+    /// Hint.
+    pub help: Option<String>,
+}
+
+/// Parses a neutral molecular formula (any notation the chemistry core accepts).
+pub fn parse_formula(text: &str) -> Result<(Formula, Composition), FormulaProblem> {
+    let formula = Formula::parse(text).map_err(|e| FormulaProblem {
+        message: e.kind.to_string(),
+        offset: Some(e.offset),
+        help: e.kind.hint(),
+    })?;
+    if formula.charge() != 0 {
+        return Err(FormulaProblem {
+            message: "the case formula is the neutral molecule; give the ion under ms.ion".into(),
+            offset: None,
+            help: None,
+        });
     }
-    if stack.len() != 1 {
-        return Err("unbalanced \"(\"".into());
+    let composition = formula.composition();
+    if composition.dbe().is_none() {
+        return Err(FormulaProblem {
+            message: "an element of the formula has no standard valence".into(),
+            offset: None,
+            help: None,
+        });
     }
-    let composition = stack.pop().unwrap_or_default();
-    if composition.n_atoms() == 0 {
-        return Err("empty formula".into());
-    }
-    Ok(composition)
+    Ok((formula, composition))
 }

@@ -33,6 +33,8 @@ impl Place {
 pub struct StatedFormula {
     /// The text as written.
     pub text: String,
+    /// The parsed formula (masses, isotope pattern).
+    pub formula: crate::chem::Formula,
     /// Element counts.
     pub composition: Composition,
     /// Where it was written.

@@ -73,7 +73,7 @@ fn bad_inputs_are_reported_with_place_key_path_and_hint() {
         (
             "formula: C3H6O",
             "formula: C3H6Xq",
-            "error: t.yaml:4:1: formula: invalid formula \"C3H6Xq\": unknown element symbol \"Xq\"",
+            "error: t.yaml:4:14: formula: invalid formula \"C3H6Xq\": unknown element symbol \"Xq\"",
             None,
         ),
         (

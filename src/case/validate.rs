@@ -59,17 +59,27 @@ pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Di
     let formula = raw.formula.as_ref().and_then(|text| {
         let path = KeyPath::key("formula");
         match super::formula::parse_formula(text) {
-            Ok(composition) => Some(StatedFormula {
+            Ok((formula, composition)) => Some(StatedFormula {
                 text: text.clone(),
+                formula,
                 composition,
                 place: ctx.place(&path),
             }),
-            Err(message) => {
-                ctx.error(
-                    &path,
-                    format!("invalid formula \"{text}\": {message}"),
-                    None,
-                );
+            Err(problem) => {
+                let mut d = Diagnostic::error(origin, format!("invalid formula \"{text}\": {}", problem.message))
+                    .with_key_path("formula");
+                let key_offset = locate(src, &path);
+                // Point into the formula text itself when the parser says where.
+                let value_offset = key_offset.and_then(|k| src[k..].find(text.as_str()).map(|v| k + v));
+                match (value_offset, problem.offset, key_offset) {
+                    (Some(v), Some(o), _) => d = d.at_offset(src, v + o),
+                    (_, _, Some(k)) => d = d.at_offset(src, k),
+                    _ => {}
+                }
+                if let Some(h) = problem.help {
+                    d = d.with_help(h);
+                }
+                ctx.diagnostics.push(d);
                 None
             }
         }

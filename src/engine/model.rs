@@ -157,7 +157,9 @@ impl<'c> Problem<'c> {
                     }
                     match elements.iter().position(|e| e == s) {
                         Some(i) => hetero.push((i, n)),
-                        None => foreign_element = Some(s.to_owned()),
+                        // Without a formula no element is foreign.
+                        None if formula.is_some() => foreign_element = Some(s.to_owned()),
+                        None => {}
                     }
                 }
                 let presence = if case.ir.is_none() {
