@@ -49,7 +49,10 @@ pub fn explainers_of(
         ..BandExplainers::default()
     };
     for (i, a) in catalogue.artefacts.iter().enumerate() {
-        let technique_ok = a.techniques.is_empty() || technique.is_none_or(|t| a.techniques.contains(&t));
+        // A technique-specific artefact (moisture in KBr) applies only when the case states
+        // that technique: otherwise a broad 3400 band would always be excusable and an
+        // alcohol could never be told from an ether.
+        let technique_ok = a.techniques.is_empty() || technique.is_some_and(|t| a.techniques.contains(&t));
         let shape_ok = super::diagnostic_bands::shape_compatible(band.shape, a.shape);
         if technique_ok && shape_ok && a.range.contains_within(band.at, tolerance) {
             let half = (a.range.hi - a.range.lo) / 2.0;
