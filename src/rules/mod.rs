@@ -1,11 +1,20 @@
 //! The rules catalogue: functional groups with their atoms, unsaturation, open bonds, IR
 //! bands and MS clues; skeleton, artefact, pattern and technique rules. Data plus its
-//! schema: `model` is the validated form the engine consumes.
+//! schema: `raw` mirrors the YAML, `load` validates it into `model`, the validated form
+//! the engine consumes; `embedded` holds the shipped `rules/*.yaml`; `lookup` answers
+//! "which rules cover this wavenumber".
 
+pub mod embedded;
+pub mod load;
+pub mod lookup;
 pub mod model;
+pub mod raw;
+mod yaml;
 
+pub use embedded::{embedded_catalogue, EMBEDDED_FILES};
+pub use load::{digest, load, load_checked, MAX_WAVENUMBER, MIN_WAVENUMBER, SP3_CARBON};
+pub use lookup::{rules_at, Coverage, CoverageKind};
 pub use model::*;
-
 /// Group ids every catalogue must define, with the meaning the trade gives the name
 /// (DESIGN.md, "Contracts"). Finer subtypes map onto these through `subtype_of`.
 pub const REQUIRED_GROUP_IDS: &[&str] = &[
