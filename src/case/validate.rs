@@ -66,11 +66,15 @@ pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Di
                 place: ctx.place(&path),
             }),
             Err(problem) => {
-                let mut d = Diagnostic::error(origin, format!("invalid formula \"{text}\": {}", problem.message))
-                    .with_key_path("formula");
+                let mut d = Diagnostic::error(
+                    origin,
+                    format!("invalid formula \"{text}\": {}", problem.message),
+                )
+                .with_key_path("formula");
                 let key_offset = locate(src, &path);
                 // Point into the formula text itself when the parser says where.
-                let value_offset = key_offset.and_then(|k| src[k..].find(text.as_str()).map(|v| k + v));
+                let value_offset =
+                    key_offset.and_then(|k| src[k..].find(text.as_str()).map(|v| k + v));
                 match (value_offset, problem.offset, key_offset) {
                     (Some(v), Some(o), _) => d = d.at_offset(src, v + o),
                     (_, _, Some(k)) => d = d.at_offset(src, k),

@@ -35,7 +35,12 @@ pub fn all_items(case: &Case) -> Vec<EvidenceItem> {
 }
 
 /// True when some candidate meets every item not in `set_aside`.
-pub fn consistent(case: &Case, catalogue: &Catalogue, options: &SolveOptions, set_aside: &BTreeSet<EvidenceItem>) -> bool {
+pub fn consistent(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    set_aside: &BTreeSet<EvidenceItem>,
+) -> bool {
     let problem = Problem::new(case, catalogue, options, set_aside);
     if problem.formula.is_none() {
         return free_composition_feasible(&problem);
@@ -82,7 +87,10 @@ fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth:
         ex.demanded
             && ex.artefacts.is_empty()
             && !ex.groups.iter().any(|(g, _, _)| chosen[*g] > 0)
-            && !ex.patterns.iter().any(|(_, gs, _)| gs.iter().any(|&g| chosen[g] > 0))
+            && !ex
+                .patterns
+                .iter()
+                .any(|(_, gs, _)| gs.iter().any(|&g| chosen[g] > 0))
             && !ex.skeleton.iter().any(|(s, _)| {
                 let (needs, sp3) = &problem.skeleton_needs[*s];
                 *sp3 || needs.iter().any(|&g| chosen[g] > 0)
@@ -134,7 +142,11 @@ fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth:
 
 /// The deletion filter: a minimal inconsistent subset of the case's evidence, or `None`
 /// when the whole evidence is consistent.
-pub fn minimal_conflict(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Option<Vec<EvidenceItem>> {
+pub fn minimal_conflict(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+) -> Option<Vec<EvidenceItem>> {
     let items = all_items(case);
     if consistent(case, catalogue, options, &BTreeSet::new()) {
         return None;
@@ -142,7 +154,10 @@ pub fn minimal_conflict(case: &Case, catalogue: &Catalogue, options: &SolveOptio
     let mut keep: Vec<EvidenceItem> = items.clone();
     for item in items {
         let trial: Vec<EvidenceItem> = keep.iter().copied().filter(|i| *i != item).collect();
-        let set_aside: BTreeSet<EvidenceItem> = all_items(case).into_iter().filter(|i| !trial.contains(i)).collect();
+        let set_aside: BTreeSet<EvidenceItem> = all_items(case)
+            .into_iter()
+            .filter(|i| !trial.contains(i))
+            .collect();
         if !consistent(case, catalogue, options, &set_aside) {
             keep = trial;
         }
@@ -156,36 +171,48 @@ pub fn describe_item(case: &Case, item: EvidenceItem) -> String {
         EvidenceItem::Formula => case.formula.as_ref().map_or_else(
             || "formula".into(),
             |f| {
-                let dbe = f.composition.dbe().map(|d| format!(", DBE {d}")).unwrap_or_default();
+                let dbe = f
+                    .composition
+                    .dbe()
+                    .map(|d| format!(", DBE {d}"))
+                    .unwrap_or_default();
                 format!("formula {}{dbe} ({})", f.composition, f.place.display())
             },
         ),
-        EvidenceItem::Band(i) => case
-            .ir
-            .as_ref()
-            .and_then(|ir| ir.bands.get(i))
-            .map_or_else(
-                || format!("ir.bands[{i}]"),
-                |b| {
-                    let shape = b.band.shape.map(|s| format!(" {s}")).unwrap_or_default();
-                    format!(
-                        "band at {:.0} cm⁻¹, {}{shape} ({}, {})",
-                        b.band.at,
-                        b.band.strength,
-                        b.place.key_path,
-                        b.place.display()
-                    )
-                },
-            ),
+        EvidenceItem::Band(i) => case.ir.as_ref().and_then(|ir| ir.bands.get(i)).map_or_else(
+            || format!("ir.bands[{i}]"),
+            |b| {
+                let shape = b.band.shape.map(|s| format!(" {s}")).unwrap_or_default();
+                format!(
+                    "band at {:.0} cm⁻¹, {}{shape} ({}, {})",
+                    b.band.at,
+                    b.band.strength,
+                    b.place.key_path,
+                    b.place.display()
+                )
+            },
+        ),
         EvidenceItem::MolecularIon => case
             .ms
             .as_ref()
-            .and_then(|m| m.molecular_ion.as_ref().map(|(mz, p)| format!("molecular ion m/z {mz} as {} ({})", m.ion.word(), p.display())))
+            .and_then(|m| {
+                m.molecular_ion.as_ref().map(|(mz, p)| {
+                    format!(
+                        "molecular ion m/z {mz} as {} ({})",
+                        m.ion.word(),
+                        p.display()
+                    )
+                })
+            })
             .unwrap_or_else(|| "molecular ion".into()),
         EvidenceItem::MPlus2 => case
             .ms
             .as_ref()
-            .and_then(|m| m.m_plus_2.as_ref().map(|(v, p)| format!("M+2 at {v}% of M ({})", p.display())))
+            .and_then(|m| {
+                m.m_plus_2
+                    .as_ref()
+                    .map(|(v, p)| format!("M+2 at {v}% of M ({})", p.display()))
+            })
             .unwrap_or_else(|| "M+2".into()),
     }
 }
@@ -201,19 +228,34 @@ pub fn suggested_causes(case: &Case, items: &[EvidenceItem]) -> Vec<String> {
         })
         .collect();
     let has_formula = items.contains(&EvidenceItem::Formula);
-    let has_ms = items.iter().any(|i| matches!(i, EvidenceItem::MolecularIon | EvidenceItem::MPlus2));
+    let has_ms = items
+        .iter()
+        .any(|i| matches!(i, EvidenceItem::MolecularIon | EvidenceItem::MPlus2));
     if has_formula {
-        out.push("wrong formula: re-check the elemental analysis or the molecular-ion assignment".to_owned());
+        out.push(
+            "wrong formula: re-check the elemental analysis or the molecular-ion assignment"
+                .to_owned(),
+        );
     }
-    if bands.iter().any(|b| (b.band.at >= 3200.0 && b.band.at <= 3600.0) || (b.band.at >= 1600.0 && b.band.at <= 1660.0)) {
-        out.push("wet sample: water absorbs near 3400 (broad) and 1640 cm⁻¹; dry the sample or the KBr".to_owned());
+    if bands.iter().any(|b| {
+        (b.band.at >= 3200.0 && b.band.at <= 3600.0) || (b.band.at >= 1600.0 && b.band.at <= 1660.0)
+    }) {
+        out.push(
+            "wet sample: water absorbs near 3400 (broad) and 1640 cm⁻¹; dry the sample or the KBr"
+                .to_owned(),
+        );
     }
     if !bands.is_empty() {
         out.push("mixture: bands of a second compound, a solvent or a reagent residue".to_owned());
-        out.push("miscalibrated wavenumber axis: check against a polystyrene film reference".to_owned());
+        out.push(
+            "miscalibrated wavenumber axis: check against a polystyrene film reference".to_owned(),
+        );
     }
     if has_ms {
-        out.push("wrong ion type or mass calibration: check the adduct assignment and the lock mass".to_owned());
+        out.push(
+            "wrong ion type or mass calibration: check the adduct assignment and the lock mass"
+                .to_owned(),
+        );
     }
     out
 }

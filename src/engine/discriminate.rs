@@ -8,26 +8,82 @@ use crate::rules::MsClueKind;
 
 /// Wet tests and NMR regions by family id (common practice, from memory).
 const FAMILY_TESTS: &[(&str, &str, &str)] = &[
-    ("aldehyde", "wet_test", "Tollens' or Fehling's test positive (aldehyde, not ketone)"),
-    ("aldehyde", "nmr", "1H NMR: CHO singlet or triplet near 9.4–10.1 ppm"),
-    ("ketone", "wet_test", "2,4-DNP precipitate with a negative Tollens' test (ketone)"),
-    ("carboxylic_acid", "wet_test", "effervescence with aqueous NaHCO3 (acid)"),
-    ("carboxylic_acid", "nmr", "1H NMR: exchangeable COOH near 10–13 ppm"),
+    (
+        "aldehyde",
+        "wet_test",
+        "Tollens' or Fehling's test positive (aldehyde, not ketone)",
+    ),
+    (
+        "aldehyde",
+        "nmr",
+        "1H NMR: CHO singlet or triplet near 9.4–10.1 ppm",
+    ),
+    (
+        "ketone",
+        "wet_test",
+        "2,4-DNP precipitate with a negative Tollens' test (ketone)",
+    ),
+    (
+        "carboxylic_acid",
+        "wet_test",
+        "effervescence with aqueous NaHCO3 (acid)",
+    ),
+    (
+        "carboxylic_acid",
+        "nmr",
+        "1H NMR: exchangeable COOH near 10–13 ppm",
+    ),
     ("ester", "nmr", "1H NMR: O–CH near 3.6–4.3 ppm"),
-    ("alcohol", "nmr", "1H NMR: exchangeable O–H that vanishes on D2O shake"),
-    ("alcohol", "wet_test", "ceric ammonium nitrate test colour change (alcohol)"),
+    (
+        "alcohol",
+        "nmr",
+        "1H NMR: exchangeable O–H that vanishes on D2O shake",
+    ),
+    (
+        "alcohol",
+        "wet_test",
+        "ceric ammonium nitrate test colour change (alcohol)",
+    ),
     ("phenol", "wet_test", "violet colour with FeCl3 (phenol)"),
-    ("ether", "nmr", "1H NMR: O–CH near 3.3–4.0 ppm with no exchangeable H"),
-    ("amine_primary", "wet_test", "Hinsberg test: sulfonamide soluble in base (primary amine)"),
-    ("amine_secondary", "wet_test", "Hinsberg test: sulfonamide insoluble in base (secondary amine)"),
-    ("amine_tertiary", "wet_test", "Hinsberg test: no sulfonamide (tertiary amine)"),
-    ("alkene", "wet_test", "decolourises bromine water or dilute KMnO4 (C=C)"),
-    ("aromatic_ring", "nmr", "1H NMR: aromatic H near 6.5–8.5 ppm"),
+    (
+        "ether",
+        "nmr",
+        "1H NMR: O–CH near 3.3–4.0 ppm with no exchangeable H",
+    ),
+    (
+        "amine_primary",
+        "wet_test",
+        "Hinsberg test: sulfonamide soluble in base (primary amine)",
+    ),
+    (
+        "amine_secondary",
+        "wet_test",
+        "Hinsberg test: sulfonamide insoluble in base (secondary amine)",
+    ),
+    (
+        "amine_tertiary",
+        "wet_test",
+        "Hinsberg test: no sulfonamide (tertiary amine)",
+    ),
+    (
+        "alkene",
+        "wet_test",
+        "decolourises bromine water or dilute KMnO4 (C=C)",
+    ),
+    (
+        "aromatic_ring",
+        "nmr",
+        "1H NMR: aromatic H near 6.5–8.5 ppm",
+    ),
     ("alkyne_terminal", "nmr", "1H NMR: ≡C–H near 1.8–3.1 ppm"),
 ];
 
 /// Checks separating the best candidate from each of the next ones (at most `limit`).
-pub fn checks(problem: &Problem<'_>, ranked: &[(Vec<u32>, u32)], limit: usize) -> Vec<DiscriminatingCheck> {
+pub fn checks(
+    problem: &Problem<'_>,
+    ranked: &[(Vec<u32>, u32)],
+    limit: usize,
+) -> Vec<DiscriminatingCheck> {
     let mut out = Vec::new();
     let Some((top, _)) = ranked.first() else {
         return out;
@@ -53,7 +109,10 @@ pub fn checks(problem: &Problem<'_>, ranked: &[(Vec<u32>, u32)], limit: usize) -
                         continue;
                     }
                     let b_has = problem.groups.iter().zip(b.iter()).any(|(x, n)| {
-                        *n > 0 && x.group.bands.iter().any(|r2| r2.range.lo <= rule.range.hi && r2.range.hi >= rule.range.lo)
+                        *n > 0
+                            && x.group.bands.iter().any(|r2| {
+                                r2.range.lo <= rule.range.hi && r2.range.hi >= rule.range.lo
+                            })
                     });
                     if !b_has {
                         out.push(DiscriminatingCheck {
@@ -74,16 +133,23 @@ pub fn checks(problem: &Problem<'_>, ranked: &[(Vec<u32>, u32)], limit: usize) -
                     };
                     out.push(DiscriminatingCheck {
                         between: [a_rank.min(b_rank), a_rank.max(b_rank)],
-                        observation: format!("MS: {what} ({}) supports {} (rank {a_rank})", clue.label, g.group.id),
+                        observation: format!(
+                            "MS: {what} ({}) supports {} (rank {a_rank})",
+                            clue.label, g.group.id
+                        ),
                         favours: a_rank,
                         kind: "ms".into(),
                     });
                 }
                 for (family, kind, text) in FAMILY_TESTS {
-                    if g.lineage.iter().any(|l| l == family) && !b_families.iter().any(|f| f == family) {
+                    if g.lineage.iter().any(|l| l == family)
+                        && !b_families.iter().any(|f| f == family)
+                    {
                         out.push(DiscriminatingCheck {
                             between: [a_rank.min(b_rank), a_rank.max(b_rank)],
-                            observation: format!("{text} — expected for rank {a_rank}, not rank {b_rank}"),
+                            observation: format!(
+                                "{text} — expected for rank {a_rank}, not rank {b_rank}"
+                            ),
                             favours: a_rank,
                             kind: (*kind).into(),
                         });

@@ -110,11 +110,11 @@ where
         for &(e, n) in &d.hetero {
             max = max.min(self.hetero_left[e] / n);
         }
-        if d.c > 0 {
-            max = max.min(c_left / d.c);
+        if let Some(m) = c_left.checked_div(d.c) {
+            max = max.min(m);
         }
-        if d.group.dbe > 0 {
-            max = max.min(dbe_left / d.group.dbe);
+        if let Some(m) = dbe_left.checked_div(d.group.dbe) {
+            max = max.min(m);
         }
         if max == u32::MAX {
             // A group with no heteroatom, no carbon and no DBE cannot be counted.

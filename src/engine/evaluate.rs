@@ -68,11 +68,17 @@ pub fn describe(problem: &Problem<'_>, failure: &Failure) -> String {
             format!(
                 "{}: {}",
                 g.id,
-                super::constraints::diagnostic_bands::describe_missing(rule, problem.technique, problem.tolerance)
+                super::constraints::diagnostic_bands::describe_missing(
+                    rule,
+                    problem.technique,
+                    problem.tolerance
+                )
             )
         }
         Failure::Relation(r) => r.clone(),
-        Failure::Unexplained(b) => band_explanation::describe_unexplained(&problem.bands[*b].1.band),
+        Failure::Unexplained(b) => {
+            band_explanation::describe_unexplained(&problem.bands[*b].1.band)
+        }
         Failure::Bonds(r) => format!("bonds: {r}"),
     }
 }

@@ -185,7 +185,11 @@ fn round3(x: f64) -> f64 {
 
 /// Every concrete group that no candidate holds, with the decisive evidence, plus family
 /// entries for abstract groups whose every member is ruled out.
-pub fn ruled_out(problem: &Problem<'_>, in_some_candidate: &[bool], enumeration_complete: bool) -> Vec<RuledOut> {
+pub fn ruled_out(
+    problem: &Problem<'_>,
+    in_some_candidate: &[bool],
+    enumeration_complete: bool,
+) -> Vec<RuledOut> {
     let mut out = Vec::new();
     let mut excluded = vec![false; problem.groups.len()];
     for (gi, g) in problem.groups.iter().enumerate() {
@@ -204,15 +208,11 @@ pub fn ruled_out(problem: &Problem<'_>, in_some_candidate: &[bool], enumeration_
         } else if let Some(rules) = g.presence.missing.first() {
             excluded[gi] = true;
             let rule = &g.group.bands[rules[0]];
-            let nearest = problem
-                .bands
-                .iter()
-                .map(|(_, b)| b)
-                .min_by(|a, b| {
-                    (a.band.at - rule.range.centre())
-                        .abs()
-                        .total_cmp(&(b.band.at - rule.range.centre()).abs())
-                });
+            let nearest = problem.bands.iter().map(|(_, b)| b).min_by(|a, b| {
+                (a.band.at - rule.range.centre())
+                    .abs()
+                    .total_cmp(&(b.band.at - rule.range.centre()).abs())
+            });
             let mut evidence = vec!["ir.bands".to_owned()];
             if let Some(n) = nearest {
                 evidence.push(format!(
@@ -225,8 +225,17 @@ pub fn ruled_out(problem: &Problem<'_>, in_some_candidate: &[bool], enumeration_
             out.push(RuledOut {
                 group: g.group.id.clone(),
                 family: false,
-                reason: diagnostic_bands::describe_missing(rule, problem.technique, problem.tolerance),
-                rule: Some(format!("{}: {} ({})", g.group.id, rule.label, at(&rule.defined_at))),
+                reason: diagnostic_bands::describe_missing(
+                    rule,
+                    problem.technique,
+                    problem.tolerance,
+                ),
+                rule: Some(format!(
+                    "{}: {} ({})",
+                    g.group.id,
+                    rule.label,
+                    at(&rule.defined_at)
+                )),
                 evidence,
             });
         } else if enumeration_complete {
@@ -246,7 +255,13 @@ pub fn ruled_out(problem: &Problem<'_>, in_some_candidate: &[bool], enumeration_
             continue;
         }
         let members: Vec<usize> = (0..problem.groups.len())
-            .filter(|&i| problem.groups[i].lineage.iter().skip(1).any(|l| *l == parent.id))
+            .filter(|&i| {
+                problem.groups[i]
+                    .lineage
+                    .iter()
+                    .skip(1)
+                    .any(|l| *l == parent.id)
+            })
             .collect();
         if members.is_empty() || !members.iter().all(|&i| excluded[i]) {
             continue;
@@ -261,7 +276,11 @@ pub fn ruled_out(problem: &Problem<'_>, in_some_candidate: &[bool], enumeration_
         let reason = if reasons.len() == 1 {
             format!("{}: every {} ruled out", reasons[0], parent.id)
         } else {
-            format!("every {} ruled out ({} members, see each)", parent.id, members.len())
+            format!(
+                "every {} ruled out ({} members, see each)",
+                parent.id,
+                members.len()
+            )
         };
         out.push(RuledOut {
             group: parent.id.clone(),

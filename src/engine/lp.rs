@@ -23,7 +23,11 @@ pub fn min_group_instances(problem: &Problem<'_>, allowed: &[usize]) -> Option<u
     for (e, &target) in problem.formula_hetero.iter().enumerate() {
         let mut lhs = Expression::from(0.0);
         for (k, &g) in allowed.iter().enumerate() {
-            let n = problem.groups[g].hetero.iter().find(|(el, _)| *el == e).map_or(0, |(_, n)| *n);
+            let n = problem.groups[g]
+                .hetero
+                .iter()
+                .find(|(el, _)| *el == e)
+                .map_or(0, |(_, n)| *n);
             lhs += f64::from(n) * x[k];
         }
         model = model.with(constraint!(lhs == f64::from(target)));

@@ -79,7 +79,11 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
     if let Some((mz, _)) = &ms_e.molecular_ion {
         if !set_aside.contains(&EvidenceItem::MolecularIon) {
             let c = ms::check_molecular_ion(&f.formula, ms_e, *mz);
-            out.push(EvidenceCheck { item: "molecular_ion".into(), agrees: c.agrees, detail: c.detail });
+            out.push(EvidenceCheck {
+                item: "molecular_ion".into(),
+                agrees: c.agrees,
+                detail: c.detail,
+            });
         }
     }
     let (m1, m2) = ms::isotope_percentages(&f.formula);
@@ -87,12 +91,20 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
         // M+1 is reported, not enforced: it scatters too much at unit resolution to rule
         // out a formula on its own.
         let c = ms::check_isotope("M+1", *v, m1);
-        out.push(EvidenceCheck { item: "M+1 (reported only)".into(), agrees: true, detail: c.detail });
+        out.push(EvidenceCheck {
+            item: "M+1 (reported only)".into(),
+            agrees: true,
+            detail: c.detail,
+        });
     }
     if let Some((v, _)) = &ms_e.m_plus_2 {
         if !set_aside.contains(&EvidenceItem::MPlus2) {
             let c = ms::check_isotope("M+2", *v, m2);
-            out.push(EvidenceCheck { item: "M+2".into(), agrees: c.agrees, detail: c.detail });
+            out.push(EvidenceCheck {
+                item: "M+2".into(),
+                agrees: c.agrees,
+                detail: c.detail,
+            });
         }
     }
     out
@@ -104,7 +116,10 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
     let evidence_checks = formula_checks(case, &BTreeSet::new());
     let formula_ok = problem.formula_dbe.is_some() && evidence_checks.iter().all(|c| c.agrees);
     let ms_e = case.ms.as_ref();
-    let molecular_nominal = case.formula.as_ref().map(|f| f.formula.nominal_mass() as f64);
+    let molecular_nominal = case
+        .formula
+        .as_ref()
+        .map(|f| f.formula.nominal_mass() as f64);
 
     // Enumerate the consistent combinations.
     let mut found: Vec<(Vec<u32>, u32)> = Vec::new();
@@ -143,12 +158,27 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
             }
         }
     }
-    let ranked: Vec<(Vec<u32>, u32)> = scored.iter().take(5).map(|(_, _, c, s)| (c.clone(), *s)).collect();
+    let ranked: Vec<(Vec<u32>, u32)> = scored
+        .iter()
+        .take(5)
+        .map(|(_, _, c, s)| (c.clone(), *s))
+        .collect();
     let candidates: Vec<Candidate> = scored
         .into_iter()
         .take(options.max_candidates)
         .enumerate()
-        .map(|(i, (s, terms, counts, sk))| explain::candidate(&problem, &counts, sk, i + 1, s, terms, ms_e, molecular_nominal))
+        .map(|(i, (s, terms, counts, sk))| {
+            explain::candidate(
+                &problem,
+                &counts,
+                sk,
+                i + 1,
+                s,
+                terms,
+                ms_e,
+                molecular_nominal,
+            )
+        })
         .collect();
 
     // Near misses: compositions over every composable group that fail on one point.
@@ -169,14 +199,22 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
             Flow::Continue
         });
     }
-    near.sort_by(|a, b| a.0.cmp(&b.0).then(b.1.total_cmp(&a.1)).then_with(|| b.2.cmp(&a.2)));
+    near.sort_by(|a, b| {
+        a.0.cmp(&b.0)
+            .then(b.1.total_cmp(&a.1))
+            .then_with(|| b.2.cmp(&a.2))
+    });
     let near_misses: Vec<NearMiss> = near
         .iter()
         .take(8)
         .map(|(_, _, counts, failures)| explain::near_miss(&problem, counts, failures))
         .collect();
 
-    let ruled_out = explain::ruled_out(&problem, &in_some_candidate, formula_ok && !enumeration_truncated);
+    let ruled_out = explain::ruled_out(
+        &problem,
+        &in_some_candidate,
+        formula_ok && !enumeration_truncated,
+    );
 
     let conflicts = if candidates.is_empty() {
         conflict_report(case, catalogue, options, &problem, &evidence_checks)
@@ -231,26 +269,40 @@ fn conflict_report(
                 };
                 let ex = &problem.explainers[bi];
                 let band = &problem.bands[bi].1.band;
-                let mut ids: Vec<String> = ex
-                    .groups
-                    .iter()
-                    .map(|(g, _, _)| {
-                        let gd = &problem.groups[*g];
-                        let why = constraints::composition::impossible(problem, *g)
-                            .or_else(|| {
-                                gd.presence.missing.first().map(|r| {
-                                    constraints::diagnostic_bands::describe_missing(&gd.group.bands[r[0]], problem.technique, problem.tolerance)
-                                })
+                // Group the candidate explainers by why each is unavailable.
+                let mut by_reason: Vec<(String, Vec<String>)> = Vec::new();
+                for (g, _, _) in &ex.groups {
+                    let gd = &problem.groups[*g];
+                    let why = constraints::composition::impossible(problem, *g)
+                        .or_else(|| {
+                            gd.presence.missing.first().map(|r| {
+                                constraints::diagnostic_bands::describe_missing(
+                                    &gd.group.bands[r[0]],
+                                    problem.technique,
+                                    problem.tolerance,
+                                )
                             })
-                            .map(|w| format!(" — {w}"))
-                            .unwrap_or_default();
-                        format!("{}{why}", gd.group.id)
-                    })
+                        })
+                        .unwrap_or_else(|| "no consistent combination holds it".to_owned());
+                    match by_reason.iter_mut().find(|(w, _)| *w == why) {
+                        Some((_, ids)) => {
+                            if !ids.contains(&gd.group.id) {
+                                ids.push(gd.group.id.clone());
+                            }
+                        }
+                        None => by_reason.push((why, vec![gd.group.id.clone()])),
+                    }
+                }
+                let ids: Vec<String> = by_reason
+                    .iter()
+                    .map(|(why, ids)| format!("{} ({why})", ids.join(", ")))
                     .collect();
-                ids.dedup();
                 if ex.demanded {
                     if ids.is_empty() {
-                        explanation.push(format!("the band at {:.0} cm⁻¹ must be explained and no rule covers it", band.at));
+                        explanation.push(format!(
+                            "the band at {:.0} cm⁻¹ must be explained and no rule covers it",
+                            band.at
+                        ));
                     } else {
                         explanation.push(format!(
                             "the band at {:.0} cm⁻¹ must be explained, only by: {}",
@@ -259,11 +311,18 @@ fn conflict_report(
                         ));
                     }
                 } else {
-                    explanation.push(format!("the band at {:.0} cm⁻¹ is demanded by a group's diagnostic rule", band.at));
+                    explanation.push(format!(
+                        "the band at {:.0} cm⁻¹ is demanded by a group's diagnostic rule",
+                        band.at
+                    ));
                 }
             }
             EvidenceItem::MolecularIon | EvidenceItem::MPlus2 => {
-                let key = if *item == EvidenceItem::MPlus2 { "M+2" } else { "molecular_ion" };
+                let key = if *item == EvidenceItem::MPlus2 {
+                    "M+2"
+                } else {
+                    "molecular_ion"
+                };
                 for c in evidence_checks.iter().filter(|c| c.item == key) {
                     explanation.push(c.detail.clone());
                 }
@@ -271,7 +330,10 @@ fn conflict_report(
         }
     }
     vec![Conflict {
-        items: items.iter().map(|i| conflicts::describe_item(case, *i)).collect(),
+        items: items
+            .iter()
+            .map(|i| conflicts::describe_item(case, *i))
+            .collect(),
         explanation,
         suggested_causes: conflicts::suggested_causes(case, &items),
     }]

@@ -138,7 +138,9 @@ impl<'c> Problem<'c> {
             .iter()
             .map(|e| formula.as_ref().map_or(0, |f| f.count(e)))
             .collect();
-        let formula_dbe = formula.as_ref().and_then(|f| super::constraints::dbe::whole_dbe(f));
+        let formula_dbe = formula
+            .as_ref()
+            .and_then(super::constraints::dbe::whole_dbe);
 
         let concrete: Vec<(usize, &Group)> = catalogue
             .groups
@@ -166,14 +168,14 @@ impl<'c> Problem<'c> {
                     diagnostic_bands::Presence::default()
                 } else {
                     diagnostic_bands::presence(
-                    &g.bands,
-                    &band_refs,
-                    &set_aside_bands,
-                    catalogue,
-                    technique,
-                    window,
-                    options.tolerance_cm1,
-                )
+                        &g.bands,
+                        &band_refs,
+                        &set_aside_bands,
+                        catalogue,
+                        technique,
+                        window,
+                        options.tolerance_cm1,
+                    )
                 };
                 GroupData {
                     group: g,
@@ -189,7 +191,8 @@ impl<'c> Problem<'c> {
                 }
             })
             .collect();
-        let holds = |idx: usize, ids: &[String]| groups[idx].lineage.iter().any(|l| ids.contains(l));
+        let holds =
+            |idx: usize, ids: &[String]| groups[idx].lineage.iter().any(|l| ids.contains(l));
         let excludes: Vec<Vec<usize>> = (0..groups.len())
             .map(|i| {
                 (0..groups.len())
@@ -207,7 +210,9 @@ impl<'c> Problem<'c> {
                 if wanted.is_empty() {
                     Vec::new()
                 } else {
-                    (0..groups.len()).filter(|&j| j != i && holds(j, wanted)).collect()
+                    (0..groups.len())
+                        .filter(|&j| j != i && holds(j, wanted))
+                        .collect()
                 }
             })
             .collect();
@@ -216,14 +221,22 @@ impl<'c> Problem<'c> {
             .iter()
             .map(|s| {
                 let sp3 = s.needs_any.iter().any(|n| n == "sp3_carbon");
-                let list = (0..groups.len()).filter(|&j| holds(j, &s.needs_any)).collect();
+                let list = (0..groups.len())
+                    .filter(|&j| holds(j, &s.needs_any))
+                    .collect();
                 (list, sp3)
             })
             .collect();
         let explainers = bands
             .iter()
             .map(|(_, b)| {
-                band_explanation::explainers_of(&b.band, catalogue, &groups, technique, options.tolerance_cm1)
+                band_explanation::explainers_of(
+                    &b.band,
+                    catalogue,
+                    &groups,
+                    technique,
+                    options.tolerance_cm1,
+                )
             })
             .collect();
         Problem {
@@ -251,7 +264,10 @@ impl<'c> Problem<'c> {
     /// the formula's elements.
     pub fn allowed_groups(&self) -> Vec<usize> {
         (0..self.groups.len())
-            .filter(|&i| self.groups[i].presence.missing.is_empty() && self.groups[i].foreign_element.is_none())
+            .filter(|&i| {
+                self.groups[i].presence.missing.is_empty()
+                    && self.groups[i].foreign_element.is_none()
+            })
             .collect()
     }
 

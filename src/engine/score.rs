@@ -55,12 +55,20 @@ pub fn unexplained_penalty(at: f64, strength: Strength) -> f64 {
 }
 
 /// Best explanation quality of active band `bi` in the candidate, if any.
-pub fn best_explanation(problem: &Problem<'_>, bi: usize, counts: &[u32], skeleton_c: u32) -> Option<f64> {
+pub fn best_explanation(
+    problem: &Problem<'_>,
+    bi: usize,
+    counts: &[u32],
+    skeleton_c: u32,
+) -> Option<f64> {
     let ex = &problem.explainers[bi];
     let mut best: Option<f64> = None;
     let mut take = |q: f64| best = Some(best.map_or(q, |b: f64| b.max(q)));
     ex.artefacts.iter().for_each(|(_, q)| take(*q));
-    ex.groups.iter().filter(|(g, _, _)| counts[*g] > 0).for_each(|(_, _, q)| take(*q));
+    ex.groups
+        .iter()
+        .filter(|(g, _, _)| counts[*g] > 0)
+        .for_each(|(_, _, q)| take(*q));
     ex.patterns
         .iter()
         .filter(|(_, gs, _)| gs.iter().any(|&g| counts[g] > 0))
@@ -73,7 +81,13 @@ pub fn best_explanation(problem: &Problem<'_>, bi: usize, counts: &[u32], skelet
 }
 
 /// The score of a consistent candidate and its terms.
-pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, ms: Option<&MsEvidence>, molecular_nominal: Option<f64>) -> (f64, Vec<ScoreTerm>) {
+pub fn score(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    ms: Option<&MsEvidence>,
+    molecular_nominal: Option<f64>,
+) -> (f64, Vec<ScoreTerm>) {
     let mut terms = Vec::new();
     for (gi, &n) in counts.iter().enumerate() {
         if n == 0 {
@@ -90,7 +104,10 @@ pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, ms: Option<
             bands += w * m.quality;
         }
         if bands != 0.0 {
-            terms.push(ScoreTerm { what: format!("{}: bands seen", g.group.id), value: bands });
+            terms.push(ScoreTerm {
+                what: format!("{}: bands seen", g.group.id),
+                value: bands,
+            });
         }
         let absent = g.presence.absent_exceptions.len() as f64;
         if absent > 0.0 {
@@ -109,7 +126,10 @@ pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, ms: Option<
         if let Some(ms) = ms {
             let clues = matched_clues(g.group, ms, molecular_nominal).len() as f64;
             if clues > 0.0 {
-                terms.push(ScoreTerm { what: format!("{}: MS clues matched", g.group.id), value: W_MS_CLUE * clues });
+                terms.push(ScoreTerm {
+                    what: format!("{}: MS clues matched", g.group.id),
+                    value: W_MS_CLUE * clues,
+                });
             }
         }
     }
@@ -122,10 +142,16 @@ pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, ms: Option<
         }
     }
     if explained != 0.0 {
-        terms.push(ScoreTerm { what: "bands explained".into(), value: explained });
+        terms.push(ScoreTerm {
+            what: "bands explained".into(),
+            value: explained,
+        });
     }
     if unexplained != 0.0 {
-        terms.push(ScoreTerm { what: "bands unexplained".into(), value: -unexplained });
+        terms.push(ScoreTerm {
+            what: "bands unexplained".into(),
+            value: -unexplained,
+        });
     }
     let instances: u32 = counts.iter().sum();
     if instances > 1 {

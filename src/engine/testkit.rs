@@ -38,7 +38,13 @@ pub fn band(
     }
 }
 
-fn with_gas(mut b: BandRule, lo: f64, hi: f64, shape: Option<ExpectedShape>, strength: Option<ExpectedStrength>) -> BandRule {
+fn with_gas(
+    mut b: BandRule,
+    lo: f64,
+    hi: f64,
+    shape: Option<ExpectedShape>,
+    strength: Option<ExpectedStrength>,
+) -> BandRule {
     b.by_technique.insert(
         Technique::Gas,
         BandOverride {
@@ -115,13 +121,64 @@ pub fn small_catalogue() -> Catalogue {
     use BandRole::*;
     use ExpectedShape::*;
     use ExpectedStrength::*;
-    let oh = || with_gas(band("O–H stretch", 3200.0, 3550.0, Strong, Broad, Diagnostic), 3600.0, 3700.0, Some(Sharp), Some(Medium));
+    let oh = || {
+        with_gas(
+            band("O–H stretch", 3200.0, 3550.0, Strong, Broad, Diagnostic),
+            3600.0,
+            3700.0,
+            Some(Sharp),
+            Some(Medium),
+        )
+    };
     let alcohol_co = |lo, hi| band("C–O stretch", lo, hi, Strong, Any, Supporting);
     let alcohol = group("alcohol", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh()]);
-    let primary = subtype(group("alcohol_primary", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh(), alcohol_co(1000.0, 1075.0)]), "alcohol");
-    let secondary = subtype(group("alcohol_secondary", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh(), alcohol_co(1075.0, 1150.0)]), "alcohol");
-    let ether = group("ether", &[("O", 1)], 0, hetero(2), vec![band("C–O–C stretch", 1050.0, 1150.0, Strong, Any, Diagnostic)]);
-    let ketone = group("ketone", &[("C", 1), ("O", 1)], 1, carbon(2, 0), vec![with_gas(band("C=O stretch", 1705.0, 1725.0, Strong, Any, Diagnostic), 1725.0, 1750.0, None, None)]);
+    let primary = subtype(
+        group(
+            "alcohol_primary",
+            &[("O", 1), ("H", 1)],
+            0,
+            hetero(1),
+            vec![oh(), alcohol_co(1000.0, 1075.0)],
+        ),
+        "alcohol",
+    );
+    let secondary = subtype(
+        group(
+            "alcohol_secondary",
+            &[("O", 1), ("H", 1)],
+            0,
+            hetero(1),
+            vec![oh(), alcohol_co(1075.0, 1150.0)],
+        ),
+        "alcohol",
+    );
+    let ether = group(
+        "ether",
+        &[("O", 1)],
+        0,
+        hetero(2),
+        vec![band(
+            "C–O–C stretch",
+            1050.0,
+            1150.0,
+            Strong,
+            Any,
+            Diagnostic,
+        )],
+    );
+    let ketone = group(
+        "ketone",
+        &[("C", 1), ("O", 1)],
+        1,
+        carbon(2, 0),
+        vec![with_gas(
+            band("C=O stretch", 1705.0, 1725.0, Strong, Any, Diagnostic),
+            1725.0,
+            1750.0,
+            None,
+            None,
+        )],
+    );
     let aldehyde = group(
         "aldehyde",
         &[("C", 1), ("H", 1), ("O", 1)],
@@ -129,8 +186,28 @@ pub fn small_catalogue() -> Catalogue {
         carbon(0, 1),
         vec![
             band("C=O stretch", 1720.0, 1740.0, Strong, Any, Diagnostic),
-            one_of(band("C–H stretch (Fermi pair, low)", 2695.0, 2750.0, Medium, Sharp, Diagnostic), "aldehyde_ch"),
-            one_of(band("C–H stretch (Fermi pair, high)", 2800.0, 2860.0, Medium, Sharp, Diagnostic), "aldehyde_ch"),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, low)",
+                    2695.0,
+                    2750.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, high)",
+                    2800.0,
+                    2860.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
         ],
     );
     let acid = group(
@@ -139,7 +216,14 @@ pub fn small_catalogue() -> Catalogue {
         1,
         carbon(0, 1),
         vec![
-            band("O–H stretch (dimer)", 2500.0, 3300.0, Strong, Broad, Diagnostic),
+            band(
+                "O–H stretch (dimer)",
+                2500.0,
+                3300.0,
+                Strong,
+                Broad,
+                Diagnostic,
+            ),
             band("C=O stretch", 1700.0, 1725.0, Strong, Any, Diagnostic),
         ],
     );
@@ -157,26 +241,100 @@ pub fn small_catalogue() -> Catalogue {
             band("C–O stretch", 1150.0, 1300.0, Strong, Any, Supporting),
         ],
     );
-    let nitrile = group("nitrile", &[("C", 1), ("N", 1)], 2, carbon(1, 0), vec![band("C≡N stretch", 2210.0, 2260.0, Medium, Sharp, Diagnostic)]);
-    let amine = group("amine_primary", &[("N", 1), ("H", 2)], 0, hetero(1), vec![band("N–H stretch", 3300.0, 3500.0, Medium, Any, Diagnostic)]);
-    let chloro = group("chloro", &[("Cl", 1)], 0, hetero(1), vec![band("C–Cl stretch", 550.0, 850.0, Strong, Any, Diagnostic)]);
+    let nitrile = group(
+        "nitrile",
+        &[("C", 1), ("N", 1)],
+        2,
+        carbon(1, 0),
+        vec![band(
+            "C≡N stretch",
+            2210.0,
+            2260.0,
+            Medium,
+            Sharp,
+            Diagnostic,
+        )],
+    );
+    let amine = group(
+        "amine_primary",
+        &[("N", 1), ("H", 2)],
+        0,
+        hetero(1),
+        vec![band("N–H stretch", 3300.0, 3500.0, Medium, Any, Diagnostic)],
+    );
+    let chloro = group(
+        "chloro",
+        &[("Cl", 1)],
+        0,
+        hetero(1),
+        vec![band("C–Cl stretch", 550.0, 850.0, Strong, Any, Diagnostic)],
+    );
     let aromatic = group(
         "aromatic_ring",
         &[("C", 6)],
         4,
         carbon(0, 6),
         vec![
-            one_of(band("ring C=C stretch", 1580.0, 1620.0, Variable, Any, Diagnostic), "ring_cc"),
-            one_of(band("ring C=C stretch", 1450.0, 1510.0, Variable, Any, Diagnostic), "ring_cc"),
+            one_of(
+                band(
+                    "ring C=C stretch",
+                    1580.0,
+                    1620.0,
+                    Variable,
+                    Any,
+                    Diagnostic,
+                ),
+                "ring_cc",
+            ),
+            one_of(
+                band(
+                    "ring C=C stretch",
+                    1450.0,
+                    1510.0,
+                    Variable,
+                    Any,
+                    Diagnostic,
+                ),
+                "ring_cc",
+            ),
         ],
     );
-    let alkene = group("alkene", &[("C", 2)], 1, carbon(0, 4), vec![absent_ok(band("C=C stretch", 1620.0, 1680.0, Variable, Any, Diagnostic))]);
-    let alkyne = group("alkyne_internal", &[("C", 2)], 2, carbon(2, 0), vec![absent_ok(band("C≡C stretch", 2190.0, 2260.0, Weak, Sharp, Diagnostic))]);
+    let alkene = group(
+        "alkene",
+        &[("C", 2)],
+        1,
+        carbon(0, 4),
+        vec![absent_ok(band(
+            "C=C stretch",
+            1620.0,
+            1680.0,
+            Variable,
+            Any,
+            Diagnostic,
+        ))],
+    );
+    let alkyne = group(
+        "alkyne_internal",
+        &[("C", 2)],
+        2,
+        carbon(2, 0),
+        vec![absent_ok(band(
+            "C≡C stretch",
+            2190.0,
+            2260.0,
+            Weak,
+            Sharp,
+            Diagnostic,
+        ))],
+    );
     let ring = group("ring", &[], 1, OpenBonds::default(), Vec::new());
     let mut phenol = group("phenol", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh()]);
     phenol.requires_any = vec!["aromatic_ring".into()];
     Catalogue {
-        groups: vec![alcohol, primary, secondary, phenol, ether, aldehyde, ketone, acid, ester, nitrile, amine, chloro, aromatic, alkene, alkyne, ring],
+        groups: vec![
+            alcohol, primary, secondary, phenol, ether, aldehyde, ketone, acid, ester, nitrile,
+            amine, chloro, aromatic, alkene, alkyne, ring,
+        ],
         skeleton: vec![
             SkeletonRule {
                 id: "ch_sp3_stretch".into(),
@@ -198,7 +356,10 @@ pub fn small_catalogue() -> Catalogue {
             ArtefactRule {
                 id: "atmospheric_co2".into(),
                 label: "atmospheric CO2".into(),
-                range: Range { lo: 2330.0, hi: 2370.0 },
+                range: Range {
+                    lo: 2330.0,
+                    hi: 2370.0,
+                },
                 techniques: Vec::new(),
                 shape: Any,
                 source: "common practice".into(),
@@ -207,7 +368,10 @@ pub fn small_catalogue() -> Catalogue {
             ArtefactRule {
                 id: "kbr_moisture".into(),
                 label: "moisture in KBr".into(),
-                range: Range { lo: 3300.0, hi: 3500.0 },
+                range: Range {
+                    lo: 3300.0,
+                    hi: 3500.0,
+                },
                 techniques: vec![Technique::Kbr],
                 shape: Broad,
                 source: "common practice".into(),
@@ -218,7 +382,10 @@ pub fn small_catalogue() -> Catalogue {
         technique_effects: vec![TechniqueEffect {
             id: "atr_high_wavenumber".into(),
             technique: Technique::Atr,
-            range: Range { lo: 2500.0, hi: 4000.0 },
+            range: Range {
+                lo: 2500.0,
+                hi: 4000.0,
+            },
             weaker_by: 1,
             label: "ATR penetration depth falls with wavenumber".into(),
             source: "common practice".into(),

@@ -21,7 +21,10 @@ fn solve_text(src: &str) -> Outcome {
 }
 
 fn families(o: &Outcome) -> Vec<Vec<String>> {
-    o.candidates.iter().map(|c| c.families.keys().cloned().collect()).collect()
+    o.candidates
+        .iter()
+        .map(|c| c.families.keys().cloned().collect())
+        .collect()
 }
 
 fn any_candidate_has(o: &Outcome, id: &str) -> bool {
@@ -44,12 +47,27 @@ fn acetone_like_c3h6o_with_a_1715_band_is_a_ketone() {
     let o = solve_text(
         "formula: C3H6O\nir:\n  technique: film\n  bands:\n    - { at: 2965, strength: medium }\n    - { at: 1715, strength: strong }\n    - { at: 1365, strength: medium }\n    - { at: 1220, strength: medium }\n",
     );
-    assert_eq!(o.candidates[0].groups.get("ketone"), Some(&1), "{:?}", families(&o));
-    assert!(o.candidates.iter().all(|c| c.families.contains_key("ketone")), "{:?}", families(&o));
+    assert_eq!(
+        o.candidates[0].groups.get("ketone"),
+        Some(&1),
+        "{:?}",
+        families(&o)
+    );
+    assert!(
+        o.candidates
+            .iter()
+            .all(|c| c.families.contains_key("ketone")),
+        "{:?}",
+        families(&o)
+    );
     assert!(!any_candidate_has(&o, "aldehyde"));
     assert!(!any_candidate_has(&o, "alcohol"));
     assert!(!any_candidate_has(&o, "alkene"));
-    assert!(ruled_out_reason(&o, "aldehyde").contains("C–H stretch"), "{}", ruled_out_reason(&o, "aldehyde"));
+    assert!(
+        ruled_out_reason(&o, "aldehyde").contains("C–H stretch"),
+        "{}",
+        ruled_out_reason(&o, "aldehyde")
+    );
     assert!(ruled_out_reason(&o, "alcohol").contains("every alcohol ruled out"));
     assert_eq!(o.candidates[0].dbe_accounting, "DBE 1 = ketone 1");
     assert!(o.conflicts.is_empty());
@@ -62,10 +80,22 @@ fn c4h10o_with_a_broad_3350_band_is_an_alcohol_not_an_ether() {
         "formula: C4H10O\nir:\n  bands:\n    - { at: 3350, strength: strong, shape: broad }\n    - { at: 2960, strength: strong }\n    - { at: 1050, strength: strong }\n",
     );
     assert!(!o.candidates.is_empty());
-    assert!(o.candidates.iter().all(|c| c.families.contains_key("alcohol")), "{:?}", families(&o));
+    assert!(
+        o.candidates
+            .iter()
+            .all(|c| c.families.contains_key("alcohol")),
+        "{:?}",
+        families(&o)
+    );
     assert!(!any_candidate_has(&o, "ether"));
     // The ether is kept out by the O–H band it cannot explain, not by its own bands.
-    assert!(o.near_misses.iter().any(|n| n.groups.contains_key("ether") && n.lacked[0].contains("3350")), "{:?}", o.near_misses);
+    assert!(
+        o.near_misses
+            .iter()
+            .any(|n| n.groups.contains_key("ether") && n.lacked[0].contains("3350")),
+        "{:?}",
+        o.near_misses
+    );
 }
 
 #[test]
@@ -79,7 +109,11 @@ fn c7h5n_with_2230_and_aromatic_ch_is_an_aromatic_nitrile() {
     assert_eq!(top.groups.get("nitrile"), Some(&1));
     assert_eq!(top.groups.get("aromatic_ring"), Some(&1));
     assert_eq!(top.dbe_accounting, "DBE 6 = nitrile 2 + aromatic_ring 4");
-    let band_2230 = top.bands.iter().find(|b| b.at == 2230.0).map(|b| b.explained_by[0].id.clone());
+    let band_2230 = top
+        .bands
+        .iter()
+        .find(|b| b.at == 2230.0)
+        .map(|b| b.explained_by[0].id.clone());
     assert_eq!(band_2230.as_deref(), Some("nitrile"));
 }
 
@@ -90,7 +124,13 @@ fn c2h4o2_with_a_very_broad_oh_and_1710_is_an_acid_not_an_ester() {
         "formula: C2H4O2\nir:\n  bands:\n    - { at: 3000, strength: strong, shape: broad }\n    - { at: 1710, strength: strong }\n    - { at: 1290, strength: strong }\n",
     );
     assert!(!o.candidates.is_empty());
-    assert!(o.candidates.iter().all(|c| c.groups.contains_key("carboxylic_acid")), "{:?}", families(&o));
+    assert!(
+        o.candidates
+            .iter()
+            .all(|c| c.groups.contains_key("carboxylic_acid")),
+        "{:?}",
+        families(&o)
+    );
     assert!(!any_candidate_has(&o, "ester"));
 }
 
@@ -117,7 +157,10 @@ fn a_carbonyl_band_in_a_saturated_hydrocarbon_is_a_conflict() {
     assert_eq!(items.len(), 2, "{items:?}");
     assert!(items[0].starts_with("formula C6H14"));
     assert!(items[1].starts_with("band at 1715"));
-    assert!(o.conflicts[0].suggested_causes.iter().any(|c| c.starts_with("wrong formula")));
+    assert!(o.conflicts[0]
+        .suggested_causes
+        .iter()
+        .any(|c| c.starts_with("wrong formula")));
 }
 
 #[test]
@@ -126,7 +169,11 @@ fn a_molecular_ion_that_disagrees_with_the_formula_is_a_conflict() {
     assert!(o.candidates.is_empty());
     let c = &o.conflicts[0];
     assert_eq!(c.items.len(), 2, "{:?}", c.items);
-    assert!(c.explanation.iter().any(|e| e.contains("nitrogen rule")), "{:?}", c.explanation);
+    assert!(
+        c.explanation.iter().any(|e| e.contains("nitrogen rule")),
+        "{:?}",
+        c.explanation
+    );
     // accurate mass within 5 ppm agrees (acetone M+. 58.041316)
     let o = solve_text("formula: C3H6O\nms:\n  molecular_ion: 58.0413\n  ppm: 5\n");
     assert!(!o.candidates.is_empty(), "{:?}", o.evidence_checks);
@@ -136,9 +183,15 @@ fn a_molecular_ion_that_disagrees_with_the_formula_is_a_conflict() {
 fn a_symmetric_internal_alkyne_may_lack_its_band_but_scores_lower() {
     // common practice: a symmetric internal C≡C stretch may be absent (no dipole change).
     let o = solve_text("formula: C4H6\nir:\n  bands:\n    - { at: 2920, strength: strong }\n");
-    let alkyne = o.candidates.iter().find(|c| c.groups.contains_key("alkyne_internal"));
+    let alkyne = o
+        .candidates
+        .iter()
+        .find(|c| c.groups.contains_key("alkyne_internal"));
     let alkyne = alkyne.unwrap_or_else(|| panic!("{:?}", families(&o)));
-    assert!(alkyne.weakening.iter().any(|w| w.contains("allowed absent")));
+    assert!(alkyne
+        .weakening
+        .iter()
+        .any(|w| w.contains("allowed absent")));
     assert!(alkyne.score_terms.iter().any(|t| t.value == -1.0));
 }
 
@@ -147,7 +200,10 @@ fn the_enumeration_agrees_with_the_integer_programme() {
     // The DFS and the ILP (good_lp + microlp) must agree on feasibility and on the
     // smallest number of group instances, formula by formula.
     let cat = small_catalogue();
-    for formula in ["C3H6O", "C4H10O", "C7H5N", "C2H4O2", "C6H14", "C8H8O", "C6H5Cl", "C3H9N", "CH4O", "C10H12O2", "C2H2", "C6H6O"] {
+    for formula in [
+        "C3H6O", "C4H10O", "C7H5N", "C2H4O2", "C6H14", "C8H8O", "C6H5Cl", "C3H9N", "CH4O",
+        "C10H12O2", "C2H2", "C6H6O",
+    ] {
         let c = case(&format!("formula: {formula}\n"));
         let options = SolveOptions::default();
         let problem = Problem::new(&c, &cat, &options, &BTreeSet::new());
@@ -158,7 +214,11 @@ fn the_enumeration_agrees_with_the_integer_programme() {
             dfs_min = Some(dfs_min.map_or(n, |m| m.min(n)));
             Flow::Continue
         });
-        assert_eq!(dfs_min, lp::min_group_instances(&problem, &allowed), "{formula}");
+        assert_eq!(
+            dfs_min,
+            lp::min_group_instances(&problem, &allowed),
+            "{formula}"
+        );
     }
 }
 
@@ -178,9 +238,28 @@ struct Generated {
 /// ketone, ester, internal alkyne, p-disubstituted benzene, 1,2-disubstituted alkene)
 /// and end groups (alcohol, nitrile, chloro, aldehyde, acid, primary amine) hanging on
 /// the skeleton carbons. Hydrogens fill every remaining open position.
-fn generate(skeleton: u32, in_chain: &[usize], ends: &[usize], technique: Option<&'static str>) -> Option<Generated> {
-    const IN_CHAIN: [&str; 6] = ["ether", "ketone", "ester", "alkyne_internal", "aromatic_ring", "alkene"];
-    const ENDS: [&str; 6] = ["alcohol_primary", "nitrile", "chloro", "aldehyde", "carboxylic_acid", "amine_primary"];
+fn generate(
+    skeleton: u32,
+    in_chain: &[usize],
+    ends: &[usize],
+    technique: Option<&'static str>,
+) -> Option<Generated> {
+    const IN_CHAIN: [&str; 6] = [
+        "ether",
+        "ketone",
+        "ester",
+        "alkyne_internal",
+        "aromatic_ring",
+        "alkene",
+    ];
+    const ENDS: [&str; 6] = [
+        "alcohol_primary",
+        "nitrile",
+        "chloro",
+        "aldehyde",
+        "carboxylic_acid",
+        "amine_primary",
+    ];
     let cat = small_catalogue();
     if skeleton == 0 {
         return None;
@@ -229,7 +308,8 @@ fn generate(skeleton: u32, in_chain: &[usize], ends: &[usize], technique: Option
         }
         let b = g.bonds;
         // one bond to a skeleton carbon; other open-or-H positions carry H
-        h += i64::from(b.carbon_or_h + b.hetero_or_h) - i64::from(b.carbon_or_h + b.hetero_or_h > 0 && b.carbon + b.hetero == 0);
+        h += i64::from(b.carbon_or_h + b.hetero_or_h)
+            - i64::from(b.carbon_or_h + b.hetero_or_h > 0 && b.carbon + b.hetero == 0);
         free_skeleton_valence -= 1;
     }
     if free_skeleton_valence < 0 {
@@ -240,7 +320,11 @@ fn generate(skeleton: u32, in_chain: &[usize], ends: &[usize], technique: Option
     for (s, n) in &other {
         formula.push_str(&format!("{s}{n}"));
     }
-    let t = technique.and_then(|w| crate::rules::Technique::ALL.into_iter().find(|t| t.word() == w));
+    let t = technique.and_then(|w| {
+        crate::rules::Technique::ALL
+            .into_iter()
+            .find(|t| t.word() == w)
+    });
     let mut bands = Vec::new();
     let mut push_rule = |rule: &crate::rules::BandRule| {
         let e = &constraints::diagnostic_bands::effective_variants(rule, t)[0];
@@ -283,7 +367,9 @@ fn case_text(g: &Generated, drop: &[bool]) -> String {
             continue;
         }
         let shape = shape.map(|x| format!(", shape: {x}")).unwrap_or_default();
-        s.push_str(&format!("    - {{ at: {at}, strength: {strength}{shape} }}\n"));
+        s.push_str(&format!(
+            "    - {{ at: {at}, strength: {strength}{shape} }}\n"
+        ));
     }
     s
 }

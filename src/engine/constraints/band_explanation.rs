@@ -14,7 +14,10 @@
 use super::super::model::{GroupData, Problem};
 use super::diagnostic_bands::explains;
 use crate::ir::{Band, Strength};
-use crate::rules::{Catalogue, Technique};
+use crate::rules::{Catalogue, ExpectedShape, Technique};
+
+/// Width above which a sharp artefact is read as a forest of weak lines, cm⁻¹.
+pub const LINE_FOREST_CM1: f64 = 150.0;
 
 /// Everything that could explain one observed band, found once per band.
 #[derive(Clone, Debug, Default, PartialEq)]
@@ -52,12 +55,19 @@ pub fn explainers_of(
         // A technique-specific artefact (moisture in KBr) applies only when the case states
         // that technique: otherwise a broad 3400 band would always be excusable and an
         // alcohol could never be told from an ether.
-        let technique_ok = a.techniques.is_empty() || technique.is_some_and(|t| a.techniques.contains(&t));
+        let technique_ok =
+            a.techniques.is_empty() || technique.is_some_and(|t| a.techniques.contains(&t));
         let shape_ok = super::diagnostic_bands::shape_compatible(band.shape, a.shape);
-        if technique_ok && shape_ok && a.range.contains_within(band.at, tolerance) {
+        // A sharp artefact spread over more than LINE_FOREST_CM1 (water-vapour lines) is a
+        // forest of narrow lines: it may excuse weak and medium bands, never a strong one,
+        // or a strong carbonyl could be waved away as water vapour.
+        let forest = a.shape == ExpectedShape::Sharp && a.range.hi - a.range.lo > LINE_FOREST_CM1;
+        let strength_ok = !(forest && band.strength == Strength::Strong);
+        if technique_ok && shape_ok && strength_ok && a.range.contains_within(band.at, tolerance) {
             let half = (a.range.hi - a.range.lo) / 2.0;
             let q = 1.0 - (band.at - a.range.centre()).abs() / (half + tolerance);
-            out.artefacts.push((i, q.clamp(0.0, 1.0)));
+            // Half weight: an artefact is the explanation of last resort.
+            out.artefacts.push((i, 0.5 * q.clamp(0.0, 1.0)));
         }
     }
     for (gi, g) in groups.iter().enumerate() {
@@ -80,7 +90,9 @@ pub fn explainers_of(
             .bands
             .iter()
             .filter_map(|r| explains(band, r, technique, tolerance))
-            .fold(None, |acc: Option<f64>, q| Some(acc.map_or(q, |a| a.max(q))));
+            .fold(None, |acc: Option<f64>, q| {
+                Some(acc.map_or(q, |a| a.max(q)))
+            });
         if let Some(q) = best {
             out.patterns.push((pi, supported, q));
         }
@@ -101,13 +113,42 @@ pub struct HydrogenNeeds {
 /// Whether skeleton rule `si` applies to the candidate.
 pub fn skeleton_applies(problem: &Problem<'_>, si: usize, counts: &[u32], skeleton_c: u32) -> bool {
     let (needs, sp3) = &problem.skeleton_needs[si];
-    (*sp3 && (skeleton_c > 0 || counts.iter().zip(&problem.groups).any(|(n, g)| *n > 0 && g.sp3_ch)))
+    (*sp3
+        && (skeleton_c > 0
+            || counts
+                .iter()
+                .zip(&problem.groups)
+                .any(|(n, g)| *n > 0 && g.sp3_ch)))
         || needs.iter().any(|&j| counts[j] > 0)
+}
+
+/// The hydrogen a skeleton rule needs: `Some(true)` an sp3 C–H (the rule names
+/// `sp3_carbon`), `Some(false)` an H on an open position of an unsaturated hydrocarbon
+/// group (every group it names holds DBE, carbon-borne open bonds that may carry H, and
+/// no heteroatom: an sp2 C–H rule), `None` when nothing can be said (e.g. C–H next to O).
+fn h_kind(problem: &Problem<'_>, si: usize) -> Option<bool> {
+    let (groups, sp3) = &problem.skeleton_needs[si];
+    if *sp3 {
+        return Some(true);
+    }
+    let all_sp2 = !groups.is_empty()
+        && groups.iter().all(|&g| {
+            let d = &problem.groups[g];
+            d.group.dbe > 0
+                && d.group.bonds.carbon_or_h > 0
+                && d.hetero.is_empty()
+                && d.foreign_element.is_none()
+        });
+    all_sp2.then_some(false)
 }
 
 /// Checks every demanded band; returns the unexplained ones (active band indices) and
 /// the hydrogen needs of bands only the skeleton explains.
-pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> (Vec<usize>, HydrogenNeeds) {
+pub fn check(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+) -> (Vec<usize>, HydrogenNeeds) {
     let mut unexplained = Vec::new();
     let mut needs = HydrogenNeeds::default();
     for (bi, ex) in problem.explainers.iter().enumerate() {
@@ -115,7 +156,10 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> (Vec<usi
             continue;
         }
         if ex.groups.iter().any(|(g, _, _)| counts[*g] > 0)
-            || ex.patterns.iter().any(|(_, gs, _)| gs.iter().any(|&g| counts[g] > 0))
+            || ex
+                .patterns
+                .iter()
+                .any(|(_, gs, _)| gs.iter().any(|&g| counts[g] > 0))
         {
             continue;
         }
@@ -129,11 +173,11 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> (Vec<usi
             unexplained.push(bi);
             continue;
         }
-        let all_sp3 = applicable.iter().all(|&si| problem.skeleton_needs[si].1);
-        let none_sp3 = applicable.iter().all(|&si| !problem.skeleton_needs[si].1);
-        if all_sp3 {
+        // The H each applicable rule needs; a band asks only what all of them agree on.
+        let kinds: Vec<Option<bool>> = applicable.iter().map(|&si| h_kind(problem, si)).collect();
+        if kinds.iter().all(|k| *k == Some(true)) {
             needs.sp3_h = true;
-        } else if none_sp3 {
+        } else if kinds.iter().all(|k| *k == Some(false)) {
             let carriers: Vec<usize> = applicable
                 .iter()
                 .flat_map(|&si| problem.skeleton_needs[si].0.iter().copied())

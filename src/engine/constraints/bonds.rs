@@ -26,7 +26,12 @@ use super::super::model::Problem;
 use super::band_explanation::HydrogenNeeds;
 
 /// Checks the bond conditions; `Err` carries the reason in words.
-pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, needs: &HydrogenNeeds) -> Result<(), String> {
+pub fn check(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    needs: &HydrogenNeeds,
+) -> Result<(), String> {
     let mut h_fixed = 0u64;
     let (mut hm, mut ho, mut cm, mut co) = (0u64, 0u64, 0u64, 0u64);
     let mut group_nodes = 0u64;
@@ -53,7 +58,9 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, needs: &Hyd
     }
     let h_total = u64::from(problem.formula_h);
     if h_fixed > h_total {
-        return Err(format!("the groups hold {h_fixed} H but the formula has {h_total}"));
+        return Err(format!(
+            "the groups hold {h_fixed} H but the formula has {h_total}"
+        ));
     }
     let h_free = h_total - h_fixed;
     let sk = 4 * u64::from(skeleton_c);
@@ -80,7 +87,9 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, needs: &Hyd
         ));
     }
     if e > nodes * (nodes - 1) / 2 {
-        return Err(format!("{e} bonds between {nodes} parts would need multiple bonds outside the groups"));
+        return Err(format!(
+            "{e} bonds between {nodes} parts would need multiple bonds outside the groups"
+        ));
     }
     // 3. Choose x heteroatom-or-H ends used; the rest of the 2E ends are carbon-borne.
     // Skeleton carbons may each use at most min(4, nodes - 1) ends.
@@ -89,7 +98,9 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, needs: &Hyd
     let mut co_cap = co;
     if needs.sp3_h && !sp3_group_h {
         if skeleton_c == 0 {
-            return Err("a band needs sp3 C–H but the candidate has no saturated carbon".to_owned());
+            return Err(
+                "a band needs sp3 C–H but the candidate has no saturated carbon".to_owned(),
+            );
         }
         sk_cap = sk_cap.min(sk - 1);
     }
@@ -99,7 +110,9 @@ pub fn check(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, needs: &Hyd
             .map(|&g| u64::from(counts[g]) * u64::from(problem.groups[g].group.bonds.carbon_or_h))
             .sum();
         if carrier_co == 0 {
-            return Err("a band needs an sp2 C–H but no sp2 carbon of the candidate can carry H".to_owned());
+            return Err(
+                "a band needs an sp2 C–H but no sp2 carbon of the candidate can carry H".to_owned(),
+            );
         }
         co_cap = co - 1;
     }

@@ -13,16 +13,25 @@ pub fn impossible(problem: &Problem<'_>, gi: usize) -> Option<String> {
         return Some(format!("needs {e}, which the formula lacks"));
     }
     if g.c > problem.formula_c {
-        return Some(format!("holds {} C, the formula has {}", g.c, problem.formula_c));
+        return Some(format!(
+            "holds {} C, the formula has {}",
+            g.c, problem.formula_c
+        ));
     }
     for &(e, n) in &g.hetero {
         if n > problem.formula_hetero[e] {
-            return Some(format!("holds {n} {}, the formula has {}", problem.elements[e], problem.formula_hetero[e]));
+            return Some(format!(
+                "holds {n} {}, the formula has {}",
+                problem.elements[e], problem.formula_hetero[e]
+            ));
         }
     }
     if let Some(dbe) = problem.formula_dbe {
         if g.group.dbe > dbe {
-            return Some(format!("consumes DBE {}, the formula has {dbe}", g.group.dbe));
+            return Some(format!(
+                "consumes DBE {}, the formula has {dbe}",
+                g.group.dbe
+            ));
         }
     }
     None
@@ -64,11 +73,19 @@ pub fn accounting(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Vec
             .iter()
             .zip(counts)
             .filter_map(|(g, &n)| {
-                let k = g.hetero.iter().find(|(x, _)| *x == e).map_or(0, |(_, k)| *k);
+                let k = g
+                    .hetero
+                    .iter()
+                    .find(|(x, _)| *x == e)
+                    .map_or(0, |(_, k)| *k);
                 (n > 0 && k > 0).then(|| format!("{} {}", g.group.id, n * k))
             })
             .collect();
-        lines.push(format!("{symbol} {} = {}", problem.formula_hetero[e], parts.join(" + ")));
+        lines.push(format!(
+            "{symbol} {} = {}",
+            problem.formula_hetero[e],
+            parts.join(" + ")
+        ));
     }
     lines
 }

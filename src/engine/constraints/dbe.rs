@@ -26,7 +26,11 @@ pub fn accounting(problem: &Problem<'_>, counts: &[u32]) -> String {
         if n > 0 && g.group.dbe > 0 {
             let id = &g.group.id;
             let total = n * g.group.dbe;
-            parts.push(if n > 1 { format!("{n} × {id} {total}") } else { format!("{id} {total}") });
+            parts.push(if n > 1 {
+                format!("{n} × {id} {total}")
+            } else {
+                format!("{id} {total}")
+            });
         }
     }
     let dbe = problem.formula_dbe.unwrap_or(0);

@@ -18,7 +18,9 @@
 
 use crate::case::ObservedBand;
 use crate::ir::{Band, Shape, Strength};
-use crate::rules::{BandRole, BandRule, Catalogue, ExpectedShape, ExpectedStrength, Range, Technique};
+use crate::rules::{
+    BandRole, BandRule, Catalogue, ExpectedShape, ExpectedStrength, Range, Technique,
+};
 
 /// A band rule as it applies under one technique.
 #[derive(Clone, Debug, PartialEq)]
@@ -116,7 +118,8 @@ pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
         return None;
     }
     let half = (eff.range.hi - eff.range.lo) / 2.0;
-    let position = (1.0 - (band.at - eff.range.centre()).abs() / (half + tolerance)).clamp(0.0, 1.0);
+    let position =
+        (1.0 - (band.at - eff.range.centre()).abs() / (half + tolerance)).clamp(0.0, 1.0);
     let strength = match expected_class(eff.strength) {
         None => 1.0,
         Some(e) => match class(band.strength) - e {
@@ -130,18 +133,27 @@ pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
     let shape = match (band.shape, eff.shape) {
         (None, _) => 0.5,
         (Some(_), ExpectedShape::Any) => 0.75,
-        (Some(Shape::Broad), ExpectedShape::Broad) | (Some(Shape::Sharp), ExpectedShape::Sharp) => 1.0,
+        (Some(Shape::Broad), ExpectedShape::Broad) | (Some(Shape::Sharp), ExpectedShape::Sharp) => {
+            1.0
+        }
         (Some(_), _) => 0.3,
     };
     Some(0.5 * position + 0.3 * strength + 0.2 * shape)
 }
 
 /// Best quality with which `band` is *explained* by `rule` (position and shape only).
-pub fn explains(band: &Band, rule: &BandRule, technique: Option<Technique>, tolerance: f64) -> Option<f64> {
+pub fn explains(
+    band: &Band,
+    rule: &BandRule,
+    technique: Option<Technique>,
+    tolerance: f64,
+) -> Option<f64> {
     effective_variants(rule, technique)
         .iter()
         .filter_map(|e| quality(band, e, tolerance))
-        .fold(None, |best: Option<f64>, q| Some(best.map_or(q, |b| b.max(q))))
+        .fold(None, |best: Option<f64>, q| {
+            Some(best.map_or(q, |b| b.max(q)))
+        })
 }
 
 /// Best quality with which `band` *satisfies* `rule` (position, shape and strength).
@@ -157,7 +169,9 @@ pub fn satisfies(
         .iter()
         .filter(|e| strength_compatible(band.strength, e.strength, weakening))
         .filter_map(|e| quality(band, e, tolerance))
-        .fold(None, |best: Option<f64>, q| Some(best.map_or(q, |b| b.max(q))))
+        .fold(None, |best: Option<f64>, q| {
+            Some(best.map_or(q, |b| b.max(q)))
+        })
 }
 
 /// Whether a rule is demanded: diagnostic, not allowed to be absent under every variant
@@ -333,15 +347,35 @@ mod tests {
     use crate::engine::testkit::small_catalogue;
 
     fn b(at: f64, strength: Strength, shape: Option<Shape>) -> Band {
-        Band { at, strength, shape }
+        Band {
+            at,
+            strength,
+            shape,
+        }
     }
 
     #[test]
     fn strength_may_be_one_class_weaker_and_more_under_atr() {
-        assert!(strength_compatible(Strength::Medium, ExpectedStrength::Strong, 0));
-        assert!(!strength_compatible(Strength::Weak, ExpectedStrength::Strong, 0));
-        assert!(strength_compatible(Strength::Weak, ExpectedStrength::Strong, 1));
-        assert!(strength_compatible(Strength::Weak, ExpectedStrength::Variable, 0));
+        assert!(strength_compatible(
+            Strength::Medium,
+            ExpectedStrength::Strong,
+            0
+        ));
+        assert!(!strength_compatible(
+            Strength::Weak,
+            ExpectedStrength::Strong,
+            0
+        ));
+        assert!(strength_compatible(
+            Strength::Weak,
+            ExpectedStrength::Strong,
+            1
+        ));
+        assert!(strength_compatible(
+            Strength::Weak,
+            ExpectedStrength::Variable,
+            0
+        ));
     }
 
     #[test]
@@ -355,7 +389,10 @@ mod tests {
     fn vapour_phase_override_moves_the_alcohol_band() {
         // common practice (from memory): free O–H of an alcohol vapour sits near 3650, sharp.
         let cat = small_catalogue();
-        let rule = &cat.group("alcohol_primary").map(|g| g.bands[0].clone()).unwrap_or_else(|| panic!("rule"));
+        let rule = &cat
+            .group("alcohol_primary")
+            .map(|g| g.bands[0].clone())
+            .unwrap_or_else(|| panic!("rule"));
         let free = b(3650.0, Strength::Medium, Some(Shape::Sharp));
         assert!(satisfies(&free, rule, &cat, Some(Technique::Gas), 15.0).is_some());
         assert!(satisfies(&free, rule, &cat, Some(Technique::Film), 15.0).is_none());
@@ -366,7 +403,10 @@ mod tests {
     #[test]
     fn quality_is_highest_at_the_centre() {
         let eff = Effective {
-            range: Range { lo: 1700.0, hi: 1720.0 },
+            range: Range {
+                lo: 1700.0,
+                hi: 1720.0,
+            },
             strength: ExpectedStrength::Strong,
             shape: ExpectedShape::Any,
             may_be_absent: false,

@@ -109,7 +109,8 @@ pub fn isotope_percentages(formula: &Formula) -> (f64, f64) {
 pub fn check_isotope(label: &str, observed: f64, calculated: f64) -> MsCheck {
     let tolerance = (0.25 * calculated).max(3.0);
     let agrees = (observed - calculated).abs() <= tolerance;
-    let mut detail = format!("{label} {observed}% of M vs {calculated:.1}% calculated (±{tolerance:.1})");
+    let mut detail =
+        format!("{label} {observed}% of M vs {calculated:.1}% calculated (±{tolerance:.1})");
     if !agrees && label == "M+2" {
         detail.push_str(&format!("; {}", m_plus_2_reading(observed)));
     }
@@ -131,7 +132,11 @@ pub fn m_plus_2_reading(observed: f64) -> String {
 }
 
 /// MS clues of `group` that the stated fragments match, in words.
-pub fn matched_clues(group: &Group, ms: &MsEvidence, molecular_nominal: Option<f64>) -> Vec<String> {
+pub fn matched_clues(
+    group: &Group,
+    ms: &MsEvidence,
+    molecular_nominal: Option<f64>,
+) -> Vec<String> {
     let mut out = Vec::new();
     for clue in &group.ms {
         let hit = match clue.kind {
@@ -148,7 +153,10 @@ pub fn matched_clues(group: &Group, ms: &MsEvidence, molecular_nominal: Option<f
             }),
         };
         if let Some(h) = hit {
-            out.push(format!("{} ({h}; {}:{})", clue.label, clue.defined_at.file, clue.defined_at.line));
+            out.push(format!(
+                "{} ({h}; {}:{})",
+                clue.label, clue.defined_at.file, clue.defined_at.line
+            ));
         }
     }
     out

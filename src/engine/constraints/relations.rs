@@ -13,11 +13,18 @@ pub fn check(problem: &Problem<'_>, counts: &[u32]) -> Vec<String> {
         let g = problem.groups[i].group;
         for &j in &problem.excludes[i] {
             if j > i && counts[j] > 0 {
-                out.push(format!("{} and {} exclude each other", g.id, problem.groups[j].group.id));
+                out.push(format!(
+                    "{} and {} exclude each other",
+                    g.id, problem.groups[j].group.id
+                ));
             }
         }
         if !g.requires_any.is_empty() && !problem.requires[i].iter().any(|&j| counts[j] > 0) {
-            out.push(format!("{} requires one of: {}", g.id, g.requires_any.join(", ")));
+            out.push(format!(
+                "{} requires one of: {}",
+                g.id,
+                g.requires_any.join(", ")
+            ));
         }
     }
     out
