@@ -227,11 +227,13 @@ impl<'c> Problem<'c> {
                 (list, sp3)
             })
             .collect();
+        let positions: Vec<f64> = bands.iter().map(|(_, b)| b.band.at).collect();
         let explainers = bands
             .iter()
             .map(|(_, b)| {
                 band_explanation::explainers_of(
                     &b.band,
+                    &positions,
                     catalogue,
                     &groups,
                     technique,

@@ -19,6 +19,9 @@ use crate::rules::{Catalogue, ExpectedShape, Technique};
 /// Width above which a sharp artefact is read as a forest of weak lines, cm⁻¹.
 pub const LINE_FOREST_CM1: f64 = 150.0;
 
+/// Observed bands inside a line-forest artefact's range that show the forest is there.
+pub const FOREST_MIN_BANDS: usize = 4;
+
 /// Everything that could explain one observed band, found once per band.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct BandExplainers {
@@ -42,6 +45,7 @@ pub fn is_demanded(band: &Band) -> bool {
 /// Finds every rule that can explain `band`.
 pub fn explainers_of(
     band: &Band,
+    all_positions: &[f64],
     catalogue: &Catalogue,
     groups: &[GroupData<'_>],
     technique: Option<Technique>,
@@ -61,8 +65,18 @@ pub fn explainers_of(
         // A sharp artefact spread over more than LINE_FOREST_CM1 (water-vapour lines) is a
         // forest of narrow lines: it may excuse weak and medium bands, never a strong one,
         // or a strong carbonyl could be waved away as water vapour.
+        // A medium band is excused by a forest only when the band list shows the forest
+        // (at least FOREST_MIN_BANDS observed bands inside its range): an isolated
+        // medium band such as a free O–H near 3650 is not water vapour.
         let forest = a.shape == ExpectedShape::Sharp && a.range.hi - a.range.lo > LINE_FOREST_CM1;
-        let strength_ok = !(forest && band.strength == Strength::Strong);
+        let forest_seen = all_positions
+            .iter()
+            .filter(|at| a.range.contains_within(**at, tolerance))
+            .count()
+            >= FOREST_MIN_BANDS;
+        let strength_ok = !forest
+            || band.strength == Strength::Weak
+            || (band.strength == Strength::Medium && forest_seen);
         if technique_ok && shape_ok && strength_ok && a.range.contains_within(band.at, tolerance) {
             let half = (a.range.hi - a.range.lo) / 2.0;
             let q = 1.0 - (band.at - a.range.centre()).abs() / (half + tolerance);
@@ -78,6 +92,11 @@ pub fn explainers_of(
         }
     }
     for (si, s) in catalogue.skeleton.iter().enumerate() {
+        // Skeleton rules are C–H stretches and bends: never broad (common practice),
+        // whatever shape the rule leaves open, so a broad O–H is never taken for C–H.
+        if band.shape == Some(crate::ir::Shape::Broad) {
+            continue;
+        }
         if let Some(q) = explains(band, &s.band, technique, tolerance) {
             out.skeleton.push((si, q));
         }
