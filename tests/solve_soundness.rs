@@ -83,7 +83,7 @@ fn build(cat: &Catalogue, picks: &[usize], chain: u32) -> Option<Molecule> {
         let heavy = i64::from(g.atoms.n_atoms() - g.atoms.count("H"));
         let internal_bonds = (valence_sum - must - optional - i64::from(g.atoms.count("H"))) / 2;
         let closures = i64::from(g.dbe) - (internal_bonds - heavy + 1);
-        if closures < 0 || closures > 1 || (closures == 1 && (must < 2 || chain < 2)) {
+        if !(0..=1).contains(&closures) || (closures == 1 && (must < 2 || chain < 2)) {
             return None;
         }
         // One end to the chain (a must end if any, else an optional one); a ring-closing
