@@ -35,7 +35,9 @@ const BANDS: &str = concat!(
 );
 
 fn case(formula: &str) -> Case {
-    let text = format!("# invented benchmark case\nformula: {formula}\nir:\n  technique: KBr\n  bands:\n{BANDS}");
+    let text = format!(
+        "# invented benchmark case\nformula: {formula}\nir:\n  technique: KBr\n  bands:\n{BANDS}"
+    );
     let (case, d) = parse(&text, "bench.yaml");
     case.unwrap_or_else(|| panic!("{d:?}"))
 }
@@ -59,9 +61,10 @@ fn benches(c: &mut Criterion) {
         o.n_consistent,
         o.near_misses.len()
     );
-    c.bench_function("solve C17H17ClN2O4S (25 heavy atoms, 8 heteroatoms, 15 bands)", |b| {
-        b.iter(|| solve(black_box(&main_case), &catalogue, &options))
-    });
+    c.bench_function(
+        "solve C17H17ClN2O4S (25 heavy atoms, 8 heteroatoms, 15 bands)",
+        |b| b.iter(|| solve(black_box(&main_case), &catalogue, &options)),
+    );
 
     let mut group = c.benchmark_group("solve by heteroatom count (C20, DBE 6, 15 bands)");
     group.sample_size(10);
@@ -72,7 +75,11 @@ fn benches(c: &mut Criterion) {
         eprintln!(
             "{formula} ({n} heteroatoms): {} consistent candidates{}",
             o.n_consistent,
-            if o.enumeration_truncated { " (limit reached)" } else { "" }
+            if o.enumeration_truncated {
+                " (limit reached)"
+            } else {
+                ""
+            }
         );
         group.bench_function(format!("{n} heteroatoms {formula}"), |b| {
             b.iter(|| solve(black_box(&k), &catalogue, &options))

@@ -129,16 +129,25 @@ pub struct HydrogenNeeds {
     pub h_on_groups: Option<Vec<usize>>,
 }
 
-/// Whether skeleton rule `si` applies to the candidate.
-pub fn skeleton_applies(problem: &Problem<'_>, si: usize, counts: &[u32], skeleton_c: u32) -> bool {
+/// True when a group of the candidate holds a saturated C–H of its own.
+pub fn has_sp3_group(problem: &Problem<'_>, counts: &[u32]) -> bool {
+    counts
+        .iter()
+        .zip(&problem.groups)
+        .any(|(n, g)| *n > 0 && g.sp3_ch)
+}
+
+/// Whether skeleton rule `si` applies to the candidate (`sp3_group`: see
+/// [`has_sp3_group`], computed once per candidate).
+pub fn skeleton_applies(
+    problem: &Problem<'_>,
+    si: usize,
+    counts: &[u32],
+    skeleton_c: u32,
+    sp3_group: bool,
+) -> bool {
     let (needs, sp3) = &problem.skeleton_needs[si];
-    (*sp3
-        && (skeleton_c > 0
-            || counts
-                .iter()
-                .zip(&problem.groups)
-                .any(|(n, g)| *n > 0 && g.sp3_ch)))
-        || needs.iter().any(|&j| counts[j] > 0)
+    (*sp3 && (skeleton_c > 0 || sp3_group)) || needs.iter().any(|&j| counts[j] > 0)
 }
 
 /// The hydrogen a skeleton rule needs: `Some(true)` an sp3 C–H (the rule names
@@ -170,6 +179,7 @@ pub fn check(
 ) -> (Vec<usize>, HydrogenNeeds) {
     let mut unexplained = Vec::new();
     let mut needs = HydrogenNeeds::default();
+    let sp3_group = has_sp3_group(problem, counts);
     for (bi, ex) in problem.explainers.iter().enumerate() {
         if !ex.demanded || !ex.artefacts.is_empty() {
             continue;
@@ -186,7 +196,7 @@ pub fn check(
             .skeleton
             .iter()
             .map(|(si, _)| *si)
-            .filter(|&si| skeleton_applies(problem, si, counts, skeleton_c))
+            .filter(|&si| skeleton_applies(problem, si, counts, skeleton_c, sp3_group))
             .collect();
         if applicable.is_empty() {
             unexplained.push(bi);
