@@ -8,6 +8,7 @@
 mod bands;
 mod formula;
 mod from_mass;
+mod isomers;
 mod rules;
 mod solve;
 
@@ -47,6 +48,8 @@ enum Command {
     Bands(bands::BandsArgs),
     /// Candidate formulas for a measured m/z.
     FromMass(from_mass::FromMassArgs),
+    /// Constitutional isomers of a formula, optionally with an exact group multiset.
+    Isomers(isomers::IsomersArgs),
 }
 
 /// What a subcommand reports back to `run`: the exit status it earned.
@@ -104,6 +107,7 @@ where
         Command::Solve(a) => solve::run(a, &mut out),
         Command::Bands(a) => bands::run(a, &mut out),
         Command::FromMass(a) => from_mass::run(a, &mut out),
+        Command::Isomers(a) => isomers::run(a, &mut out),
     };
     let _ = out.flush();
     match result {
