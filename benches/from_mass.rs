@@ -10,6 +10,9 @@
 //!
 //! Run: `cargo bench --bench from_mass`.
 
+// criterion's macros generate undocumented functions.
+#![allow(missing_docs)]
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use quiddity::ms::formula_search::{reference_search_mass, search_mass};
 use quiddity::ms::{candidate_formulas, ElementRanges, IonType, MassQuery, MeasuredMz};
