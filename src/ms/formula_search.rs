@@ -13,11 +13,15 @@
 //! ```
 //!
 //! intersected with its range, so no branch is entered that cannot reach the window.
-//! At the bottom the solved element's count is the few integers (usually zero or one)
-//! with `lo ≤ used + n·m_H ≤ hi`, found in O(1). The cost is proportional to the number
-//! of partial combinations that can still reach the window — for the default ranges at
-//! m/z 500 about a million heteroatom combinations, each giving about ten carbon counts
-//! — instead of the product of all range sizes (≈ 2.6 × 10¹¹) that nested loops visit.
+//! The last two elements (carbon and hydrogen with the default ranges) are solved
+//! together: 12 C and 12 H differ by 0.094 u, so within a window narrower than that at
+//! most one (C, H) pair completes a given heteroatom combination, and a sorted table of
+//! (h·m_H) mod m_C finds it by binary search ([`solve_last_pair`]; an extended residue
+//! table for one pair). When the window is too wide for that (half-width ≥ m_C / 2),
+//! carbon is looped over and hydrogen solved in O(1) from the bounds. The cost is
+//! proportional to the number of heteroatom combinations that can still reach the
+//! window — about a million at m/z 500 over the default ranges — instead of the product
+//! of all range sizes (≈ 2.6 × 10¹¹) that nested loops visit.
 //!
 //! Pruning uses a slack of [`PRUNE_SLACK`] u so that rounding can never cut a true hit;
 //! the final decision for every combination is [`mass_of`] (one fixed summation order)
@@ -87,6 +91,9 @@ struct Plan {
     /// Smallest / largest mass positions `k..` can add.
     suffix_min: Vec<f64>,
     suffix_max: Vec<f64>,
+    /// For the last two positions a, b (carbon and hydrogen by default): every count h of
+    /// b with the residue (h·m_b) mod m_a, sorted by residue. See [`solve_last_pair`].
+    pair_residues: Vec<(f64, u32)>,
 }
 
 impl Plan {
@@ -105,6 +112,14 @@ impl Plan {
             suffix_min[k] = suffix_min[k + 1] + masses[k] * f64::from(min[k]);
             suffix_max[k] = suffix_max[k + 1] + masses[k] * f64::from(max[k]);
         }
+        let mut pair_residues = Vec::new();
+        if n >= 2 {
+            let (m_a, m_b) = (masses[n - 2], masses[n - 1]);
+            pair_residues = (min[n - 1]..=max[n - 1])
+                .map(|h| ((m_b * f64::from(h)).rem_euclid(m_a), h))
+                .collect();
+            pair_residues.sort_by(|x, y| x.0.total_cmp(&y.0).then(x.1.cmp(&y.1)));
+        }
         Plan {
             order,
             mass: masses,
@@ -112,6 +127,7 @@ impl Plan {
             max,
             suffix_min,
             suffix_max,
+            pair_residues,
         }
     }
 }
@@ -141,11 +157,19 @@ fn descend_mass(
     counts: &mut [u32],
     visit: &mut impl FnMut(&[u32]),
 ) {
+    let n_positions = plan.order.len();
+    if k + 2 == n_positions {
+        let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
+        if half_width < plan.mass[k] / 2.0 {
+            solve_last_pair(plan, ranges, used, lo, hi, counts, visit);
+            return;
+        }
+    }
     let Some((first, last)) = count_bounds(plan, k, used, lo, hi) else {
         return;
     };
     let slot = plan.order[k];
-    if k + 1 == plan.order.len() {
+    if k + 1 == n_positions {
         // The solved element: only the counts the bounds allow, usually zero or one.
         for n in first..=last {
             counts[slot] = n;
@@ -171,6 +195,56 @@ fn descend_mass(
         );
     }
     counts[slot] = 0;
+}
+
+/// The last two positions a, b at once, in O(log |range of b| + hits): a count h of b
+/// can complete the window only if (h·m_b) mod m_a lies within the window's half-width of
+/// (window centre − used) mod m_a; the table of those residues is sorted, so the h that
+/// qualify are found by binary search, and each fixes the count of a (unique because the
+/// half-width is below m_a / 2). Every hit is then confirmed by [`mass_of`].
+fn solve_last_pair(
+    plan: &Plan,
+    ranges: &ElementRanges,
+    used: f64,
+    lo: f64,
+    hi: f64,
+    counts: &mut [u32],
+    visit: &mut impl FnMut(&[u32]),
+) {
+    let n = plan.order.len();
+    let (m_a, m_b) = (plan.mass[n - 2], plan.mass[n - 1]);
+    let (slot_a, slot_b) = (plan.order[n - 2], plan.order[n - 1]);
+    let centre = (lo + hi) / 2.0 - used;
+    let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
+    if centre + half_width < 0.0 {
+        return;
+    }
+    let q = centre.rem_euclid(m_a);
+    let table = &plan.pair_residues;
+    let mut visit_range = |from: f64, to: f64| {
+        let start = table.partition_point(|(r, _)| *r < from);
+        for &(_, h) in table[start..].iter().take_while(|(r, _)| *r <= to) {
+            let a = ((centre - m_b * f64::from(h)) / m_a).round();
+            if a < f64::from(plan.min[n - 2]) || a > f64::from(plan.max[n - 2]) {
+                continue;
+            }
+            counts[slot_a] = a as u32;
+            counts[slot_b] = h;
+            let mass = mass_of(ranges, counts);
+            if lo <= mass && mass <= hi {
+                visit(counts);
+            }
+        }
+    };
+    visit_range(q - half_width, q + half_width);
+    if q - half_width < 0.0 {
+        visit_range(q - half_width + m_a, m_a);
+    }
+    if q + half_width >= m_a {
+        visit_range(0.0, q + half_width - m_a);
+    }
+    counts[slot_a] = 0;
+    counts[slot_b] = 0;
 }
 
 fn descend_nominal(

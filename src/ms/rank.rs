@@ -222,6 +222,9 @@ pub fn candidate_formulas(query: &MassQuery) -> Result<Vec<FormulaCandidate>, Qu
 /// Filters and scores one combination; `None` when a filter rejects it.
 pub fn evaluate(query: &MassQuery, counts: &[u32]) -> Option<FormulaCandidate> {
     let ranges = &query.ranges;
+    if !passes_lewis_and_senior(ranges, counts) {
+        return None;
+    }
     let composition = Composition::from_pairs(
         ranges
             .ranges()
@@ -285,6 +288,36 @@ pub fn evaluate(query: &MassQuery, counts: &[u32]) -> Option<FormulaCandidate> {
     })
 }
 
+/// chem's LEWIS and SENIOR checks of the neutral molecule, computed on the counts
+/// without building a formula (most combinations in a window fail here, so this keeps
+/// the evaluation cheap). Same conditions as [`crate::chem::LewisCheck`] and
+/// [`crate::chem::SeniorCheck`]; chem's own checks still run on the survivors, and a test
+/// compares the two on random counts.
+pub fn passes_lewis_and_senior(ranges: &ElementRanges, counts: &[u32]) -> bool {
+    let mut electrons = 0u64;
+    let mut twice_dbe = 2i64;
+    let mut valence_sum = 0u64;
+    let mut max_valence = 0u64;
+    let mut n_atoms = 0u64;
+    for (r, n) in ranges.ranges().iter().zip(counts) {
+        if *n == 0 {
+            continue;
+        }
+        let n = u64::from(*n);
+        let v = u64::from(r.element.valence);
+        electrons += n * u64::from(r.element.atomic_number);
+        twice_dbe += n as i64 * (v as i64 - 2);
+        valence_sum += n * v;
+        max_valence = max_valence.max(v);
+        n_atoms += n;
+    }
+    electrons % 2 == 0
+        && twice_dbe >= 0
+        && valence_sum % 2 == 0
+        && valence_sum >= 2 * max_valence
+        && valence_sum + 2 >= 2 * n_atoms
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -346,6 +379,28 @@ mod tests {
             assert_eq!(c.composition.count("N") % 2, 0, "{}", c.formula);
             assert_eq!(c.nominal_mass, 194);
         }
+    }
+
+    #[test]
+    fn count_level_checks_agree_with_chem() {
+        let ranges = ElementRanges::parse("C0-4H0-9N0-2O0-2S0-1P0-1Cl0-2Si0-1").unwrap();
+        let mut checked = 0;
+        for nominal in 1..=160 {
+            crate::ms::formula_search::search_nominal(&ranges, nominal, |counts| {
+                let composition = Composition::from_pairs(
+                    ranges
+                        .ranges()
+                        .iter()
+                        .zip(counts)
+                        .map(|(r, n)| (r.element.symbol, *n)),
+                );
+                let f = Formula::from_composition(&composition).unwrap();
+                let chem = f.lewis().passes() && f.senior().passes();
+                assert_eq!(passes_lewis_and_senior(&ranges, counts), chem, "{f}");
+                checked += 1;
+            });
+        }
+        assert!(checked > 5_000, "{checked}");
     }
 
     #[test]
