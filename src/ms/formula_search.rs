@@ -13,15 +13,16 @@
 //! ```
 //!
 //! intersected with its range, so no branch is entered that cannot reach the window.
-//! The last two elements (carbon and hydrogen with the default ranges) are solved
-//! together: 12 C and 12 H differ by 0.094 u, so within a window narrower than that at
-//! most one (C, H) pair completes a given heteroatom combination, and a sorted table of
-//! (h·m_H) mod m_C finds it by binary search ([`solve_last_pair`]; an extended residue
-//! table for one pair). When the window is too wide for that (half-width ≥ m_C / 2),
+//! The last three elements (nitrogen, carbon and hydrogen with the default ranges) are
+//! solved together by an extended residue table ([`solve_tail`]): every (N, H) count pair
+//! with its mass modulo m_C, sorted; a binary search finds the pairs whose residue
+//! matches what is left of the window, and each fixes the carbon count. (12 C and 12 H
+//! differ by 0.094 u, so a narrow window rarely holds more than one completion.) When
+//! the window is too wide for that (half-width ≥ m_C / 2, e.g. a huge mDa tolerance),
 //! carbon is looped over and hydrogen solved in O(1) from the bounds. The cost is
-//! proportional to the number of heteroatom combinations that can still reach the
-//! window — about a million at m/z 500 over the default ranges — instead of the product
-//! of all range sizes (≈ 2.6 × 10¹¹) that nested loops visit.
+//! proportional to the combinations of the other elements that can still reach the
+//! window — about 10⁵ at m/z 500 over the default ranges — instead of the product of all
+//! range sizes (≈ 2.6 × 10¹¹) that nested loops visit.
 //!
 //! Pruning uses a slack of [`PRUNE_SLACK`] u so that rounding can never cut a true hit;
 //! the final decision for every combination is [`mass_of`] (one fixed summation order)
@@ -91,10 +92,27 @@ struct Plan {
     /// Smallest / largest mass positions `k..` can add.
     suffix_min: Vec<f64>,
     suffix_max: Vec<f64>,
-    /// For the last two positions a, b (carbon and hydrogen by default): every count h of
-    /// b with the residue (h·m_b) mod m_a, sorted by residue. See [`solve_last_pair`].
-    pair_residues: Vec<(f64, u32)>,
+    /// How the last positions are solved together; see [`solve_tail`].
+    tail: Option<Tail>,
 }
+
+/// The last two or three positions, solved at once by a residue table: the anchor is the
+/// second-to-last position (carbon by default); the others are the last position
+/// (hydrogen) and, when the table stays small, the third-to-last (nitrogen).
+struct Tail {
+    /// First position handled by the tail (the recursion hands over there).
+    enter_at: usize,
+    /// Position of the anchor.
+    anchor: usize,
+    /// Positions of the other tail elements (one or two).
+    others: Vec<usize>,
+    /// Every count combination of `others` with its mass's residue modulo the anchor's
+    /// mass, sorted by residue.
+    table: Vec<(f64, [u32; 2])>,
+}
+
+/// Largest residue table built for a three-element tail.
+const MAX_TAIL_TABLE: usize = 200_000;
 
 impl Plan {
     fn new(ranges: &ElementRanges, mass: impl Fn(&super::ranges::ElementRange) -> f64) -> Plan {
@@ -112,13 +130,37 @@ impl Plan {
             suffix_min[k] = suffix_min[k + 1] + masses[k] * f64::from(min[k]);
             suffix_max[k] = suffix_max[k + 1] + masses[k] * f64::from(max[k]);
         }
-        let mut pair_residues = Vec::new();
+        let mut tail = None;
         if n >= 2 {
-            let (m_a, m_b) = (masses[n - 2], masses[n - 1]);
-            pair_residues = (min[n - 1]..=max[n - 1])
-                .map(|h| ((m_b * f64::from(h)).rem_euclid(m_a), h))
-                .collect();
-            pair_residues.sort_by(|x, y| x.0.total_cmp(&y.0).then(x.1.cmp(&y.1)));
+            let anchor = n - 2;
+            let size = |k: usize| (max[k] - min[k] + 1) as usize;
+            let others: Vec<usize> = if n >= 3 && size(n - 3) * size(n - 1) <= MAX_TAIL_TABLE {
+                vec![n - 3, n - 1]
+            } else {
+                vec![n - 1]
+            };
+            let mut table = Vec::new();
+            let m_anchor = masses[anchor];
+            let first = others[0];
+            let second = others.get(1).copied();
+            for x in min[first]..=max[first] {
+                let ys: Vec<u32> = match second {
+                    Some(k) => (min[k]..=max[k]).collect(),
+                    None => vec![0],
+                };
+                for y in ys {
+                    let mass = masses[first] * f64::from(x)
+                        + second.map_or(0.0, |k| masses[k] * f64::from(y));
+                    table.push((mass.rem_euclid(m_anchor), [x, y]));
+                }
+            }
+            table.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+            tail = Some(Tail {
+                enter_at: if others.len() == 2 { n - 3 } else { n - 2 },
+                anchor,
+                others,
+                table,
+            });
         }
         Plan {
             order,
@@ -127,7 +169,7 @@ impl Plan {
             max,
             suffix_min,
             suffix_max,
-            pair_residues,
+            tail,
         }
     }
 }
@@ -158,10 +200,10 @@ fn descend_mass(
     visit: &mut impl FnMut(&[u32]),
 ) {
     let n_positions = plan.order.len();
-    if k + 2 == n_positions {
+    if let Some(tail) = plan.tail.as_ref().filter(|t| t.enter_at == k) {
         let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
-        if half_width < plan.mass[k] / 2.0 {
-            solve_last_pair(plan, ranges, used, lo, hi, counts, visit);
+        if half_width < plan.mass[tail.anchor] / 2.0 {
+            solve_tail(plan, tail, ranges, used, lo, hi, counts, visit);
             return;
         }
     }
@@ -197,13 +239,17 @@ fn descend_mass(
     counts[slot] = 0;
 }
 
-/// The last two positions a, b at once, in O(log |range of b| + hits): a count h of b
-/// can complete the window only if (h·m_b) mod m_a lies within the window's half-width of
-/// (window centre − used) mod m_a; the table of those residues is sorted, so the h that
-/// qualify are found by binary search, and each fixes the count of a (unique because the
-/// half-width is below m_a / 2). Every hit is then confirmed by [`mass_of`].
-fn solve_last_pair(
+/// The tail positions at once, in O(log |table| + hits): a count combination of the
+/// non-anchor tail elements can complete the window only if its mass modulo the anchor's
+/// mass lies within the window's half-width of (window centre − used) modulo that mass.
+/// The table of those residues is sorted, so the combinations that qualify are found by
+/// binary search, and each fixes the anchor's count (unique because the half-width is
+/// below half the anchor's mass). Every hit is then confirmed by [`mass_of`]. This is an
+/// extended residue table over the light elements (N and H around C by default).
+#[allow(clippy::too_many_arguments)]
+fn solve_tail(
     plan: &Plan,
+    tail: &Tail,
     ranges: &ElementRanges,
     used: f64,
     lo: f64,
@@ -211,25 +257,34 @@ fn solve_last_pair(
     counts: &mut [u32],
     visit: &mut impl FnMut(&[u32]),
 ) {
-    let n = plan.order.len();
-    let (m_a, m_b) = (plan.mass[n - 2], plan.mass[n - 1]);
-    let (slot_a, slot_b) = (plan.order[n - 2], plan.order[n - 1]);
+    let m_anchor = plan.mass[tail.anchor];
     let centre = (lo + hi) / 2.0 - used;
     let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
     if centre + half_width < 0.0 {
         return;
     }
-    let q = centre.rem_euclid(m_a);
-    let table = &plan.pair_residues;
+    let q = centre.rem_euclid(m_anchor);
+    let slot_anchor = plan.order[tail.anchor];
+    let (min_a, max_a) = (
+        f64::from(plan.min[tail.anchor]),
+        f64::from(plan.max[tail.anchor]),
+    );
+    let table = &tail.table;
     let mut visit_range = |from: f64, to: f64| {
         let start = table.partition_point(|(r, _)| *r < from);
-        for &(_, h) in table[start..].iter().take_while(|(r, _)| *r <= to) {
-            let a = ((centre - m_b * f64::from(h)) / m_a).round();
-            if a < f64::from(plan.min[n - 2]) || a > f64::from(plan.max[n - 2]) {
+        for (_, xs) in table[start..].iter().take_while(|(r, _)| *r <= to) {
+            let mut other_mass = 0.0;
+            for (position, x) in tail.others.iter().zip(xs) {
+                other_mass += plan.mass[*position] * f64::from(*x);
+            }
+            let a = ((centre - other_mass) / m_anchor).round();
+            if a < min_a || a > max_a {
                 continue;
             }
-            counts[slot_a] = a as u32;
-            counts[slot_b] = h;
+            counts[slot_anchor] = a as u32;
+            for (position, x) in tail.others.iter().zip(xs) {
+                counts[plan.order[*position]] = *x;
+            }
             let mass = mass_of(ranges, counts);
             if lo <= mass && mass <= hi {
                 visit(counts);
@@ -238,13 +293,15 @@ fn solve_last_pair(
     };
     visit_range(q - half_width, q + half_width);
     if q - half_width < 0.0 {
-        visit_range(q - half_width + m_a, m_a);
+        visit_range(q - half_width + m_anchor, m_anchor);
     }
-    if q + half_width >= m_a {
-        visit_range(0.0, q + half_width - m_a);
+    if q + half_width >= m_anchor {
+        visit_range(0.0, q + half_width - m_anchor);
     }
-    counts[slot_a] = 0;
-    counts[slot_b] = 0;
+    counts[slot_anchor] = 0;
+    for position in &tail.others {
+        counts[plan.order[*position]] = 0;
+    }
 }
 
 fn descend_nominal(
