@@ -426,6 +426,18 @@ mod tests {
     }
 
     #[test]
+    fn wide_windows_fall_back_to_loops_and_still_equal_nested_loops() {
+        // Half-width ≥ m(C)/2 disables the residue table: carbon is looped over instead.
+        let ranges = ElementRanges::parse("C0-8H0-18N0-2O0-3Cl0-1").unwrap();
+        for (lo, hi) in [(90.0, 104.0), (0.0, 30.0), (150.0, 150.5)] {
+            let fast = collect(|v| search_mass(&ranges, lo, hi, v));
+            let slow = collect(|v| reference_search_mass(&ranges, lo, hi, v));
+            assert!(!slow.is_empty());
+            assert_eq!(fast, slow, "{lo}..{hi}");
+        }
+    }
+
+    #[test]
     fn nominal_search_equals_nested_loops() {
         let ranges = ElementRanges::parse("C0-10H0-22N0-3O0-4Cl0-2").unwrap();
         for nominal in [28, 78, 120, 151] {
