@@ -1,0 +1,112 @@
+//! Black-box tests of `quiddity from-mass`: stdout, stderr and exit status.
+
+use std::process::{Command, Output};
+
+fn run(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_quiddity"))
+        .arg("from-mass")
+        .args(args)
+        .output()
+        .expect("run quiddity")
+}
+
+#[test]
+fn protonated_caffeine_json_lists_caffeine() {
+    // Done-when of the issue: caffeine's formula C8H10N4O2 (published monoisotopic mass
+    // 194.0804; common practice) among the candidates for [M+H]+ 195.0877 at 5 ppm.
+    let out = run(&["195.0877", "--ion", "[M+H]+", "--ppm", "5", "--json"]);
+    assert_eq!(out.status.code(), Some(0));
+    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).expect("one JSON document");
+    let candidates = doc["candidates"].as_array().expect("candidates");
+    let caffeine = candidates
+        .iter()
+        .find(|c| c["formula"] == "C8H10N4O2")
+        .expect("caffeine listed");
+    assert!(caffeine["error_ppm"].as_f64().unwrap().abs() < 1.0);
+    assert_eq!(caffeine["dbe"].as_f64(), Some(6.0));
+    assert_eq!(doc["query"]["ion"], "[M+H]+");
+    assert!(doc["caution"]
+        .as_str()
+        .unwrap()
+        .contains("not an identification"));
+    // Best first.
+    let totals: Vec<f64> = candidates
+        .iter()
+        .map(|c| c["score"]["total"].as_f64().unwrap())
+        .collect();
+    assert!(totals.windows(2).all(|w| w[0] >= w[1]));
+}
+
+#[test]
+fn human_output_is_a_table_with_the_caution() {
+    let out = run(&["195.0877", "--ion", "[M+H]+", "--m1", "10.3", "--m2", "0.9"]);
+    assert_eq!(out.status.code(), Some(0));
+    let text = String::from_utf8(out.stdout).unwrap();
+    let first_row = text
+        .lines()
+        .find(|l| l.trim_start().starts_with("1 "))
+        .expect("rank 1 row");
+    assert!(first_row.contains("C8H10N4O2"), "{text}");
+    assert!(text.contains("screening lead, not an identification"));
+    assert!(text.contains("M+2 alone allows Cl 0"), "{text}");
+}
+
+#[test]
+fn bad_input_exits_2_with_the_place() {
+    let cases: &[(&[&str], &str)] = &[
+        (&["-5"], "error: <m/z>:1:1: m/z must be positive"),
+        (&["195.08x7"], "error: <m/z>:1:7: m/z must be a number"),
+        (
+            &["99999.1"],
+            "error: <m/z>:1:1: m/z must be positive and at most 5000",
+        ),
+        (
+            &["195.0877", "--elements", "C0-30Xx0-4"],
+            "error: --elements:1:6: unknown element \"Xx\"",
+        ),
+        (
+            &["195.0877", "--ion", "[M+Hh]+"],
+            "error: --ion:1:1: unknown ion type \"[M+Hh]+\"",
+        ),
+        (
+            &["195.0877", "--ppm", "-3"],
+            "error: --ppm: tolerance must be positive",
+        ),
+    ];
+    for (args, expected) in cases {
+        let out = run(args);
+        let stderr = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{args:?}: {stderr}");
+        assert!(
+            stderr.lines().next().unwrap_or("").starts_with(expected),
+            "{args:?}: {stderr}"
+        );
+        assert!(out.stdout.is_empty(), "{args:?}");
+    }
+    let out = run(&["195.0877", "--ion", "[M+Hh]+"]);
+    assert!(String::from_utf8_lossy(&out.stderr).contains("did you mean \"[M+H]+\""));
+}
+
+#[test]
+fn no_formula_exits_1() {
+    // Only carbon allowed: nothing lies at m/z 195.0877 within 1 ppm.
+    let out = run(&["195.0877", "--elements", "C0-20", "--ppm", "1"]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stdout).contains("0 candidate formula(s)"));
+}
+
+#[test]
+fn nominal_mz_uses_the_radical_cation() {
+    let out = run(&["120", "--elements", "C0-10H0-20O0-2", "--json"]);
+    assert_eq!(out.status.code(), Some(0));
+    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(doc["query"]["mode"], "nominal");
+    assert_eq!(doc["query"]["ion"], "M+.");
+    // Acetophenone C8H8O (nominal mass 120; common practice) is among them.
+    let listed = doc["candidates"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|c| c["formula"] == "C8H8O");
+    assert!(listed);
+}
