@@ -133,7 +133,17 @@ pub fn for_each_structure(
     mut visit: impl FnMut(Molecule) -> ControlFlow<()>,
 ) -> Result<Summary, StructureError> {
     let problems = match groups {
-        None => vec![plain_problem(formula)?],
+        None => match plain_problem(formula)? {
+            Ok(p) => vec![p],
+            Err(reason) => {
+                return Ok(Summary {
+                    emitted: 0,
+                    stopped: false,
+                    no_structure_reason: Some(reason),
+                    duplicates_merged: 0,
+                })
+            }
+        },
         Some(g) => match group_problem(formula, g)? {
             Ok(p) => vec![p],
             Err(reason) => {
@@ -226,9 +236,16 @@ fn twice_dbe(heavy: &[(Element, u32)], hydrogens: u32) -> i64 {
     t
 }
 
-fn plain_problem(formula: &Formula) -> Result<Problem, StructureError> {
+/// Builds the plain-mode problem, or the reason no structure can exist.
+fn plain_problem(formula: &Formula) -> Result<Result<Problem, String>, StructureError> {
     let (heavy, hydrogens) = heavy_atoms(formula)?;
     let t = twice_dbe(&heavy, hydrogens);
+    if t < 0 || t % 2 != 0 {
+        return Ok(Err(format!(
+            "the formula's degree of unsaturation is {}; a neutral closed-shell molecule needs a whole number of at least 0",
+            t as f64 / 2.0
+        )));
+    }
     let shapes = heavy
         .iter()
         .map(|&(e, _)| Shape {
@@ -247,19 +264,14 @@ fn plain_problem(formula: &Formula) -> Result<Problem, StructureError> {
         })
         .collect();
     let counts = heavy.iter().map(|&(_, n)| n).collect();
-    let budget = if t < 0 || t % 2 != 0 {
-        u32::MAX
-    } else {
-        (t / 2) as u32
-    };
-    Ok(Problem {
+    Ok(Ok(Problem {
         shapes,
         counts,
         plain: true,
-        budget,
+        budget: (t / 2) as u32,
         hydrogens,
         target: None,
-    })
+    }))
 }
 
 /// The fragment of one group: SMILES of its heavy atoms and `(atom, min, max)` bonds to
@@ -956,7 +968,9 @@ mod tests {
 
     #[test]
     fn removable_units_of_a_chain_are_its_ends() {
-        let p = plain_problem(&Formula::parse("C3H8").unwrap()).unwrap();
+        let p = plain_problem(&Formula::parse("C3H8").unwrap())
+            .unwrap()
+            .unwrap();
         let mut s = p.start_states().remove(0);
         s = p.with_unit(&s, 0);
         s.edges.push((0, 1, Bond::Single, true));
