@@ -28,9 +28,7 @@ use super::molecule::{Atom, Bond, Element, Molecule};
 use super::perceive::perceive;
 use super::smiles::parse_smiles;
 use crate::chem::Formula;
-use std::collections::hash_map::DefaultHasher;
 use std::collections::HashSet;
-use std::hash::{Hash, Hasher};
 use std::ops::ControlFlow;
 
 /// Largest number of heavy atoms accepted (the enumeration grows exponentially).
@@ -101,6 +99,8 @@ struct Problem {
     hydrogens: u32,
     /// Group mode: the multiset every structure must show.
     target: Option<GroupCounts>,
+    /// Group mode: the shape of free sp3 carbons, removed first on canonical paths.
+    free_carbon_shape: Option<usize>,
 }
 
 /// The structure being built.
@@ -271,6 +271,7 @@ fn plain_problem(formula: &Formula) -> Result<Result<Problem, String>, Structure
         budget: (t / 2) as u32,
         hydrogens,
         target: None,
+        free_carbon_shape: None,
     }))
 }
 
@@ -441,8 +442,10 @@ fn group_problem(
             )));
         }
     }
+    let mut free_carbon_shape = None;
     if free_carbons > 0 {
         set.add("C", &[(0, 0, 4)], free_carbons);
+        free_carbon_shape = Some(set.shapes.len() - 1);
     }
     let ShapeSet { shapes, counts, .. } = set;
     // Hydrogen bookkeeping: H capacity of all atoms minus two per bond between units.
@@ -485,6 +488,7 @@ fn group_problem(
         budget: rings,
         hydrogens,
         target: Some(groups.clone()),
+        free_carbon_shape,
     }))
 }
 
@@ -780,7 +784,7 @@ impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
             return Some(g.canonical_form());
         }
         let removable = removable_units(child);
-        let invariant = unit_invariants(&g, child);
+        let invariant = unit_invariants(&g, child, p.free_carbon_shape);
         let best = removable.iter().map(|&u| invariant[u]).max()?;
         if invariant[new_unit] != best {
             return None;
@@ -913,22 +917,21 @@ fn removable_units(state: &State) -> Vec<usize> {
 
 /// An isomorphism-invariant number per unit: the multiset of its atoms' colours after
 /// three rounds of colour refinement.
-fn unit_invariants(g: &Coloured, state: &State) -> Vec<u64> {
+fn unit_invariants(g: &Coloured, state: &State, preferred_shape: Option<usize>) -> Vec<u64> {
     let n = g.len();
-    let mut colour: Vec<u64> = (0..n).map(|i| u64::from(g.colour(i))).collect();
+    let mut colour: Vec<u64> = (0..n).map(|i| mix(0, u64::from(g.colour(i)))).collect();
+    let mut around: Vec<u64> = Vec::new();
     for _ in 0..3 {
         let next: Vec<u64> = (0..n)
             .map(|i| {
-                let mut around: Vec<(u8, u64)> = g
-                    .neighbours(i)
-                    .iter()
-                    .map(|&(j, l)| (l, colour[j as usize]))
-                    .collect();
+                around.clear();
+                around.extend(
+                    g.neighbours(i)
+                        .iter()
+                        .map(|&(j, l)| mix(u64::from(l), colour[j as usize])),
+                );
                 around.sort_unstable();
-                let mut h = DefaultHasher::new();
-                colour[i].hash(&mut h);
-                around.hash(&mut h);
-                h.finish()
+                around.iter().fold(mix(1, colour[i]), |h, &x| mix(h, x))
             })
             .collect();
         colour = next;
@@ -939,13 +942,25 @@ fn unit_invariants(g: &Coloured, state: &State) -> Vec<u64> {
     }
     per_unit
         .into_iter()
-        .map(|mut v| {
+        .enumerate()
+        .map(|(u, mut v)| {
             v.sort_unstable();
-            let mut h = DefaultHasher::new();
-            v.hash(&mut h);
-            h.finish()
+            let h = v.iter().fold(2, |h, &x| mix(h, x)) >> 1;
+            // Units of the preferred shape (free carbons) are removed first, so that
+            // construction paths place the group fragments before the plain carbons.
+            let preferred = preferred_shape == Some(usize::from(state.units[u].0));
+            h | (u64::from(preferred) << 63)
         })
         .collect()
+}
+
+/// A fast 64-bit mixing step (splitmix64 finaliser); invariants only need to be equal
+/// for equal inputs, and rarely equal otherwise.
+fn mix(h: u64, x: u64) -> u64 {
+    let mut z = h.rotate_left(5) ^ x.wrapping_add(0x9e37_79b9_7f4a_7c15);
+    z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
+    z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
+    z ^ (z >> 31)
 }
 
 #[cfg(test)]
