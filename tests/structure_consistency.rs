@@ -6,7 +6,7 @@
 
 use quiddity::chem::Formula;
 use quiddity::structure::{
-    enumerate, for_each_structure, perceive, to_smiles, GroupCounts, GroupId,
+    enumerate, for_each_structure, perceive, to_smiles, Bond, GroupCounts, GroupId, Molecule,
 };
 use std::collections::BTreeMap;
 use std::ops::ControlFlow;
@@ -100,4 +100,54 @@ fn dbe_equals_the_dbe_the_groups_account_for() {
         }
     }
     assert!(checked > 500, "only {checked} structures");
+}
+
+/// `m` with its atoms renumbered by `order` (new index k holds old atom order[k]).
+fn renumbered(m: &Molecule, order: &[usize]) -> Molecule {
+    let mut position = vec![0; order.len()];
+    for (new, &old) in order.iter().enumerate() {
+        position[old] = new;
+    }
+    let mut out = Molecule::new();
+    for &old in order {
+        out.add_atom(m.atom(old));
+    }
+    let mut bonds: Vec<(usize, usize, Bond)> = m.bonds().collect();
+    bonds.reverse();
+    for (a, b, bond) in bonds {
+        out.add_bond(position[b], position[a], bond);
+    }
+    out
+}
+
+#[test]
+fn canonical_smiles_do_not_depend_on_atom_order() {
+    // C6H6 holds 217 strained and unusual graphs, a hard case for canonical labelling.
+    let mut seed: u64 = 0x5eed;
+    let mut checked = 0;
+    for (f, groups) in [
+        ("C6H6", None),
+        ("C10H12O", Some("ketone:1,aromatic_ring:1")),
+        ("C4H8O2", None),
+    ] {
+        let g = groups.map(|g| GroupCounts::parse(g).expect("groups"));
+        for s in enumerate(&Formula::parse(f).expect("formula"), g.as_ref(), None)
+            .expect("enumerate")
+            .structures
+        {
+            for _ in 0..3 {
+                let mut order: Vec<usize> = (0..s.molecule.n_atoms()).collect();
+                // Fisher-Yates with a fixed linear congruential generator (reproducible).
+                for i in (1..order.len()).rev() {
+                    seed = seed
+                        .wrapping_mul(6364136223846793005)
+                        .wrapping_add(1442695040888963407);
+                    order.swap(i, (seed >> 33) as usize % (i + 1));
+                }
+                assert_eq!(to_smiles(&renumbered(&s.molecule, &order)), s.smiles, "{f}");
+                checked += 1;
+            }
+        }
+    }
+    assert!(checked > 1000);
 }

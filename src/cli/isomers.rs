@@ -29,7 +29,7 @@ pub struct IsomersArgs {
     #[arg(long, value_name = "ID:N,...")]
     groups: Option<String>,
 
-    /// Print only how many structures there are.
+    /// Print only how many structures there are (with --json, `structures` is empty).
     #[arg(long)]
     count: bool,
 
