@@ -17,7 +17,8 @@ use std::ops::ControlFlow;
 const FORMULAS: &[&str] = &[
     "C4H8O", "C3H6O2", "C4H6O", "C5H8", "C3H7NO", "C2H6OS", "C3H5Cl", "C2H4O2", "C4H8O2", "C4H9N",
     "C3H3N", "C3H4O2", "C6H6", "C2H3NO", "C2H5NO2", "CH4N2O", "C2H6O2S", "C2H3ClO", "C7H8",
-    "C6H5Cl", "C5H5N", "C3H6S", "C4H6O2", "C3H9O4P",
+    "C6H5Cl", "C5H5N", "C3H6S", "C4H6O2", "C3H9O4P", "C2H2", "CH2O", "CH4O", "CH5N", "CH2O2",
+    "C2H4O", "CH3Cl", "CH3NO", "C2H2O2", "C3H4", "C2H3N", "CH4S",
 ];
 
 #[test]

@@ -281,7 +281,7 @@ fn fragment(group: GroupId) -> (&'static str, &'static [(usize, u8, u8)]) {
     use GroupId as G;
     match group {
         G::Alkene => ("C=C", &[(0, 0, 2), (1, 0, 2)]),
-        G::AlkyneTerminal => ("C#C", &[(0, 1, 1)]),
+        G::AlkyneTerminal => ("C#C", &[(0, 0, 1)]), // min 0: acetylene
         G::AlkyneInternal => ("C#C", &[(0, 1, 1), (1, 1, 1)]),
         G::AromaticRing => (
             "c1ccccc1",
