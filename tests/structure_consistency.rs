@@ -64,6 +64,22 @@ fn canonical_augmentation_alone_produces_no_duplicates() {
         assert!(summary.emitted > 0);
         assert_eq!(summary.duplicates_merged, 0, "{f}");
     }
+    // Group mode builds benzene rings as aromatic fragments: no Kekulé pairs either.
+    for (f, g) in [
+        ("C10H12O", "ketone:1,aromatic_ring:1"),
+        ("C9H10O2", "ester:1,aromatic_ring:1"),
+        ("C6H12O6", "aldehyde:1,alcohol:5"),
+        ("C8H14O", "ketone:1,ring:1"),
+    ] {
+        let groups = GroupCounts::parse(g).expect("groups");
+        let summary =
+            for_each_structure(&Formula::parse(f).expect("formula"), Some(&groups), |_| {
+                ControlFlow::Continue(())
+            })
+            .expect("generation");
+        assert!(summary.emitted > 0);
+        assert_eq!(summary.duplicates_merged, 0, "{f} {g}");
+    }
     // Ortho-disubstituted benzene rings (o-xylene) come as two Kekulé forms that are not
     // isomorphic as labelled graphs; they are merged after aromatisation.
     let summary = for_each_structure(&Formula::parse("C8H10").expect("formula"), None, |_| {

@@ -86,6 +86,48 @@ struct ShapeAtom {
 struct Shape {
     atoms: Vec<ShapeAtom>,
     bonds: Vec<(usize, usize, Bond)>,
+    /// Per atom, its symmetry class within the shape (atoms an automorphism of the
+    /// fragment, ports included, exchanges share a class). Canonical colours use the
+    /// class, not the atom's position, so that the six carbons of a benzene fragment are
+    /// interchangeable and a monosubstituted ring is one labelled graph, not six.
+    classes: Vec<u8>,
+}
+
+impl Shape {
+    fn new(atoms: Vec<ShapeAtom>, bonds: Vec<(usize, usize, Bond)>) -> Shape {
+        let colours: Vec<u32> = atoms
+            .iter()
+            .map(|a| {
+                (a.element.code() << 20)
+                    | (((i32::from(a.charge) + 8) as u32 & 0xf) << 16)
+                    | (u32::from(a.aromatic) << 15)
+                    | (u32::from(a.min_ports) << 8)
+                    | u32::from(a.max_ports)
+            })
+            .collect();
+        let edges: Vec<(usize, usize, u8)> = bonds
+            .iter()
+            .map(|&(a, b, bond)| (a, b, bond.code()))
+            .collect();
+        let graph = Coloured::new(colours, &edges);
+        // Two atoms are in one orbit exactly when marking either gives the same
+        // canonical form.
+        let marked: Vec<Coloured> = (0..atoms.len())
+            .map(|i| {
+                let mut g = graph.clone();
+                g.set_colour(i, g.colour(i) | MARK);
+                g.canonical_form()
+            })
+            .collect();
+        let classes = (0..atoms.len())
+            .map(|i| (0..=i).find(|&j| marked[j] == marked[i]).unwrap_or(i) as u8)
+            .collect();
+        Shape {
+            atoms,
+            bonds,
+            classes,
+        }
+    }
 }
 
 /// The search problem: shapes, how many of each, the budget and the target H count.
@@ -248,19 +290,21 @@ fn plain_problem(formula: &Formula) -> Result<Result<Problem, String>, Structure
     }
     let shapes = heavy
         .iter()
-        .map(|&(e, _)| Shape {
-            atoms: vec![ShapeAtom {
-                element: e,
-                charge: 0,
-                aromatic: false,
-                min_ports: 0,
-                max_ports: match e {
-                    Element::S => 6,
-                    Element::P => 5,
-                    other => other.base_valence(),
-                },
-            }],
-            bonds: Vec::new(),
+        .map(|&(e, _)| {
+            Shape::new(
+                vec![ShapeAtom {
+                    element: e,
+                    charge: 0,
+                    aromatic: false,
+                    min_ports: 0,
+                    max_ports: match e {
+                        Element::S => 6,
+                        Element::P => 5,
+                        other => other.base_valence(),
+                    },
+                }],
+                Vec::new(),
+            )
         })
         .collect();
     let counts = heavy.iter().map(|&(_, n)| n).collect();
@@ -353,10 +397,7 @@ fn shape_from(smiles: &str, ports: &[(usize, u8, u8)]) -> Shape {
             }
         })
         .collect();
-    Shape {
-        atoms,
-        bonds: m.bonds().collect(),
-    }
+    Shape::new(atoms, m.bonds().collect())
 }
 
 /// Distinct shapes with their counts (fragments of identical text and ports merge).
@@ -599,7 +640,8 @@ impl Problem {
     /// charge and ports).
     fn colour(&self, state: &State, i: usize) -> u32 {
         let (s, r) = state.role[i];
-        (u32::from(s) << 8) | u32::from(r)
+        let class = self.shapes[usize::from(s)].classes[usize::from(r)];
+        (u32::from(s) << 8) | u32::from(class)
     }
 
     fn coloured(&self, state: &State) -> Coloured {
