@@ -6,7 +6,7 @@
 
 use quiddity::chem::Formula;
 use quiddity::structure::{
-    enumerate, for_each_structure, perceive, to_smiles, GroupCounts, GroupId,
+    enumerate, for_each_structure, perceive, to_smiles, Bond, GroupCounts, GroupId, Molecule,
 };
 use std::collections::BTreeMap;
 use std::ops::ControlFlow;
@@ -17,7 +17,8 @@ use std::ops::ControlFlow;
 const FORMULAS: &[&str] = &[
     "C4H8O", "C3H6O2", "C4H6O", "C5H8", "C3H7NO", "C2H6OS", "C3H5Cl", "C2H4O2", "C4H8O2", "C4H9N",
     "C3H3N", "C3H4O2", "C6H6", "C2H3NO", "C2H5NO2", "CH4N2O", "C2H6O2S", "C2H3ClO", "C7H8",
-    "C6H5Cl", "C5H5N", "C3H6S", "C4H6O2", "C3H9O4P",
+    "C6H5Cl", "C5H5N", "C3H6S", "C4H6O2", "C3H9O4P", "C2H2", "CH2O", "CH4O", "CH5N", "CH2O2",
+    "C2H4O", "CH3Cl", "CH3NO", "C2H2O2", "C3H4", "C2H3N", "CH4S",
 ];
 
 #[test]
@@ -63,6 +64,22 @@ fn canonical_augmentation_alone_produces_no_duplicates() {
         assert!(summary.emitted > 0);
         assert_eq!(summary.duplicates_merged, 0, "{f}");
     }
+    // Group mode builds benzene rings as aromatic fragments: no Kekulé pairs either.
+    for (f, g) in [
+        ("C10H12O", "ketone:1,aromatic_ring:1"),
+        ("C9H10O2", "ester:1,aromatic_ring:1"),
+        ("C6H12O6", "aldehyde:1,alcohol:5"),
+        ("C8H14O", "ketone:1,ring:1"),
+    ] {
+        let groups = GroupCounts::parse(g).expect("groups");
+        let summary =
+            for_each_structure(&Formula::parse(f).expect("formula"), Some(&groups), |_| {
+                ControlFlow::Continue(())
+            })
+            .expect("generation");
+        assert!(summary.emitted > 0);
+        assert_eq!(summary.duplicates_merged, 0, "{f} {g}");
+    }
     // Ortho-disubstituted benzene rings (o-xylene) come as two Kekulé forms that are not
     // isomorphic as labelled graphs; they are merged after aromatisation.
     let summary = for_each_structure(&Formula::parse("C8H10").expect("formula"), None, |_| {
@@ -100,4 +117,54 @@ fn dbe_equals_the_dbe_the_groups_account_for() {
         }
     }
     assert!(checked > 500, "only {checked} structures");
+}
+
+/// `m` with its atoms renumbered by `order` (new index k holds old atom order[k]).
+fn renumbered(m: &Molecule, order: &[usize]) -> Molecule {
+    let mut position = vec![0; order.len()];
+    for (new, &old) in order.iter().enumerate() {
+        position[old] = new;
+    }
+    let mut out = Molecule::new();
+    for &old in order {
+        out.add_atom(m.atom(old));
+    }
+    let mut bonds: Vec<(usize, usize, Bond)> = m.bonds().collect();
+    bonds.reverse();
+    for (a, b, bond) in bonds {
+        out.add_bond(position[b], position[a], bond);
+    }
+    out
+}
+
+#[test]
+fn canonical_smiles_do_not_depend_on_atom_order() {
+    // C6H6 holds 217 strained and unusual graphs, a hard case for canonical labelling.
+    let mut seed: u64 = 0x5eed;
+    let mut checked = 0;
+    for (f, groups) in [
+        ("C6H6", None),
+        ("C10H12O", Some("ketone:1,aromatic_ring:1")),
+        ("C4H8O2", None),
+    ] {
+        let g = groups.map(|g| GroupCounts::parse(g).expect("groups"));
+        for s in enumerate(&Formula::parse(f).expect("formula"), g.as_ref(), None)
+            .expect("enumerate")
+            .structures
+        {
+            for _ in 0..3 {
+                let mut order: Vec<usize> = (0..s.molecule.n_atoms()).collect();
+                // Fisher-Yates with a fixed linear congruential generator (reproducible).
+                for i in (1..order.len()).rev() {
+                    seed = seed
+                        .wrapping_mul(6364136223846793005)
+                        .wrapping_add(1442695040888963407);
+                    order.swap(i, (seed >> 33) as usize % (i + 1));
+                }
+                assert_eq!(to_smiles(&renumbered(&s.molecule, &order)), s.smiles, "{f}");
+                checked += 1;
+            }
+        }
+    }
+    assert!(checked > 1000);
 }

@@ -103,3 +103,14 @@ fn formula_and_groups_that_disagree_give_no_structure_and_a_reason() {
     let e = enumerate(&Formula::parse("C4H10O2").unwrap(), Some(&g), None).unwrap();
     assert!(e.no_structure_reason.unwrap().contains("every heteroatom"));
 }
+
+#[test]
+fn formulas_no_molecule_can_have_give_a_reason() {
+    // common practice: DBE must be a whole number >= 0 for a neutral closed-shell molecule.
+    for f in ["C6H13", "C2H8", "CH5"] {
+        let e = enumerate(&Formula::parse(f).expect("formula"), None, None).expect("enumerate");
+        assert!(e.structures.is_empty(), "{f}");
+        let reason = e.no_structure_reason.expect("a reason");
+        assert!(reason.contains("degree of unsaturation"), "{f}: {reason}");
+    }
+}

@@ -20,6 +20,9 @@ regulations and licensed practice.";
 
 /// Arguments of `quiddity isomers`.
 #[derive(Debug, Args)]
+#[command(after_help = "\
+Exit status: 0 at least one structure; 1 no structure (the reason is shown); 2 bad input.
+Constitutional isomers only: cis/trans and optical isomers are not told apart.")]
 pub struct IsomersArgs {
     /// Neutral molecular formula of C, H, N, O, S, P, F, Cl, Br, I, e.g. C6H14 or C10H12O.
     formula: String,
@@ -29,7 +32,7 @@ pub struct IsomersArgs {
     #[arg(long, value_name = "ID:N,...")]
     groups: Option<String>,
 
-    /// Print only how many structures there are.
+    /// Print only how many structures there are (with --json, `structures` is empty).
     #[arg(long)]
     count: bool,
 

@@ -28,9 +28,7 @@ use super::molecule::{Atom, Bond, Element, Molecule};
 use super::perceive::perceive;
 use super::smiles::parse_smiles;
 use crate::chem::Formula;
-use std::collections::hash_map::DefaultHasher;
 use std::collections::HashSet;
-use std::hash::{Hash, Hasher};
 use std::ops::ControlFlow;
 
 /// Largest number of heavy atoms accepted (the enumeration grows exponentially).
@@ -88,6 +86,48 @@ struct ShapeAtom {
 struct Shape {
     atoms: Vec<ShapeAtom>,
     bonds: Vec<(usize, usize, Bond)>,
+    /// Per atom, its symmetry class within the shape (atoms an automorphism of the
+    /// fragment, ports included, exchanges share a class). Canonical colours use the
+    /// class, not the atom's position, so that the six carbons of a benzene fragment are
+    /// interchangeable and a monosubstituted ring is one labelled graph, not six.
+    classes: Vec<u8>,
+}
+
+impl Shape {
+    fn new(atoms: Vec<ShapeAtom>, bonds: Vec<(usize, usize, Bond)>) -> Shape {
+        let colours: Vec<u32> = atoms
+            .iter()
+            .map(|a| {
+                (a.element.code() << 20)
+                    | (((i32::from(a.charge) + 8) as u32 & 0xf) << 16)
+                    | (u32::from(a.aromatic) << 15)
+                    | (u32::from(a.min_ports) << 8)
+                    | u32::from(a.max_ports)
+            })
+            .collect();
+        let edges: Vec<(usize, usize, u8)> = bonds
+            .iter()
+            .map(|&(a, b, bond)| (a, b, bond.code()))
+            .collect();
+        let graph = Coloured::new(colours, &edges);
+        // Two atoms are in one orbit exactly when marking either gives the same
+        // canonical form.
+        let marked: Vec<Coloured> = (0..atoms.len())
+            .map(|i| {
+                let mut g = graph.clone();
+                g.set_colour(i, g.colour(i) | MARK);
+                g.canonical_form()
+            })
+            .collect();
+        let classes = (0..atoms.len())
+            .map(|i| (0..=i).find(|&j| marked[j] == marked[i]).unwrap_or(i) as u8)
+            .collect();
+        Shape {
+            atoms,
+            bonds,
+            classes,
+        }
+    }
 }
 
 /// The search problem: shapes, how many of each, the budget and the target H count.
@@ -101,6 +141,8 @@ struct Problem {
     hydrogens: u32,
     /// Group mode: the multiset every structure must show.
     target: Option<GroupCounts>,
+    /// Group mode: the shape of free sp3 carbons, removed first on canonical paths.
+    free_carbon_shape: Option<usize>,
 }
 
 /// The structure being built.
@@ -133,7 +175,17 @@ pub fn for_each_structure(
     mut visit: impl FnMut(Molecule) -> ControlFlow<()>,
 ) -> Result<Summary, StructureError> {
     let problems = match groups {
-        None => vec![plain_problem(formula)?],
+        None => match plain_problem(formula)? {
+            Ok(p) => vec![p],
+            Err(reason) => {
+                return Ok(Summary {
+                    emitted: 0,
+                    stopped: false,
+                    no_structure_reason: Some(reason),
+                    duplicates_merged: 0,
+                })
+            }
+        },
         Some(g) => match group_problem(formula, g)? {
             Ok(p) => vec![p],
             Err(reason) => {
@@ -226,40 +278,45 @@ fn twice_dbe(heavy: &[(Element, u32)], hydrogens: u32) -> i64 {
     t
 }
 
-fn plain_problem(formula: &Formula) -> Result<Problem, StructureError> {
+/// Builds the plain-mode problem, or the reason no structure can exist.
+fn plain_problem(formula: &Formula) -> Result<Result<Problem, String>, StructureError> {
     let (heavy, hydrogens) = heavy_atoms(formula)?;
     let t = twice_dbe(&heavy, hydrogens);
+    if t < 0 || t % 2 != 0 {
+        return Ok(Err(format!(
+            "the formula's degree of unsaturation is {}; a neutral closed-shell molecule needs a whole number of at least 0",
+            t as f64 / 2.0
+        )));
+    }
     let shapes = heavy
         .iter()
-        .map(|&(e, _)| Shape {
-            atoms: vec![ShapeAtom {
-                element: e,
-                charge: 0,
-                aromatic: false,
-                min_ports: 0,
-                max_ports: match e {
-                    Element::S => 6,
-                    Element::P => 5,
-                    other => other.base_valence(),
-                },
-            }],
-            bonds: Vec::new(),
+        .map(|&(e, _)| {
+            Shape::new(
+                vec![ShapeAtom {
+                    element: e,
+                    charge: 0,
+                    aromatic: false,
+                    min_ports: 0,
+                    max_ports: match e {
+                        Element::S => 6,
+                        Element::P => 5,
+                        other => other.base_valence(),
+                    },
+                }],
+                Vec::new(),
+            )
         })
         .collect();
     let counts = heavy.iter().map(|&(_, n)| n).collect();
-    let budget = if t < 0 || t % 2 != 0 {
-        u32::MAX
-    } else {
-        (t / 2) as u32
-    };
-    Ok(Problem {
+    Ok(Ok(Problem {
         shapes,
         counts,
         plain: true,
-        budget,
+        budget: (t / 2) as u32,
         hydrogens,
         target: None,
-    })
+        free_carbon_shape: None,
+    }))
 }
 
 /// The fragment of one group: SMILES of its heavy atoms and `(atom, min, max)` bonds to
@@ -268,7 +325,7 @@ fn fragment(group: GroupId) -> (&'static str, &'static [(usize, u8, u8)]) {
     use GroupId as G;
     match group {
         G::Alkene => ("C=C", &[(0, 0, 2), (1, 0, 2)]),
-        G::AlkyneTerminal => ("C#C", &[(0, 1, 1)]),
+        G::AlkyneTerminal => ("C#C", &[(0, 0, 1)]), // min 0: acetylene
         G::AlkyneInternal => ("C#C", &[(0, 1, 1), (1, 1, 1)]),
         G::AromaticRing => (
             "c1ccccc1",
@@ -340,10 +397,7 @@ fn shape_from(smiles: &str, ports: &[(usize, u8, u8)]) -> Shape {
             }
         })
         .collect();
-    Shape {
-        atoms,
-        bonds: m.bonds().collect(),
-    }
+    Shape::new(atoms, m.bonds().collect())
 }
 
 /// Distinct shapes with their counts (fragments of identical text and ports merge).
@@ -429,8 +483,10 @@ fn group_problem(
             )));
         }
     }
+    let mut free_carbon_shape = None;
     if free_carbons > 0 {
         set.add("C", &[(0, 0, 4)], free_carbons);
+        free_carbon_shape = Some(set.shapes.len() - 1);
     }
     let ShapeSet { shapes, counts, .. } = set;
     // Hydrogen bookkeeping: H capacity of all atoms minus two per bond between units.
@@ -473,6 +529,7 @@ fn group_problem(
         budget: rings,
         hydrogens,
         target: Some(groups.clone()),
+        free_carbon_shape,
     }))
 }
 
@@ -583,7 +640,8 @@ impl Problem {
     /// charge and ports).
     fn colour(&self, state: &State, i: usize) -> u32 {
         let (s, r) = state.role[i];
-        (u32::from(s) << 8) | u32::from(r)
+        let class = self.shapes[usize::from(s)].classes[usize::from(r)];
+        (u32::from(s) << 8) | u32::from(class)
     }
 
     fn coloured(&self, state: &State) -> Coloured {
@@ -768,7 +826,7 @@ impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
             return Some(g.canonical_form());
         }
         let removable = removable_units(child);
-        let invariant = unit_invariants(&g, child);
+        let invariant = unit_invariants(&g, child, p.free_carbon_shape);
         let best = removable.iter().map(|&u| invariant[u]).max()?;
         if invariant[new_unit] != best {
             return None;
@@ -901,22 +959,21 @@ fn removable_units(state: &State) -> Vec<usize> {
 
 /// An isomorphism-invariant number per unit: the multiset of its atoms' colours after
 /// three rounds of colour refinement.
-fn unit_invariants(g: &Coloured, state: &State) -> Vec<u64> {
+fn unit_invariants(g: &Coloured, state: &State, preferred_shape: Option<usize>) -> Vec<u64> {
     let n = g.len();
-    let mut colour: Vec<u64> = (0..n).map(|i| u64::from(g.colour(i))).collect();
+    let mut colour: Vec<u64> = (0..n).map(|i| mix(0, u64::from(g.colour(i)))).collect();
+    let mut around: Vec<u64> = Vec::new();
     for _ in 0..3 {
         let next: Vec<u64> = (0..n)
             .map(|i| {
-                let mut around: Vec<(u8, u64)> = g
-                    .neighbours(i)
-                    .iter()
-                    .map(|&(j, l)| (l, colour[j as usize]))
-                    .collect();
+                around.clear();
+                around.extend(
+                    g.neighbours(i)
+                        .iter()
+                        .map(|&(j, l)| mix(u64::from(l), colour[j as usize])),
+                );
                 around.sort_unstable();
-                let mut h = DefaultHasher::new();
-                colour[i].hash(&mut h);
-                around.hash(&mut h);
-                h.finish()
+                around.iter().fold(mix(1, colour[i]), |h, &x| mix(h, x))
             })
             .collect();
         colour = next;
@@ -927,13 +984,25 @@ fn unit_invariants(g: &Coloured, state: &State) -> Vec<u64> {
     }
     per_unit
         .into_iter()
-        .map(|mut v| {
+        .enumerate()
+        .map(|(u, mut v)| {
             v.sort_unstable();
-            let mut h = DefaultHasher::new();
-            v.hash(&mut h);
-            h.finish()
+            let h = v.iter().fold(2, |h, &x| mix(h, x)) >> 1;
+            // Units of the preferred shape (free carbons) are removed first, so that
+            // construction paths place the group fragments before the plain carbons.
+            let preferred = preferred_shape == Some(usize::from(state.units[u].0));
+            h | (u64::from(preferred) << 63)
         })
         .collect()
+}
+
+/// A fast 64-bit mixing step (splitmix64 finaliser); invariants only need to be equal
+/// for equal inputs, and rarely equal otherwise.
+fn mix(h: u64, x: u64) -> u64 {
+    let mut z = h.rotate_left(5) ^ x.wrapping_add(0x9e37_79b9_7f4a_7c15);
+    z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
+    z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
+    z ^ (z >> 31)
 }
 
 #[cfg(test)]
@@ -956,7 +1025,9 @@ mod tests {
 
     #[test]
     fn removable_units_of_a_chain_are_its_ends() {
-        let p = plain_problem(&Formula::parse("C3H8").unwrap()).unwrap();
+        let p = plain_problem(&Formula::parse("C3H8").unwrap())
+            .unwrap()
+            .unwrap();
         let mut s = p.start_states().remove(0);
         s = p.with_unit(&s, 0);
         s.edges.push((0, 1, Bond::Single, true));

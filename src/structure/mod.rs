@@ -107,3 +107,77 @@ pub fn enumerate_with_progress(
         no_structure_reason: summary.no_structure_reason,
     })
 }
+
+/// Structures ranked best first by the score of their features against `bands`
+/// (tolerance in cm⁻¹); equal scores keep their order (SMILES order from [`enumerate`]).
+pub fn rank_by_bands(
+    structures: Vec<Structure>,
+    bands: &[Band],
+    tolerance: f64,
+) -> Vec<(Structure, FeatureScore)> {
+    let mut ranked: Vec<(Structure, FeatureScore)> = structures
+        .into_iter()
+        .map(|s| {
+            let score = s.score(bands, tolerance);
+            (s, score)
+        })
+        .collect();
+    ranked.sort_by(|a, b| b.1.score.total_cmp(&a.1.score));
+    ranked
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::ir::Strength;
+    use features::RingPattern;
+
+    #[test]
+    fn bands_rank_the_para_conjugated_ketones_first() {
+        // invented band list of an unknown C10H12O: conjugated C=O near 1685 and a strong
+        // band near 820 (para-disubstituted ring).
+        let bands = [
+            Band {
+                at: 1685.0,
+                strength: Strength::Strong,
+                shape: None,
+            },
+            Band {
+                at: 820.0,
+                strength: Strength::Strong,
+                shape: None,
+            },
+        ];
+        let formula = Formula::parse("C10H12O").expect("formula");
+        let groups = GroupCounts::parse("ketone:1,aromatic_ring:1").expect("groups");
+        let e = enumerate(&formula, Some(&groups), None).expect("enumerate");
+        let ranked = rank_by_bands(e.structures, &bands, 10.0);
+        let best: Vec<&str> = ranked
+            .iter()
+            .filter(|(_, score)| score.score == 2.0)
+            .map(|(s, _)| s.smiles.as_str())
+            .collect();
+        // Both para aryl ketones fit both bands; so do rings whose pattern also bends
+        // near 820 (1,2,4- and 1,3,5-trisubstituted); ortho, meta and mono rings do not.
+        assert!(best.contains(&"CCC(=O)c1ccc(C)cc1") && best.contains(&"CCc1ccc(cc1)C(C)=O"));
+        for (s, score) in &ranked {
+            let ring = s.features.rings[0];
+            if score.score == 2.0 {
+                assert!(
+                    matches!(
+                        ring,
+                        RingPattern::Para | RingPattern::Tri124 | RingPattern::Tri135
+                    ),
+                    "{}",
+                    s.smiles
+                );
+            }
+            if matches!(
+                ring,
+                RingPattern::Ortho | RingPattern::Meta | RingPattern::Mono
+            ) {
+                assert!(score.score < 2.0, "{}", s.smiles);
+            }
+        }
+    }
+}
