@@ -175,3 +175,72 @@ pub fn check(
     }
     Ok(())
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::parse;
+    use crate::engine::model::Problem;
+    use crate::engine::testkit::small_catalogue;
+    use crate::engine::SolveOptions;
+    use std::collections::BTreeSet;
+
+    /// Checks one combination (group ids with counts) against `formula`.
+    fn verdict(formula: &str, groups: &[(&str, u32)]) -> Result<(), String> {
+        let (case, d) = parse(&format!("formula: {formula}\n"), "t.yaml");
+        let case = case.unwrap_or_else(|| panic!("{d:?}"));
+        let cat = small_catalogue();
+        let problem = Problem::new(&case, &cat, &SolveOptions::default(), &BTreeSet::new());
+        let mut counts = vec![0u32; problem.groups.len()];
+        let mut c_used = 0;
+        for (id, n) in groups {
+            let i = problem
+                .groups
+                .iter()
+                .position(|g| g.group.id == *id)
+                .unwrap_or_else(|| panic!("{id}"));
+            counts[i] = *n;
+            c_used += problem.groups[i].c * n;
+        }
+        let present: Vec<usize> = (0..counts.len()).filter(|&i| counts[i] > 0).collect();
+        check(
+            &problem,
+            &counts,
+            &present,
+            problem.formula_c - c_used,
+            &HydrogenNeeds::default(),
+        )
+    }
+
+    #[test]
+    fn one_carbon_cannot_take_both_ether_bonds() {
+        // common practice: CH4O is methanol; dimethyl ether needs C2H6O.
+        assert!(verdict("CH4O", &[("ether", 1)]).is_err());
+        assert!(verdict("C2H6O", &[("ether", 1)]).is_ok());
+        assert!(verdict("CH4O", &[("alcohol_primary", 1)]).is_ok());
+    }
+
+    #[test]
+    fn a_ketone_needs_two_carbons_besides_its_own() {
+        // common practice: the smallest ketone is acetone, C3H6O; C2H4O is acetaldehyde.
+        assert!(verdict("C2H4O", &[("ketone", 1)]).is_err());
+        assert!(verdict("C3H6O", &[("ketone", 1)]).is_ok());
+        assert!(verdict("C2H4O", &[("aldehyde", 1)]).is_ok());
+    }
+
+    #[test]
+    fn heteroatoms_bond_only_to_carbon_between_groups() {
+        // CH4O2 with an ether and an alcohol would need an O–O bond (a peroxide): one
+        // carbon cannot carry three oxygen bonds' worth of partners here.
+        assert!(verdict("CH4O2", &[("ether", 1), ("alcohol_primary", 1)]).is_err());
+        // methoxymethanol CH3–O–CH2–OH (common practice): both oxygens on carbons, fine.
+        assert!(verdict("C2H6O2", &[("ether", 1), ("alcohol_primary", 1)]).is_ok());
+    }
+
+    #[test]
+    fn a_ring_of_two_groups_is_allowed_through_different_atoms() {
+        // benzocyclobutene-like fusions aside, two multi-atom groups may be joined twice:
+        // an alkene fused to an aromatic ring (C8H6, DBE 6, with `ring`).
+        assert!(verdict("C8H6", &[("aromatic_ring", 1), ("alkene", 1), ("ring", 1)]).is_ok());
+    }
+}
