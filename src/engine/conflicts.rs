@@ -53,7 +53,15 @@ pub fn consistent(
     }
     let allowed = problem.allowed_groups();
     let mut found = false;
+    let mut leaves = 0u64;
     super::enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
+        leaves += 1;
+        // Out of budget: not proven inconsistent, so count it as consistent (the filter
+        // then keeps the item: the conflict stays true, if perhaps not minimal).
+        if leaves > CONSISTENCY_BUDGET {
+            found = true;
+            return super::enumerate::Flow::Stop;
+        }
         if super::evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
             found = true;
             super::enumerate::Flow::Stop
@@ -63,6 +71,10 @@ pub fn consistent(
     });
     found
 }
+
+/// Compositions one consistency test may examine before it gives up (and answers
+/// "consistent", which can only make a conflict larger, never wrong).
+pub const CONSISTENCY_BUDGET: u64 = 200_000;
 
 /// Without a formula: can some set of allowed groups explain every demanded band while
 /// respecting the relations? (Skeleton carbons can always be added, so `sp3_carbon`

@@ -166,7 +166,7 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
         .take(options.max_candidates)
         .enumerate()
         .map(|(i, (s, counts, sk))| {
-            let terms = score::terms(&problem, &counts, sk, ms_e, molecular_nominal);
+            let terms = score::terms(&problem, &counts, sk, ms_e, molecular_nominal, &parts);
             explain::candidate(
                 &problem,
                 &counts,

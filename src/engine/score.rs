@@ -2,9 +2,10 @@
 //! candidate so a reader can recompute it by hand.
 //!
 //! ```text
-//! score = Σ_groups present (once per distinct group):
-//!           + 1.0 × q   per diagnostic band rule satisfied (q = match quality in [0, 1])
-//!           + 0.5 × q   per supporting band rule satisfied
+//! score = Σ_observed bands: the best credit any group of the candidate earns on it,
+//!           1.0 × q for a diagnostic rule, 0.5 × q for a supporting rule
+//!           (q = match quality in [0, 1]; a band counts once however many groups match)
+//!       + Σ_groups present (once per distinct group):
 //!           − 1.0       per demanded band allowed absent (symmetry) and not seen
 //!           − 0.3       per supporting band expected strong, inside the window, not seen
 //!           + 0.5       per MS clue (ion or loss) matched by a stated fragment
@@ -81,8 +82,9 @@ pub fn best_explanation(
     best
 }
 
-/// The score terms a group contributes whatever else the candidate holds (bands seen,
-/// absences, MS clues), each rounded to 3 decimals.
+/// The score terms a group contributes whatever else the candidate holds (absences,
+/// MS clues), each rounded to 3 decimals. Bands seen are credited per observed band in
+/// [`candidate_terms`], so that two groups matching the same band earn it once.
 pub fn group_terms(
     problem: &Problem<'_>,
     gi: usize,
@@ -91,21 +93,6 @@ pub fn group_terms(
 ) -> Vec<ScoreTerm> {
     let mut terms = Vec::new();
     let g = &problem.groups[gi];
-    let mut bands = 0.0;
-    for m in &g.presence.matched {
-        let rule = &g.group.bands[m.rule_idx];
-        let w = match rule.role {
-            crate::rules::BandRole::Diagnostic => W_DIAGNOSTIC,
-            crate::rules::BandRole::Supporting => W_SUPPORTING,
-        };
-        bands += w * m.quality;
-    }
-    if bands != 0.0 {
-        terms.push(ScoreTerm {
-            what: format!("{}: bands seen", g.group.id),
-            value: bands,
-        });
-    }
     let absent = g.presence.absent_exceptions.len() as f64;
     if absent > 0.0 {
         terms.push(ScoreTerm {
@@ -144,22 +131,72 @@ pub fn group_parts(
     problem: &Problem<'_>,
     ms: Option<&MsEvidence>,
     molecular_nominal: Option<f64>,
-) -> Vec<f64> {
-    (0..problem.groups.len())
+) -> Parts {
+    let group = (0..problem.groups.len())
         .map(|g| {
             group_terms(problem, g, ms, molecular_nominal)
                 .iter()
                 .map(|t| t.value)
                 .sum()
         })
-        .collect()
+        .collect();
+    let credits = problem
+        .groups
+        .iter()
+        .map(|g| {
+            let mut by_band: Vec<(usize, f64)> = Vec::new();
+            for m in &g.presence.matched {
+                let w = match g.group.bands[m.rule_idx].role {
+                    crate::rules::BandRole::Diagnostic => W_DIAGNOSTIC,
+                    crate::rules::BandRole::Supporting => W_SUPPORTING,
+                };
+                let credit = w * m.quality;
+                match by_band.iter_mut().find(|(b, _)| *b == m.band_idx) {
+                    Some(entry) => entry.1 = entry.1.max(credit),
+                    None => by_band.push((m.band_idx, credit)),
+                }
+            }
+            by_band
+        })
+        .collect();
+    Parts { group, credits }
+}
+
+/// Score parts computed once per solve.
+#[derive(Clone, Debug, Default)]
+pub struct Parts {
+    /// Per group: the sum of [`group_terms`].
+    pub group: Vec<f64>,
+    /// Per group: (active band index, credit w·q) for each band one of its rules is
+    /// satisfied by (best rule per band).
+    pub credits: Vec<Vec<(usize, f64)>>,
 }
 
 /// The terms that depend on the whole candidate: bands explained, bands unexplained,
 /// parsimony (each rounded to 3 decimals).
-pub fn candidate_terms(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Vec<ScoreTerm> {
+pub fn candidate_terms(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    parts: &Parts,
+) -> Vec<ScoreTerm> {
     let sp3_group = has_sp3_group(problem, counts);
     let mut terms = Vec::new();
+    let mut best = vec![0.0f64; problem.bands.len()];
+    for (g, n) in counts.iter().enumerate() {
+        if *n > 0 {
+            for &(b, c) in &parts.credits[g] {
+                best[b] = best[b].max(c);
+            }
+        }
+    }
+    let seen: f64 = best.iter().sum();
+    if seen != 0.0 {
+        terms.push(ScoreTerm {
+            what: "bands seen by the groups' rules (each band once)".into(),
+            value: round3(seen),
+        });
+    }
     let mut explained = 0.0;
     let mut unexplained = 0.0;
     for (bi, (_, b)) in problem.bands.iter().enumerate() {
@@ -192,14 +229,14 @@ pub fn candidate_terms(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -
 
 /// The score of a consistent candidate: Σ group parts of its groups + its candidate
 /// terms, rounded to 2 decimals. `parts` comes from [`group_parts`].
-pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, parts: &[f64]) -> f64 {
+pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, parts: &Parts) -> f64 {
     let groups: f64 = counts
         .iter()
-        .zip(parts)
+        .zip(&parts.group)
         .filter(|(n, _)| **n > 0)
         .map(|(_, p)| *p)
         .sum();
-    let rest: f64 = candidate_terms(problem, counts, skeleton_c)
+    let rest: f64 = candidate_terms(problem, counts, skeleton_c, parts)
         .iter()
         .map(|t| t.value)
         .sum();
@@ -213,6 +250,7 @@ pub fn terms(
     skeleton_c: u32,
     ms: Option<&MsEvidence>,
     molecular_nominal: Option<f64>,
+    parts: &Parts,
 ) -> Vec<ScoreTerm> {
     let mut out: Vec<ScoreTerm> = counts
         .iter()
@@ -220,6 +258,6 @@ pub fn terms(
         .filter(|(_, n)| **n > 0)
         .flat_map(|(g, _)| group_terms(problem, g, ms, molecular_nominal))
         .collect();
-    out.extend(candidate_terms(problem, counts, skeleton_c));
+    out.extend(candidate_terms(problem, counts, skeleton_c, parts));
     out
 }
