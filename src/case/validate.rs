@@ -90,18 +90,17 @@ pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Di
     });
     let ms = raw.ms.as_ref().map(|m| validate_ms(&mut ctx, m));
     let ir = raw.ir.as_ref().map(|i| validate_ir(&mut ctx, i));
-    if formula.is_none() && raw.formula.is_none() {
-        let has_ion = ms.as_ref().is_some_and(|m| m.molecular_ion.is_some());
-        let message = if has_ion {
-            "no formula: deriving the formula from the molecular ion is not available in this build; state the formula".to_owned()
-        } else {
-            "no formula: the case needs a molecular formula".to_owned()
-        };
+    // Without a formula the engine derives candidate formulas from the molecular ion.
+    let has_ion = ms.as_ref().is_some_and(|m| m.molecular_ion.is_some());
+    if formula.is_none() && raw.formula.is_none() && !has_ion {
         ctx.diagnostics.push(
-            Diagnostic::error(origin, message)
-                .at_position(Position { line: 0, column: 0 })
-                .with_key_path("formula")
-                .with_help("add a line such as `formula: C8H8O`".to_owned()),
+            Diagnostic::error(
+                origin,
+                "no formula: the case needs a molecular formula or an ms.molecular_ion",
+            )
+            .at_position(Position { line: 0, column: 0 })
+            .with_key_path("formula")
+            .with_help("add a line such as `formula: C8H8O`".to_owned()),
         );
     }
     let has_errors = ctx.diagnostics.iter().any(Diagnostic::is_error);

@@ -143,12 +143,3 @@ pub(crate) fn io_failure(e: std::io::Error) -> Failure {
     }
     Diagnostic::error("<stdout>", format!("cannot write output: {e}")).into()
 }
-
-/// Placeholder result for subcommands whose library part is not built yet.
-pub(crate) fn not_built(what: &str) -> CommandResult {
-    Err(Diagnostic::error(
-        "<command>",
-        format!("{what} is not available in this build"),
-    )
-    .into())
-}

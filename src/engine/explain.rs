@@ -167,6 +167,7 @@ pub fn candidate(
     }
     Candidate {
         rank,
+        formula: None,
         groups: group_map(problem, counts),
         families: family_map(problem, counts),
         score,

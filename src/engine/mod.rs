@@ -13,6 +13,7 @@ pub mod discriminate;
 pub mod enumerate;
 pub mod evaluate;
 pub mod explain;
+pub mod from_ms;
 pub mod lp;
 pub mod model;
 pub mod outcome;
@@ -110,8 +111,19 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
     out
 }
 
-/// Solves a validated case against a catalogue.
+/// Solves a validated case against a catalogue. A case that states no formula but gives a
+/// molecular ion is solved over the formulas the ion allows (see [`from_ms`]).
 pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    if case.formula.is_none() {
+        if let Some(query) = from_ms::mass_query(case) {
+            return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
+        }
+    }
+    solve_stated(case, catalogue, options)
+}
+
+/// Solves a case as stated (its formula, if any, taken as given).
+fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
     let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
     let evidence_checks = formula_checks(case, &BTreeSet::new());
     let formula_ok = problem.formula_dbe.is_some() && evidence_checks.iter().all(|c| c.agrees);
@@ -239,6 +251,7 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
         evidence_checks,
         cautions: CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
         rules_digest: catalogue.digest.clone(),
+        formula_leads: Vec::new(),
     }
 }
 

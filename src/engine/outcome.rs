@@ -39,6 +39,27 @@ pub struct Outcome {
     pub cautions: Vec<String>,
     /// Digest of the rules catalogue used.
     pub rules_digest: String,
+    /// When the case states no formula: the formulas proposed from the molecular ion and
+    /// solved in turn, best MS score first (empty otherwise).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub formula_leads: Vec<FormulaLead>,
+}
+
+/// One formula proposed from the molecular ion, and what solving it gave.
+#[derive(Clone, Debug, Serialize)]
+pub struct FormulaLead {
+    /// 1-based rank among the formula candidates of the MS search.
+    pub rank: usize,
+    /// Hill formula of the neutral molecule.
+    pub formula: String,
+    /// Its degree of unsaturation.
+    pub dbe: f64,
+    /// Mass error of the ion, ppm (accurate m/z only).
+    pub error_ppm: Option<f64>,
+    /// The MS search's score (0 is perfect; see `ms::rank`).
+    pub ms_score: f64,
+    /// Consistent group combinations found for this formula.
+    pub n_consistent: usize,
 }
 
 /// One consistent combination.
@@ -46,6 +67,10 @@ pub struct Outcome {
 pub struct Candidate {
     /// 1-based rank.
     pub rank: usize,
+    /// The formula this candidate belongs to, when the case stated none and the formula
+    /// came from the molecular ion.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub formula: Option<String>,
     /// Concrete group counts.
     pub groups: BTreeMap<String, u32>,
     /// Counts rolled up to every ancestor family (required ids included).

@@ -1,0 +1,260 @@
+//! Cases that state no formula: the molecular ion (with M+1 / M+2 when given) proposes
+//! formulas through `ms`, the engine solves the best few in turn, and the candidates of
+//! all of them are pooled into one ranked list, each candidate naming its formula.
+//!
+//! Why pool rather than pick one formula: at nominal mass several formulas are equally
+//! plausible from the MS alone (C8H8O and C7H4O2 both at m/z 120), and it is the IR
+//! evidence that tells them apart; an analyst wants to see that competition, not have it
+//! settled silently by the mass search.
+
+use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
+use crate::case::{Case, IonType as CaseIonType, StatedFormula};
+use crate::chem::Formula;
+use crate::ms::{self, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance};
+use crate::rules::Catalogue;
+
+/// Formulas from the molecular ion that are always solved (when that many exist).
+pub const DEFAULT_FORMULA_LEADS: usize = 5;
+/// Formulas solved at most: beyond the first [`DEFAULT_FORMULA_LEADS`], every formula
+/// whose MS score is within [`LEAD_SCORE_WINDOW`] of the best is solved too, because at
+/// nominal mass many formulas tie on the MS evidence and only the IR can part them.
+pub const MAX_FORMULA_LEADS: usize = 40;
+/// MS score distance from the best formula within which a formula is still solved.
+pub const LEAD_SCORE_WINDOW: f64 = 1.0;
+
+/// The mass query a case's MS evidence asks, or `None` when it has no molecular ion.
+/// An m/z written as a whole number is taken as nominal (low-resolution GC-MS); any other
+/// value as accurate, with the case's ppm tolerance.
+pub fn mass_query(case: &Case) -> Option<MassQuery> {
+    let ms_e = case.ms.as_ref()?;
+    let (mz, _) = ms_e.molecular_ion.as_ref()?;
+    let measured = if mz.fract() == 0.0 && *mz >= 1.0 && *mz <= f64::from(u32::MAX) {
+        MeasuredMz::Nominal(*mz as u32)
+    } else {
+        MeasuredMz::Accurate(*mz)
+    };
+    let mut query = MassQuery::new(measured, ion_type(ms_e.ion));
+    query.tolerance = Tolerance::Ppm(ms_e.ppm);
+    if ms_e.m_plus_1.is_some() || ms_e.m_plus_2.is_some() {
+        query.isotopes = Some(MeasuredIsotopes {
+            m1: ms_e.m_plus_1.as_ref().map(|(v, _)| *v),
+            m2: ms_e.m_plus_2.as_ref().map(|(v, _)| *v),
+            error: None,
+        });
+    }
+    Some(query)
+}
+
+/// The `ms` ion type that a case's ion type names.
+fn ion_type(ion: CaseIonType) -> ms::IonType {
+    match ion {
+        CaseIonType::RadicalCation => ms::IonType::RadicalCation,
+        CaseIonType::Protonated => ms::IonType::Protonated,
+        CaseIonType::SodiumAdduct => ms::IonType::Sodiated,
+        CaseIonType::PotassiumAdduct => ms::IonType::Potassiated,
+        CaseIonType::AmmoniumAdduct => ms::IonType::Ammoniated,
+        CaseIonType::Deprotonated => ms::IonType::Deprotonated,
+    }
+}
+
+/// Solves `case` (which states no formula) over the formulas that `query` allows (the
+/// best [`DEFAULT_FORMULA_LEADS`], and up to [`MAX_FORMULA_LEADS`] near the best score), and pools the candidates: best score first, ties broken
+/// by the formula's MS rank. Ruled-out groups, near misses, conflicts and discriminating
+/// checks are those of the best-placed formula lead, since they are per formula.
+pub fn solve_over_formula_leads(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    query: &MassQuery,
+) -> Outcome {
+    let found = match ms::candidate_formulas(query) {
+        Ok(found) => found,
+        Err(e) => return without_formula(case, catalogue, options, e.to_string()),
+    };
+    let Some(place) = case
+        .ms
+        .as_ref()
+        .and_then(|m| m.molecular_ion.as_ref())
+        .map(|(_, place)| place.clone())
+    else {
+        return solve_stated(case, catalogue, options);
+    };
+    let mut leads = Vec::new();
+    let mut solved: Vec<(usize, Outcome)> = Vec::new();
+    let best_ms_score = found.first().map_or(0.0, |c| c.score.total);
+    let chosen = found.iter().enumerate().take_while(|(i, c)| {
+        *i < DEFAULT_FORMULA_LEADS
+            || (*i < MAX_FORMULA_LEADS && c.score.total >= best_ms_score - LEAD_SCORE_WINDOW)
+    });
+    for (_, candidate) in chosen {
+        let Some(formula) = Formula::from_composition(&candidate.composition) else {
+            continue;
+        };
+        let mut with_formula = case.clone();
+        with_formula.formula = Some(StatedFormula {
+            text: candidate.formula.clone(),
+            formula,
+            composition: candidate.composition.clone(),
+            place: place.clone(),
+        });
+        let outcome = solve_stated(&with_formula, catalogue, options);
+        leads.push(FormulaLead {
+            rank: candidate.rank,
+            formula: candidate.formula.clone(),
+            dbe: candidate.dbe,
+            error_ppm: candidate.error_ppm,
+            ms_score: candidate.score.total,
+            n_consistent: outcome.n_consistent,
+        });
+        solved.push((candidate.rank, outcome));
+    }
+    if solved.is_empty() {
+        let mz = query.mz.value();
+        let detail = format!(
+            "no formula within the element ranges fits m/z {mz} as {}",
+            query.ion.canonical()
+        );
+        return without_formula(case, catalogue, options, detail);
+    }
+    pool(solved, leads, options)
+}
+
+/// Pools per-formula outcomes into one.
+fn pool(
+    mut solved: Vec<(usize, Outcome)>,
+    leads: Vec<FormulaLead>,
+    options: &SolveOptions,
+) -> Outcome {
+    let mut candidates = Vec::new();
+    let mut n_consistent = 0;
+    let mut enumeration_truncated = false;
+    for (lead_rank, outcome) in &solved {
+        n_consistent += outcome.n_consistent;
+        enumeration_truncated |= outcome.enumeration_truncated;
+        for c in &outcome.candidates {
+            let mut c = c.clone();
+            c.formula = outcome.formula.clone();
+            candidates.push((*lead_rank, c));
+        }
+    }
+    candidates.sort_by(|(ra, a), (rb, b)| b.score.total_cmp(&a.score).then(ra.cmp(rb)));
+    let candidates: Vec<_> = candidates
+        .into_iter()
+        .take(options.max_candidates)
+        .enumerate()
+        .map(|(i, (_, mut c))| {
+            c.rank = i + 1;
+            c
+        })
+        .collect();
+    // The per-formula detail comes from the formula of the best candidate, or from the
+    // best MS lead when no formula gave a candidate.
+    let best_formula = candidates.first().and_then(|c| c.formula.clone());
+    let best_index = solved
+        .iter()
+        .position(|(_, o)| o.formula == best_formula)
+        .unwrap_or(0);
+    let mut outcome = solved.swap_remove(best_index).1;
+    outcome.formula = None;
+    outcome.dbe = None;
+    outcome.list_truncated = n_consistent > candidates.len();
+    outcome.n_consistent = n_consistent;
+    outcome.enumeration_truncated = enumeration_truncated;
+    outcome.candidates = candidates;
+    outcome.formula_leads = leads;
+    outcome
+}
+
+/// The outcome when the MS search gave no formula: nothing can be enumerated; the
+/// molecular-ion check says why.
+fn without_formula(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    detail: String,
+) -> Outcome {
+    let mut outcome = solve_stated(case, catalogue, options);
+    outcome.evidence_checks.push(super::EvidenceCheck {
+        item: "molecular_ion".into(),
+        agrees: false,
+        detail,
+    });
+    outcome
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::rules::embedded_catalogue;
+
+    fn solve_text(src: &str) -> Outcome {
+        let (case, diagnostics) = crate::case::parse(src, "test.yaml");
+        let case = case.unwrap_or_else(|| panic!("case did not load: {diagnostics:?}"));
+        let catalogue = embedded_catalogue().expect("shipped catalogue loads");
+        super::super::solve(&case, &catalogue, &SolveOptions::default())
+    }
+
+    /// Acetophenone, C8H8O, monoisotopic mass 120.0575 (common practice; [M+H]+ 121.0648
+    /// with the proton mass, from memory), strong conjugated C=O near 1685 and a
+    /// monosubstituted benzene ring (Silverstein, Webster & Kiemle, from memory).
+    const ACCURATE_MASS_ONLY: &str = "
+case: T-MS-1
+ms:
+  molecular_ion: 121.0648
+  ion: \"[M+H]+\"
+  ppm: 5
+ir:
+  technique: film
+  bands:
+    - { at: 3062, strength: weak }
+    - { at: 1686, strength: strong }
+    - { at: 1598, strength: medium }
+    - { at: 1449, strength: medium }
+    - { at: 1265, strength: strong }
+    - { at: 760, strength: strong }
+    - { at: 690, strength: strong }
+";
+
+    #[test]
+    fn an_accurate_molecular_ion_alone_leads_to_the_formula_and_its_groups() {
+        let outcome = solve_text(ACCURATE_MASS_ONLY);
+        assert!(!outcome.formula_leads.is_empty());
+        assert!(outcome.formula_leads.iter().any(|l| l.formula == "C8H8O"));
+        let top = &outcome.candidates[0];
+        assert_eq!(top.formula.as_deref(), Some("C8H8O"));
+        assert_eq!(top.families.get("ketone"), Some(&1));
+        assert_eq!(top.families.get("aromatic_ring"), Some(&1));
+        assert!(outcome.candidates.iter().all(|c| c.formula.is_some()));
+    }
+
+    #[test]
+    fn a_nominal_molecular_ion_proposes_several_formulas_and_keeps_the_truth() {
+        let src = ACCURATE_MASS_ONLY
+            .replace("121.0648", "120")
+            .replace("\"[M+H]+\"", "\"M+.\"");
+        let outcome = solve_text(&src);
+        assert!(
+            outcome.formula_leads.len() > 1,
+            "{:?}",
+            outcome.formula_leads
+        );
+        assert!(outcome
+            .candidates
+            .iter()
+            .any(|c| c.formula.as_deref() == Some("C8H8O")
+                && c.families.get("ketone") == Some(&1)
+                && c.families.get("aromatic_ring") == Some(&1)));
+    }
+
+    #[test]
+    fn a_molecular_ion_no_formula_fits_is_reported_not_guessed() {
+        // m/z 1.5 as [M+H]+ leaves a neutral mass near 0.5 u: no formula exists.
+        let src = ACCURATE_MASS_ONLY.replace("121.0648", "1.5");
+        let outcome = solve_text(&src);
+        assert!(outcome.candidates.is_empty());
+        assert!(outcome
+            .evidence_checks
+            .iter()
+            .any(|c| c.item == "molecular_ion" && !c.agrees));
+    }
+}
