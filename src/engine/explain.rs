@@ -178,6 +178,7 @@ pub fn candidate(
         bands,
         supporting,
         weakening,
+        structures: None,
     }
 }
 

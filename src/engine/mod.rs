@@ -18,6 +18,7 @@ pub mod lp;
 pub mod model;
 pub mod outcome;
 pub mod score;
+pub mod structures;
 pub mod testkit;
 
 pub use model::EvidenceItem;

@@ -91,6 +91,32 @@ pub struct Candidate {
     pub supporting: Vec<String>,
     /// Evidence against (that did not rule it out), in words.
     pub weakening: Vec<String>,
+    /// Constitutional isomers with exactly these groups, when few enough to list
+    /// (filled by `engine::structures::attach`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub structures: Option<StructureSection>,
+}
+
+/// The structures of one candidate.
+#[derive(Clone, Debug, Serialize)]
+pub struct StructureSection {
+    /// How many constitutional isomers exist, when counted to the end.
+    pub count: Option<usize>,
+    /// Why none are listed (too many, formula too large, groups outside the generator).
+    pub note: Option<String>,
+    /// The isomers, best IR feature score first.
+    pub ranked: Vec<RankedStructure>,
+}
+
+/// One isomer with its IR feature checks.
+#[derive(Clone, Debug, Serialize)]
+pub struct RankedStructure {
+    /// Canonical SMILES.
+    pub smiles: String,
+    /// Feature score (+1 a feature's bands seen, −1 not seen).
+    pub score: f64,
+    /// One sentence per feature check.
+    pub checks: Vec<String>,
 }
 
 /// One term of a score.
