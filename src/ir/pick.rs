@@ -1,0 +1,506 @@
+//! Band picking on an evenly spaced, baseline-corrected absorbance trace: local maxima
+//! that stand out of the noise by their prominence, centre by parabolic interpolation,
+//! full width at half prominence by linear interpolation, width and strength classes, and
+//! shoulders on strong bands from minima of the second derivative.
+//!
+//! Thresholds (all documented in DEVELOPERS.md, "Spectrum files"):
+//! * noise σ = 1.4826 · MAD(second difference) / √6 — robust to bands, since the second
+//!   difference of a smooth band is small while that of white noise has variance 6σ²;
+//! * a band needs prominence ≥ [`NOISE_PROMINENCE`]·σ and ≥ [`RELATIVE_PROMINENCE`] of
+//!   the tallest maximum;
+//! * broad when FWHM ≥ [`BROAD_FWHM_CM1`];
+//! * strong when its height is ≥ [`STRONG_FRACTION`] of the tallest band, medium when
+//!   ≥ [`MEDIUM_FRACTION`], weak below.
+
+use super::band::{Shape, Strength};
+use super::preprocess::savgol;
+use serde::Serialize;
+
+/// Prominence a band needs, in units of the noise σ. Five σ keeps the chance that noise
+/// alone makes a maximum this prominent negligible over a few thousand points.
+pub const NOISE_PROMINENCE: f64 = 5.0;
+
+/// Prominence a band needs as a fraction of the tallest maximum: 1 %, below which nobody
+/// reads a band off a plotted spectrum.
+pub const RELATIVE_PROMINENCE: f64 = 0.01;
+
+/// A band at least this wide (FWHM, cm⁻¹) is broad. In condensed-phase FTIR, sharp
+/// stretches and bends (C–H, C=O, C≡N, ring modes) have FWHM of about 5–40 cm⁻¹ and C–O
+/// stretches up to about 60 cm⁻¹, while hydrogen-bonded O–H and N–H and the acid O–H
+/// envelope span about 100–500 cm⁻¹ (common practice). 75 cm⁻¹ sits in the gap.
+pub const BROAD_FWHM_CM1: f64 = 75.0;
+
+/// A band at least this fraction of the tallest band's height is strong. With the
+/// strongest band near A = 1 (10 %T), 0.45 is about 35 %T: analysts call bands that dip
+/// below roughly a third of full transmittance strong (common practice).
+pub const STRONG_FRACTION: f64 = 0.45;
+
+/// A band at least this fraction of the tallest band's height is medium; 0.15 is about
+/// 70 %T with the strongest band at A = 1, above which a band reads as weak (common practice).
+pub const MEDIUM_FRACTION: f64 = 0.15;
+
+/// Span of the default smoothing window, cm⁻¹: well under the narrowest condensed-phase
+/// band (≈ 8–10 cm⁻¹ FWHM), so a cubic Savitzky–Golay filter leaves band shapes intact.
+pub const SMOOTHING_SPAN_CM1: f64 = 5.0;
+
+/// Span of the second-derivative window used for shoulders, cm⁻¹.
+pub const DERIVATIVE_SPAN_CM1: f64 = 9.0;
+
+/// A second-derivative minimum is a shoulder when it is at least this many σ of the
+/// derivative's own noise deep, and at least [`SHOULDER_DEPTH_FRACTION`] of the main band's.
+pub const SHOULDER_NOISE: f64 = 6.0;
+
+/// See [`SHOULDER_NOISE`].
+pub const SHOULDER_DEPTH_FRACTION: f64 = 0.05;
+
+/// How a band was found.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum BandKind {
+    /// A local maximum of the trace.
+    Peak,
+    /// A shoulder: no maximum of its own, a minimum of the second derivative on the flank
+    /// of a strong band.
+    Shoulder,
+}
+
+/// A picked band with its measurements.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct PickedBand {
+    /// Centre, cm⁻¹.
+    pub at: f64,
+    /// Absorbance above the baseline at the centre.
+    pub height: f64,
+    /// Height over the tallest band's height.
+    pub relative_height: f64,
+    /// Prominence (absorbance): how far the band rises above the higher of its two bases.
+    pub prominence: f64,
+    /// Full width at half prominence, cm⁻¹ (estimated from the second derivative for a
+    /// shoulder), when it could be measured.
+    pub fwhm: Option<f64>,
+    /// Strength class.
+    pub strength: Strength,
+    /// Width class, when the width is known.
+    pub shape: Option<Shape>,
+    /// Peak or shoulder.
+    pub kind: BandKind,
+}
+
+/// Settings of the picker.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct PickParams {
+    /// Savitzky–Golay smoothing before picking: `None` picks the window from
+    /// [`SMOOTHING_SPAN_CM1`] (no smoothing when that is under 5 points), `Some(0)` turns it
+    /// off, `Some(k)` uses `k` points (made odd).
+    pub smoothing_points: Option<usize>,
+    /// Look for shoulders on strong bands.
+    pub shoulders: bool,
+}
+
+impl Default for PickParams {
+    fn default() -> PickParams {
+        PickParams {
+            smoothing_points: None,
+            shoulders: true,
+        }
+    }
+}
+
+/// What the picker measured besides the bands.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct PickStats {
+    /// Noise σ of the absorbance trace.
+    pub noise: f64,
+    /// Smoothing window used, points (0 for none).
+    pub smoothing_points: usize,
+    /// Point spacing, cm⁻¹.
+    pub spacing_cm1: f64,
+}
+
+/// Median of a slice (which it sorts).
+fn median(v: &mut [f64]) -> f64 {
+    if v.is_empty() {
+        return 0.0;
+    }
+    let mid = v.len() / 2;
+    let (_, m, _) = v.select_nth_unstable_by(mid, f64::total_cmp);
+    *m
+}
+
+/// Robust noise σ of `y`: 1.4826 · MAD of the second difference / √6.
+pub fn noise_sigma(y: &[f64]) -> f64 {
+    if y.len() < 5 {
+        return 0.0;
+    }
+    let mut d2: Vec<f64> = y.windows(3).map(|w| w[0] - 2.0 * w[1] + w[2]).collect();
+    let mut scratch = d2.clone();
+    let m = median(&mut scratch);
+    for v in &mut d2 {
+        *v = (*v - m).abs();
+    }
+    1.4826 * median(&mut d2) / 6f64.sqrt()
+}
+
+fn classify_strength(relative: f64) -> Strength {
+    if relative >= STRONG_FRACTION {
+        Strength::Strong
+    } else if relative >= MEDIUM_FRACTION {
+        Strength::Medium
+    } else {
+        Strength::Weak
+    }
+}
+
+fn classify_shape(fwhm: f64) -> Shape {
+    if fwhm >= BROAD_FWHM_CM1 {
+        Shape::Broad
+    } else {
+        Shape::Sharp
+    }
+}
+
+fn odd_window(points: usize) -> usize {
+    if points < 5 {
+        0
+    } else if points % 2 == 0 {
+        points + 1
+    } else {
+        points
+    }
+}
+
+struct Maximum {
+    index: usize,
+    prominence: f64,
+    left_base: usize,
+    right_base: usize,
+}
+
+/// Local maxima (plateaus count once, at their middle) with their prominences.
+fn maxima_with_prominence(y: &[f64], min_height: f64) -> Vec<Maximum> {
+    let n = y.len();
+    let mut out = Vec::new();
+    let mut i = 1;
+    while i + 1 < n {
+        if y[i] > y[i - 1] {
+            // Walk over a plateau.
+            let mut end = i;
+            while end + 1 < n && y[end + 1] == y[i] {
+                end += 1;
+            }
+            if end + 1 < n && y[end + 1] < y[i] && y[i] > min_height {
+                let index = (i + end) / 2;
+                let top = y[i];
+                let mut left_min = top;
+                let mut left_base = i;
+                let mut j = i;
+                while j > 0 {
+                    j -= 1;
+                    if y[j] > top {
+                        break;
+                    }
+                    if y[j] < left_min {
+                        left_min = y[j];
+                        left_base = j;
+                    }
+                }
+                let mut right_min = top;
+                let mut right_base = end;
+                let mut j = end;
+                while j + 1 < n {
+                    j += 1;
+                    if y[j] > top {
+                        break;
+                    }
+                    if y[j] < right_min {
+                        right_min = y[j];
+                        right_base = j;
+                    }
+                }
+                out.push(Maximum {
+                    index,
+                    prominence: top - left_min.max(right_min),
+                    left_base,
+                    right_base,
+                });
+            }
+            i = end + 1;
+        } else {
+            i += 1;
+        }
+    }
+    out
+}
+
+/// Where `y` falls to `level` walking from `from` towards `to` (exclusive), linearly
+/// interpolated, in fractional index; `None` when it never does.
+fn crossing(y: &[f64], from: usize, to: usize, level: f64) -> Option<f64> {
+    if to < from {
+        let mut j = from;
+        while j > to {
+            if y[j - 1] <= level {
+                let t = (y[j] - level) / (y[j] - y[j - 1]);
+                return Some(j as f64 - t);
+            }
+            j -= 1;
+        }
+    } else {
+        let mut j = from;
+        while j < to {
+            if y[j + 1] <= level {
+                let t = (y[j] - level) / (y[j] - y[j + 1]);
+                return Some(j as f64 + t);
+            }
+            j += 1;
+        }
+    }
+    None
+}
+
+/// Least-squares parabola through the points around maximum `m` that lie above `level`;
+/// returns its vertex when it has at least 5 points and a proper top inside them.
+fn top_parabola(x: &[f64], y: &[f64], i: usize, m: &Maximum, level: f64) -> Option<(f64, f64)> {
+    let mut l = i;
+    while l > m.left_base && y[l - 1] > level {
+        l -= 1;
+    }
+    let mut r = i;
+    while r < m.right_base && y[r + 1] > level {
+        r += 1;
+    }
+    if r - l + 1 < 5 {
+        return None;
+    }
+    // Fit y = c0 + c1 t + c2 t² with t centred on x[i] for conditioning.
+    let (mut s0, mut s1, mut s2, mut s3, mut s4) = (0.0, 0.0, 0.0, 0.0, 0.0);
+    let (mut sy, mut sty, mut stty) = (0.0, 0.0, 0.0);
+    for j in l..=r {
+        let t = x[j] - x[i];
+        let t2 = t * t;
+        s0 += 1.0;
+        s1 += t;
+        s2 += t2;
+        s3 += t2 * t;
+        s4 += t2 * t2;
+        sy += y[j];
+        sty += t * y[j];
+        stty += t2 * y[j];
+    }
+    // Cramer's rule on the 3×3 normal equations.
+    let det3 = |a: [[f64; 3]; 3]| {
+        a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1])
+            - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0])
+            + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0])
+    };
+    let n = [[s0, s1, s2], [s1, s2, s3], [s2, s3, s4]];
+    let d = det3(n);
+    if d.abs() < 1e-300 {
+        return None;
+    }
+    let rhs = [sy, sty, stty];
+    let solve = |col: usize| {
+        let mut a = n;
+        for row in 0..3 {
+            a[row][col] = rhs[row];
+        }
+        det3(a) / d
+    };
+    let (c0, c1, c2) = (solve(0), solve(1), solve(2));
+    if c2 >= 0.0 {
+        return None;
+    }
+    let t = -c1 / (2.0 * c2);
+    if t < x[l] - x[i] || t > x[r] - x[i] {
+        return None;
+    }
+    Some((x[i] + t, c0 + c1 * t + c2 * t * t))
+}
+
+/// Picks bands of the absorbance trace `y` on the evenly spaced ascending grid `x`
+/// (baseline already removed). Bands come out in decreasing wavenumber, as analysts list them.
+pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>, PickStats) {
+    let n = y.len();
+    let spacing = if n >= 2 {
+        (x[n - 1] - x[0]) / (n - 1) as f64
+    } else {
+        0.0
+    };
+    let noise = noise_sigma(y);
+    let mut stats = PickStats {
+        noise,
+        smoothing_points: 0,
+        spacing_cm1: spacing,
+    };
+    if n < 5 || spacing <= 0.0 {
+        return (Vec::new(), stats);
+    }
+    let window = match params.smoothing_points {
+        Some(k) => odd_window(k),
+        None => odd_window((SMOOTHING_SPAN_CM1 / spacing).round() as usize),
+    };
+    let smooth = if window >= 5 {
+        savgol(y, window / 2, 3, 0)
+    } else {
+        y.to_vec()
+    };
+    stats.smoothing_points = window;
+    let tallest = smooth.iter().copied().fold(0.0f64, f64::max);
+    if tallest <= 0.0 {
+        return (Vec::new(), stats);
+    }
+    let min_prominence = (NOISE_PROMINENCE * noise).max(RELATIVE_PROMINENCE * tallest);
+    let maxima: Vec<Maximum> = maxima_with_prominence(&smooth, min_prominence)
+        .into_iter()
+        .filter(|m| m.prominence >= min_prominence)
+        .collect();
+
+    let mut bands: Vec<PickedBand> = Vec::new();
+    let mut peak_indices = Vec::new();
+    for m in &maxima {
+        let i = m.index;
+        let (a, b, c) = (smooth[i - 1], smooth[i], smooth[i + 1]);
+        let curvature = a - 2.0 * b + c;
+        let delta = if curvature < 0.0 {
+            (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
+        } else {
+            0.0
+        };
+        let mut at = x[i] + delta * spacing;
+        let mut height = b - 0.25 * (a - c) * delta;
+        // On a wide top, noise moves the highest point about; a least-squares parabola
+        // through the top quarter of the band (by prominence) finds the centre better.
+        if let Some((top_at, top_height)) =
+            top_parabola(x, &smooth, i, m, height - 0.25 * m.prominence)
+        {
+            at = top_at;
+            height = top_height;
+        }
+        let level = height - m.prominence / 2.0;
+        let left = crossing(&smooth, i, m.left_base, level);
+        let right = crossing(&smooth, i, m.right_base, level);
+        let centre_index = (at - x[0]) / spacing;
+        let fwhm = match (left, right) {
+            (Some(l), Some(r)) => Some((r - l) * spacing),
+            // One side runs into a taller neighbour: mirror the side that was measured.
+            (Some(l), None) => Some(2.0 * (centre_index - l) * spacing),
+            (None, Some(r)) => Some(2.0 * (r - centre_index) * spacing),
+            (None, None) => None,
+        }
+        .filter(|w| *w > 0.0);
+        peak_indices.push(i);
+        bands.push(PickedBand {
+            at,
+            height,
+            relative_height: 0.0,
+            prominence: m.prominence,
+            fwhm,
+            strength: Strength::Weak,
+            shape: fwhm.map(classify_shape),
+            kind: BandKind::Peak,
+        });
+    }
+    let max_height = bands.iter().map(|b| b.height).fold(0.0f64, f64::max);
+
+    if params.shoulders && max_height > 0.0 {
+        let d_window = odd_window((DERIVATIVE_SPAN_CM1 / spacing).round() as usize).max(5);
+        let d2 = savgol(y, d_window / 2, 3, 2);
+        let d2_noise = {
+            let mut tmp: Vec<f64> = d2.clone();
+            let m = median(&mut tmp);
+            tmp.copy_from_slice(&d2);
+            for v in &mut tmp {
+                *v = (*v - m).abs();
+            }
+            1.4826 * median(&mut tmp)
+        };
+        let mut shoulders = Vec::new();
+        for (band_idx, m) in maxima.iter().enumerate() {
+            let band = &bands[band_idx];
+            if band.height < STRONG_FRACTION * max_height {
+                continue;
+            }
+            let main_depth = d2[m.index].min(0.0).abs();
+            let Some(fwhm) = band.fwhm else {
+                continue;
+            };
+            let half_points = (fwhm / spacing / 2.0).max(1.0);
+            let reach = (3.0 * half_points) as usize;
+            let lo = m.index.saturating_sub(reach).max(m.left_base).max(1);
+            let hi = (m.index + reach).min(m.right_base).min(n - 2);
+            for j in lo..=hi {
+                if !(d2[j] < d2[j - 1] && d2[j] <= d2[j + 1]) {
+                    continue;
+                }
+                let depth = -d2[j];
+                if depth < SHOULDER_NOISE * d2_noise || depth < SHOULDER_DEPTH_FRACTION * main_depth
+                {
+                    continue;
+                }
+                // Not the band's own core, and not any picked maximum.
+                let distance_to_peak = (j as f64 - m.index as f64).abs();
+                if distance_to_peak < 0.5 * half_points.max(d_window as f64 / 2.0) {
+                    continue;
+                }
+                if peak_indices
+                    .iter()
+                    .any(|&p| (p as f64 - j as f64).abs() < (d_window as f64 / 2.0).max(2.0))
+                {
+                    continue;
+                }
+                if smooth[j] < min_prominence {
+                    continue;
+                }
+                // Width between the zero crossings of the second derivative around j.
+                let mut l = j;
+                while l > 0 && d2[l] < 0.0 {
+                    l -= 1;
+                }
+                let mut r = j;
+                while r + 1 < n && d2[r] < 0.0 {
+                    r += 1;
+                }
+                // Zero-crossing width is FWHM/√3 for a Lorentzian and 0.85·FWHM for a
+                // Gaussian; 1.4 sits between, enough for the broad/sharp class.
+                let width = 1.4 * (r - l) as f64 * spacing;
+                let (a, b, c) = (d2[j - 1], d2[j], d2[j + 1]);
+                let curvature = a - 2.0 * b + c;
+                let delta = if curvature > 0.0 {
+                    (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
+                } else {
+                    0.0
+                };
+                shoulders.push(PickedBand {
+                    at: x[j] + delta * spacing,
+                    height: smooth[j],
+                    relative_height: 0.0,
+                    prominence: 0.0,
+                    fwhm: Some(width),
+                    strength: Strength::Weak,
+                    shape: Some(classify_shape(width)),
+                    kind: BandKind::Shoulder,
+                });
+            }
+        }
+        // One shoulder per place even when two strong bands both reach it.
+        let same_place = (d_window as f64 / 2.0).max(2.0) * spacing;
+        for s in shoulders {
+            if !bands
+                .iter()
+                .any(|b| b.kind == BandKind::Shoulder && (b.at - s.at).abs() < same_place)
+            {
+                bands.push(s);
+            }
+        }
+    }
+
+    for b in &mut bands {
+        b.relative_height = if max_height > 0.0 {
+            b.height / max_height
+        } else {
+            0.0
+        };
+        b.strength = classify_strength(b.relative_height);
+    }
+    bands.sort_by(|a, b| b.at.total_cmp(&a.at));
+    (bands, stats)
+}
