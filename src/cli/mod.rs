@@ -6,8 +6,12 @@
 //! (no consistent candidate, with its conflict shown), 2 = bad input or usage.
 
 mod bands;
+pub mod batch;
+pub mod casefile;
 mod formula;
 mod from_mass;
+mod new_case;
+mod review;
 mod rules;
 mod solve;
 
@@ -47,6 +51,12 @@ enum Command {
     Bands(bands::BandsArgs),
     /// Candidate formulas for a measured m/z.
     FromMass(from_mass::FromMassArgs),
+    /// Recompute a case and compare with its record and the analyst's conclusion.
+    Review(review::ReviewArgs),
+    /// Solve every case file of a directory in parallel and write one report per case.
+    Batch(batch::BatchArgs),
+    /// Write a commented template case file.
+    NewCase(new_case::NewCaseArgs),
 }
 
 /// What a subcommand reports back to `run`: the exit status it earned.
@@ -104,6 +114,9 @@ where
         Command::Solve(a) => solve::run(a, &mut out),
         Command::Bands(a) => bands::run(a, &mut out),
         Command::FromMass(a) => from_mass::run(a, &mut out),
+        Command::Review(a) => review::run(a, &mut out),
+        Command::Batch(a) => batch::run(a, &mut out),
+        Command::NewCase(a) => new_case::run(a, &mut out),
     };
     let _ = out.flush();
     match result {

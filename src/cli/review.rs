@@ -1,0 +1,153 @@
+//! `quiddity review CASE.yaml`: recompute the case and compare with its record (written by
+//! `solve --record`) and with the analyst's conclusion in the case. Exit 0 when everything
+//! agrees, 1 with the list of differences, 2 on bad input or when there is nothing to
+//! compare against.
+
+use super::casefile::{self, load_case, LoadOptions};
+use super::solve::load_catalogue;
+use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::diag::Diagnostic;
+use crate::engine::SolveOptions;
+use crate::report::record::{compare, Difference, Record, ReviewFindings};
+use clap::Args;
+use serde::Serialize;
+use std::io::Write;
+use std::path::PathBuf;
+
+/// Arguments of `quiddity review`.
+#[derive(Debug, Args)]
+pub struct ReviewArgs {
+    /// The case file (YAML).
+    case: PathBuf,
+    /// The record to compare with (default: NAME.record.json beside the case).
+    #[arg(long, value_name = "FILE")]
+    record: Option<PathBuf>,
+    /// Print one JSON document on stdout.
+    #[arg(long)]
+    json: bool,
+    /// Use the rules catalogue in DIR instead of the built-in one.
+    #[arg(long, value_name = "DIR")]
+    rules: Option<PathBuf>,
+    /// Let the case name files outside its own directory tree.
+    #[arg(long)]
+    allow_outside: bool,
+}
+
+#[derive(Serialize)]
+struct ReviewView<'a> {
+    case: String,
+    record: Option<String>,
+    agrees: bool,
+    differences: &'a [Difference],
+    notes: &'a [String],
+}
+
+/// Runs `quiddity review`.
+pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
+    let loaded = load_case(
+        &args.case,
+        &LoadOptions {
+            allow_outside: args.allow_outside,
+        },
+    )?;
+    let record_path = args
+        .record
+        .clone()
+        .unwrap_or_else(|| casefile::record_path(&args.case));
+    let record = if record_path.exists() || args.record.is_some() {
+        let origin = record_path.display().to_string();
+        let text = std::fs::read_to_string(&record_path)
+            .map_err(|e| Diagnostic::error(&origin, format!("cannot read the record: {e}")))?;
+        Some(Record::from_json(&text, &origin).map_err(|d| Failure::from(*d))?)
+    } else {
+        None
+    };
+    let accepted = loaded
+        .case
+        .conclusion
+        .as_ref()
+        .map(|c| &c.accepted)
+        .filter(|a| !a.is_empty());
+    if record.is_none() && accepted.is_none() {
+        return Err(Diagnostic::error(
+            args.case.display().to_string(),
+            format!(
+                "nothing to review against: no record at {} and no accepted candidate in the case",
+                record_path.display()
+            ),
+        )
+        .with_help("run `quiddity solve CASE --record` first, or write `conclusion: accepted:` in the case")
+        .into());
+    }
+    let catalogue = load_catalogue(args.rules.as_deref())?;
+    let defaults = SolveOptions::default();
+    let options = SolveOptions {
+        tolerance_cm1: record
+            .as_ref()
+            .map_or(defaults.tolerance_cm1, |r| r.tolerance_cm1),
+        max_candidates: record
+            .as_ref()
+            .map_or(defaults.max_candidates, |r| r.max_candidates),
+        ..defaults
+    };
+    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let now = Record::new(&outcome, loaded.inputs.clone(), options.max_candidates);
+    let findings = compare(record.as_ref(), &now, &outcome, accepted);
+    if args.json {
+        print_json(
+            out,
+            &ReviewView {
+                case: args.case.display().to_string(),
+                record: record.as_ref().map(|_| record_path.display().to_string()),
+                agrees: findings.agrees(),
+                differences: &findings.differences,
+                notes: &findings.notes,
+            },
+        )?;
+    } else {
+        out.write_all(
+            render_text(
+                &args.case.display().to_string(),
+                record.is_some(),
+                &record_path,
+                &findings,
+            )
+            .as_bytes(),
+        )
+        .map_err(io_failure)?;
+    }
+    Ok(if findings.agrees() {
+        Status::Success
+    } else {
+        Status::Negative
+    })
+}
+
+fn render_text(
+    case: &str,
+    has_record: bool,
+    record_path: &std::path::Path,
+    findings: &ReviewFindings,
+) -> String {
+    let mut s = String::new();
+    let against = if has_record {
+        format!("the record {}", record_path.display())
+    } else {
+        "the analyst's conclusion (no record)".to_owned()
+    };
+    if findings.agrees() {
+        s.push_str(&format!("review of {case}: agrees with {against}\n"));
+    } else {
+        s.push_str(&format!(
+            "review of {case}: {} difference(s) from {against}\n",
+            findings.differences.len()
+        ));
+        for d in &findings.differences {
+            s.push_str(&format!("  - {d}\n"));
+        }
+    }
+    for n in &findings.notes {
+        s.push_str(&format!("  note: {n}\n"));
+    }
+    s
+}
