@@ -11,7 +11,7 @@ pub mod casefile;
 mod formula;
 mod from_mass;
 mod new_case;
-mod review;
+pub mod review;
 mod rules;
 mod solve;
 

@@ -12,7 +12,7 @@ use crate::report::record::{compare, Difference, Record, ReviewFindings};
 use clap::Args;
 use serde::Serialize;
 use std::io::Write;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 /// Arguments of `quiddity review`.
 #[derive(Debug, Args)]
@@ -42,19 +42,26 @@ struct ReviewView<'a> {
     notes: &'a [String],
 }
 
-/// Runs `quiddity review`.
-pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
-    let loaded = load_case(
-        &args.case,
-        &LoadOptions {
-            allow_outside: args.allow_outside,
-        },
-    )?;
-    let record_path = args
-        .record
-        .clone()
-        .unwrap_or_else(|| casefile::record_path(&args.case));
-    let record = if record_path.exists() || args.record.is_some() {
+/// What a review compared and found.
+#[derive(Clone, Debug)]
+pub struct ReviewReport {
+    /// The record file compared with, when there was one.
+    pub record: Option<PathBuf>,
+    /// The findings.
+    pub findings: ReviewFindings,
+}
+
+/// Recomputes the case at `case` and compares it with its record (`record`, or the one
+/// beside the case when it exists) and the analyst's conclusion.
+pub fn review_case(
+    case: &Path,
+    record: Option<&Path>,
+    rules: Option<&Path>,
+    load: &LoadOptions,
+) -> Result<ReviewReport, Failure> {
+    let loaded = load_case(case, load)?;
+    let record_path = record.map_or_else(|| casefile::record_path(case), Path::to_path_buf);
+    let recorded = if record_path.exists() || record.is_some() {
         let origin = record_path.display().to_string();
         let text = std::fs::read_to_string(&record_path)
             .map_err(|e| Diagnostic::error(&origin, format!("cannot read the record: {e}")))?;
@@ -68,9 +75,9 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
         .as_ref()
         .map(|c| &c.accepted)
         .filter(|a| !a.is_empty());
-    if record.is_none() && accepted.is_none() {
+    if recorded.is_none() && accepted.is_none() {
         return Err(Diagnostic::error(
-            args.case.display().to_string(),
+            case.display().to_string(),
             format!(
                 "nothing to review against: no record at {} and no accepted candidate in the case",
                 record_path.display()
@@ -79,26 +86,43 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
         .with_help("run `quiddity solve CASE --record` first, or write `conclusion: accepted:` in the case")
         .into());
     }
-    let catalogue = load_catalogue(args.rules.as_deref())?;
+    let catalogue = load_catalogue(rules)?;
     let defaults = SolveOptions::default();
     let options = SolveOptions {
-        tolerance_cm1: record
+        tolerance_cm1: recorded
             .as_ref()
             .map_or(defaults.tolerance_cm1, |r| r.tolerance_cm1),
-        max_candidates: record
+        max_candidates: recorded
             .as_ref()
             .map_or(defaults.max_candidates, |r| r.max_candidates),
         ..defaults
     };
     let outcome = casefile::solve(&loaded, &catalogue, &options);
     let now = Record::new(&outcome, loaded.inputs.clone(), options.max_candidates);
-    let findings = compare(record.as_ref(), &now, &outcome, accepted);
+    let findings = compare(recorded.as_ref(), &now, &outcome, accepted);
+    Ok(ReviewReport {
+        record: recorded.map(|_| record_path),
+        findings,
+    })
+}
+
+/// Runs `quiddity review`.
+pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
+    let report = review_case(
+        &args.case,
+        args.record.as_deref(),
+        args.rules.as_deref(),
+        &LoadOptions {
+            allow_outside: args.allow_outside,
+        },
+    )?;
+    let findings = &report.findings;
     if args.json {
         print_json(
             out,
             &ReviewView {
                 case: args.case.display().to_string(),
-                record: record.as_ref().map(|_| record_path.display().to_string()),
+                record: report.record.as_ref().map(|p| p.display().to_string()),
                 agrees: findings.agrees(),
                 differences: &findings.differences,
                 notes: &findings.notes,
@@ -108,9 +132,8 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
         out.write_all(
             render_text(
                 &args.case.display().to_string(),
-                record.is_some(),
-                &record_path,
-                &findings,
+                report.record.as_deref(),
+                findings,
             )
             .as_bytes(),
         )
@@ -123,14 +146,10 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
     })
 }
 
-fn render_text(
-    case: &str,
-    has_record: bool,
-    record_path: &std::path::Path,
-    findings: &ReviewFindings,
-) -> String {
+/// The review in words: a headline, one line per difference, then the notes.
+pub fn render_text(case: &str, record: Option<&Path>, findings: &ReviewFindings) -> String {
     let mut s = String::new();
-    let against = if has_record {
+    let against = if let Some(record_path) = record {
         format!("the record {}", record_path.display())
     } else {
         "the analyst's conclusion (no record)".to_owned()

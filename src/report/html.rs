@@ -27,7 +27,7 @@ h1{font-size:1.5em;margin-bottom:.2em}h2{font-size:1.15em;border-bottom:1px soli
 table{border-collapse:collapse;margin:.5em 0}td,th{border:1px solid #d8d2c4;padding:.2em .5em;vertical-align:top;text-align:left}\
 th{background:#f4f1ea}td.num{text-align:right;font-variant-numeric:tabular-nums}\
 .caution{background:#fff4e0;border-left:4px solid #a06b00;padding:.5em 1em}\
-.unexplained{color:#b3261e;font-weight:bold}code{font-size:.9em}.legend span{margin-right:1.5em}";
+.unexplained{color:#b3261e;font-weight:bold}svg.spectrum{width:100%;height:auto}code{font-size:.9em}.legend span{margin-right:1.5em}";
 
 fn row(s: &mut String, cells: &[String]) {
     s.push_str("<tr>");

@@ -15,7 +15,7 @@ const WIDTH: f64 = 960.0;
 const HEIGHT: f64 = 420.0;
 const LEFT: f64 = 56.0;
 const RIGHT: f64 = 24.0;
-const TOP: f64 = 150.0;
+const TOP: f64 = 175.0;
 const BOTTOM: f64 = 44.0;
 
 /// Colour of a mark by the kind of its explanation.
@@ -59,7 +59,7 @@ pub fn render(view: &ReportView) -> String {
     let mut s = String::new();
     let _ = writeln!(
         s,
-        "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"spectrum\" viewBox=\"0 0 {WIDTH} {HEIGHT}\" width=\"{WIDTH}\" height=\"{HEIGHT}\" role=\"img\" aria-label=\"{}\">",
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"spectrum\" viewBox=\"0 0 {WIDTH} {HEIGHT}\" role=\"img\" aria-label=\"{}\">",
         if view.plot.is_some() {
             "IR spectrum with its bands marked"
         } else {
@@ -159,9 +159,13 @@ pub fn render(view: &ReportView) -> String {
             Box::new(move |_| base_y)
         }
     };
-    // One mark per observed band, with its label.
+    // One mark per observed band, with its label; labels of close bands are pushed apart
+    // (rows run from high to low wavenumber, so x grows along the loop).
+    let mut last_label_x = f64::MIN;
     for r in &view.band_table.rows {
         let x = px(r.at);
+        let label_x = x.max(last_label_x + 11.0);
+        last_label_x = label_x;
         let foot = match &view.plot {
             Some(_) => y_of(r.at),
             None => base_y - stick(r) * plot_h * 0.95,
@@ -193,13 +197,14 @@ pub fn render(view: &ReportView) -> String {
         };
         let _ = writeln!(
             s,
-            "<g class=\"band-mark\" data-at=\"{at:.1}\" data-kind=\"{kind}\"><line x1=\"{x}\" y1=\"{top}\" x2=\"{x}\" y2=\"{foot}\" stroke=\"{c}\" stroke-dasharray=\"2 2\"/>{symbol}<text x=\"{x}\" y=\"{ty}\" font-size=\"9\" fill=\"{c}\" transform=\"rotate(-90 {x} {ty})\">{label}</text></g>",
+            "<g class=\"band-mark\" data-at=\"{at:.1}\" data-kind=\"{kind}\"><line x1=\"{x}\" y1=\"{top}\" x2=\"{x}\" y2=\"{foot}\" stroke=\"{c}\" stroke-dasharray=\"2 2\"/>{symbol}<text x=\"{lx}\" y=\"{ty}\" font-size=\"9\" fill=\"{c}\" transform=\"rotate(-90 {lx} {ty})\">{label}</text></g>",
             at = r.at,
             kind = escape(r.kind()),
             x = fmt(x),
             top = fmt(mark_y),
             foot = fmt(foot),
             ty = fmt(mark_y - 14.0),
+            lx = fmt(label_x + 3.0),
             label = escape(&label)
         );
     }
