@@ -91,7 +91,9 @@ fn check_case(case: &str, with_spectrum: bool) {
     assert!(!dom.contains("<img"), "no image element in the page");
     assert!(!dom.contains("<title>pwned</title>"), "no script ran");
     // Self-contained: nothing is fetched from anywhere.
-    for needle in ["http://", "https://", " src=\"", " href=\"", "@import", "url("] {
+    for needle in [
+        "http://", "https://", " src=\"", " href=\"", "@import", "url(",
+    ] {
         let outside_svg_ns = dom.replace("http://www.w3.org/2000/svg", "");
         assert!(
             !outside_svg_ns.contains(needle),
