@@ -2,6 +2,8 @@
 //! and reported (JSON) on 1 and 2 worker threads, including reading the case files and
 //! writing the reports. Criterion reports the rate as elements (cases) per second.
 
+#![allow(missing_docs)] // criterion_group! generates an undocumented function
+
 #[path = "../tests/support/generate.rs"]
 #[allow(dead_code)]
 mod generate;
