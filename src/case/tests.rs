@@ -49,25 +49,25 @@ fn bad_inputs_are_reported_with_place_key_path_and_hint() {
         (
             "strength: strong, shape",
             "strength: strnog, shape",
-            "error: t.yaml:12:19: ir.bands[1].strength: unknown strength \"strnog\"",
+            "error: t.yaml:12:29: ir.bands[1].strength: unknown strength \"strnog\"",
             Some("did you mean \"strong\"?"),
         ),
         (
             "at: 1715",
             "at: 4715",
-            "error: t.yaml:12:9: ir.bands[1].at: band at 4715 cm⁻¹ is outside 400–4000 cm⁻¹",
+            "error: t.yaml:12:13: ir.bands[1].at: band at 4715 cm⁻¹ is outside 400–4000 cm⁻¹",
             None,
         ),
         (
             "technique: ATR",
             "technique: ATRR",
-            "error: t.yaml:9:3: ir.technique: unknown technique \"ATRR\"",
+            "error: t.yaml:9:14: ir.technique: unknown technique \"ATRR\"",
             Some("did you mean \"ATR\"?"),
         ),
         (
             "shape: sharp",
             "shape: sharpp",
-            "error: t.yaml:12:37: ir.bands[1].shape: unknown shape \"sharpp\"",
+            "error: t.yaml:12:44: ir.bands[1].shape: unknown shape \"sharpp\"",
             Some("did you mean \"sharp\"?"),
         ),
         (
@@ -79,7 +79,7 @@ fn bad_inputs_are_reported_with_place_key_path_and_hint() {
         (
             "ion: \"M+.\"",
             "ion: \"[M+H]\"",
-            "error: t.yaml:7:3: ms.ion: unknown ion type \"[M+H]\"",
+            "error: t.yaml:7:8: ms.ion: unknown ion type \"[M+H]\"",
             Some("did you mean \"[M+H]+\"?"),
         ),
     ];
@@ -137,7 +137,7 @@ fn block_style_bands_are_located_too() {
     let d = first_error(src);
     assert_eq!(
         d.to_string(),
-        "error: t.yaml:7:5: ir.bands[1].strength: unknown strength \"stronk\""
+        "error: t.yaml:7:15: ir.bands[1].strength: unknown strength \"stronk\""
     );
 }
 

@@ -3,7 +3,7 @@
 
 use super::model::*;
 use super::raw::*;
-use super::yaml::{locate, KeyPath};
+use super::yaml::{locate, locate_value, KeyPath};
 use crate::diag::{closest_match, Diagnostic, Position};
 use crate::ir::{Band, PickOptions, Shape, Strength};
 use crate::rules::Technique;
@@ -32,7 +32,7 @@ impl Ctx<'_> {
 
     fn error(&mut self, path: &KeyPath, message: String, help: Option<String>) {
         let mut d = Diagnostic::error(self.origin, message).with_key_path(path.to_string());
-        if let Some(offset) = locate(self.src, path) {
+        if let Some(offset) = locate_value(self.src, path) {
             d = d.at_offset(self.src, offset);
         }
         if let Some(h) = help {

@@ -125,6 +125,34 @@ pub fn locate(src: &str, path: &KeyPath) -> Option<usize> {
     best
 }
 
+/// Like [`locate`], but for a path ending in a key with an inline value, the offset of
+/// the value itself (where a bad word or number sits) rather than of its key.
+pub fn locate_value(src: &str, path: &KeyPath) -> Option<usize> {
+    let lines = line_table(src);
+    let mut scope = Scope::Block {
+        first_line: 0,
+        end_line: lines.len(),
+        parent_indent: None,
+        first_col: None,
+    };
+    let mut best = None;
+    for (i, step) in path.0.iter().enumerate() {
+        match find_step(src, &lines, &scope, step) {
+            Some((offset, next)) => {
+                best = Some(offset);
+                if i + 1 == path.0.len() {
+                    if let (Step::Key(_), Scope::Inline { start, .. }) = (step, &next) {
+                        best = Some(*start);
+                    }
+                }
+                scope = next;
+            }
+            None => break,
+        }
+    }
+    best
+}
+
 /// `(start_offset, text_without_newline)` per line.
 fn line_table(src: &str) -> Vec<(usize, &str)> {
     let mut out = Vec::new();

@@ -28,6 +28,9 @@ pub struct SolveArgs {
     /// Show at most N candidates.
     #[arg(long, value_name = "N", default_value_t = 25)]
     max: usize,
+    /// Stop collecting consistent combinations after N (the output says when it did).
+    #[arg(long, value_name = "N", default_value_t = SolveOptions::default().enumeration_limit)]
+    limit: usize,
     /// Use the rules catalogue in DIR instead of the built-in one.
     #[arg(long, value_name = "DIR")]
     rules: Option<PathBuf>,
@@ -82,6 +85,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     let options = SolveOptions {
         tolerance_cm1: args.tolerance,
         max_candidates: args.max,
+        enumeration_limit: args.limit.max(args.max),
         ..SolveOptions::default()
     };
     let outcome = casefile::solve(&loaded, &catalogue, &options);

@@ -53,7 +53,7 @@ pub fn consistent(
     }
     let allowed = problem.allowed_groups();
     let mut found = false;
-    super::enumerate::walk(&problem, &allowed, |counts, skeleton_c| {
+    super::enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
         if super::evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
             found = true;
             super::enumerate::Flow::Stop

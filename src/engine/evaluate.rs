@@ -27,8 +27,9 @@ pub enum Failure {
 /// Checks a combination; with `all` false, stops at the first failure.
 pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: bool) -> Vec<Failure> {
     let mut out = Vec::new();
-    for (gi, &n) in counts.iter().enumerate() {
-        if n > 0 {
+    let present: Vec<usize> = (0..counts.len()).filter(|&g| counts[g] > 0).collect();
+    for &gi in &present {
+        {
             for rules in &problem.groups[gi].presence.missing {
                 out.push(Failure::MissingBand {
                     group: gi,
@@ -40,7 +41,7 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
             }
         }
     }
-    for r in relations::check(problem, counts) {
+    for r in relations::check(problem, counts, &present) {
         out.push(Failure::Relation(r));
         if !all {
             return out;
@@ -53,7 +54,7 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
             return out;
         }
     }
-    if let Err(reason) = bonds::check(problem, counts, skeleton_c, &needs) {
+    if let Err(reason) = bonds::check(problem, counts, &present, skeleton_c, &needs) {
         out.push(Failure::Bonds(reason));
     }
     out

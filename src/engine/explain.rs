@@ -53,6 +53,7 @@ pub fn candidate(
     let catalogue = problem.catalogue;
     let mut bands = Vec::new();
     let mut weakening = Vec::new();
+    let sp3_group = band_explanation::has_sp3_group(problem, counts);
     for (bi, (_, ob)) in problem.bands.iter().enumerate() {
         let ex = &problem.explainers[bi];
         let mut list: Vec<Explanation> = Vec::new();
@@ -82,7 +83,7 @@ pub fn candidate(
             }
         }
         for (s, q) in &ex.skeleton {
-            if band_explanation::skeleton_applies(problem, *s, counts, skeleton_c) {
+            if band_explanation::skeleton_applies(problem, *s, counts, skeleton_c, sp3_group) {
                 let sr = &catalogue.skeleton[*s];
                 list.push(Explanation {
                     kind: "skeleton".into(),

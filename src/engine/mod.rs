@@ -53,8 +53,8 @@ impl Default for SolveOptions {
         SolveOptions {
             tolerance_cm1: DEFAULT_TOLERANCE_CM1,
             max_candidates: 25,
-            enumeration_limit: 50_000,
-            near_miss_budget: 20_000,
+            enumeration_limit: 10_000,
+            near_miss_budget: 3_000,
         }
     }
 }
@@ -126,7 +126,7 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
     let mut enumeration_truncated = false;
     if formula_ok {
         let allowed = problem.allowed_groups();
-        enumerate::walk(&problem, &allowed, |counts, skeleton_c| {
+        enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
             if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
                 if found.len() >= options.enumeration_limit {
                     enumeration_truncated = true;
@@ -137,21 +137,19 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
             Flow::Continue
         });
     }
-    let mut scored: Vec<(f64, Vec<ScoreTerm>, Vec<u32>, u32)> = found
+    let parts = score::group_parts(&problem, ms_e, molecular_nominal);
+    let mut scored: Vec<(f64, Vec<u32>, u32)> = found
         .into_iter()
-        .map(|(counts, sk)| {
-            let (s, terms) = score::score(&problem, &counts, sk, ms_e, molecular_nominal);
-            (s, terms, counts, sk)
-        })
+        .map(|(counts, sk)| (score::score(&problem, &counts, sk, &parts), counts, sk))
         .collect();
     scored.sort_by(|a, b| {
         b.0.total_cmp(&a.0)
-            .then_with(|| a.2.iter().sum::<u32>().cmp(&b.2.iter().sum::<u32>()))
-            .then_with(|| b.2.cmp(&a.2))
+            .then_with(|| a.1.iter().sum::<u32>().cmp(&b.1.iter().sum::<u32>()))
+            .then_with(|| b.1.cmp(&a.1))
     });
     let n_consistent = scored.len();
     let mut in_some_candidate = vec![false; problem.groups.len()];
-    for (_, _, counts, _) in &scored {
+    for (_, counts, _) in &scored {
         for (i, &n) in counts.iter().enumerate() {
             if n > 0 {
                 in_some_candidate[i] = true;
@@ -161,13 +159,14 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
     let ranked: Vec<(Vec<u32>, u32)> = scored
         .iter()
         .take(5)
-        .map(|(_, _, c, s)| (c.clone(), *s))
+        .map(|(_, c, s)| (c.clone(), *s))
         .collect();
     let candidates: Vec<Candidate> = scored
         .into_iter()
         .take(options.max_candidates)
         .enumerate()
-        .map(|(i, (s, terms, counts, sk))| {
+        .map(|(i, (s, counts, sk))| {
+            let terms = score::terms(&problem, &counts, sk, ms_e, molecular_nominal);
             explain::candidate(
                 &problem,
                 &counts,
@@ -193,7 +192,7 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
             budget -= 1;
             let failures = evaluate::evaluate(&problem, counts, sk, true);
             if failures.len() == 1 {
-                let (s, _) = score::score(&problem, counts, sk, ms_e, molecular_nominal);
+                let s = score::score(&problem, counts, sk, &parts);
                 near.push((failures.len(), s, counts.to_vec(), failures));
             }
             Flow::Continue

@@ -26,6 +26,39 @@ pub enum EvidenceItem {
     MPlus2,
 }
 
+/// Most concrete groups a catalogue may have for the engine (bit sets are fixed-size).
+pub const MAX_CONCRETE_GROUPS: usize = 512;
+
+/// A set of concrete group indices (a fixed-size bit set, cheap to copy and intersect).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct GroupSet([u64; MAX_CONCRETE_GROUPS / 64]);
+
+impl GroupSet {
+    /// Adds group `i`.
+    pub fn insert(&mut self, i: usize) {
+        self.0[i / 64] |= 1 << (i % 64);
+    }
+
+    /// Removes group `i`.
+    pub fn remove(&mut self, i: usize) {
+        self.0[i / 64] &= !(1 << (i % 64));
+    }
+
+    /// True when the sets share a group.
+    pub fn intersects(&self, other: &GroupSet) -> bool {
+        self.0.iter().zip(&other.0).any(|(a, b)| a & b != 0)
+    }
+
+    /// The set of `items`.
+    pub fn of(items: impl IntoIterator<Item = usize>) -> GroupSet {
+        let mut s = GroupSet::default();
+        for i in items {
+            s.insert(i);
+        }
+        s
+    }
+}
+
 /// A concrete group with its numbers pulled out.
 #[derive(Clone, Debug)]
 pub struct GroupData<'c> {
@@ -91,6 +124,14 @@ pub struct Problem<'c> {
     /// Per skeleton rule: concrete groups that satisfy `needs_any`, and whether
     /// `sp3_carbon` is among its needs.
     pub skeleton_needs: Vec<(Vec<usize>, bool)>,
+    /// Per concrete group: `excludes` as a set.
+    pub exclude_sets: Vec<GroupSet>,
+    /// Per concrete group: `requires` as a set.
+    pub require_sets: Vec<GroupSet>,
+    /// Per active band: when the band is demanded and nothing but groups can explain it
+    /// (no artefact, no sp3 skeleton rule), the groups that can (directly, through a
+    /// pattern, or as the needs of a skeleton rule); the enumeration prunes with it.
+    pub band_needs: Vec<Option<GroupSet>>,
 }
 
 impl<'c> Problem<'c> {
@@ -142,11 +183,14 @@ impl<'c> Problem<'c> {
             .as_ref()
             .and_then(super::constraints::dbe::whole_dbe);
 
+        // Beyond MAX_CONCRETE_GROUPS the bit sets cannot count; the shipped catalogue holds
+        // well under a hundred, and `rules check` keeps a lab's own catalogue in view.
         let concrete: Vec<(usize, &Group)> = catalogue
             .groups
             .iter()
             .enumerate()
             .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
+            .take(MAX_CONCRETE_GROUPS)
             .collect();
         let groups: Vec<GroupData> = concrete
             .iter()
@@ -216,7 +260,7 @@ impl<'c> Problem<'c> {
                 }
             })
             .collect();
-        let skeleton_needs = catalogue
+        let skeleton_needs: Vec<(Vec<usize>, bool)> = catalogue
             .skeleton
             .iter()
             .map(|s| {
@@ -227,16 +271,43 @@ impl<'c> Problem<'c> {
                 (list, sp3)
             })
             .collect();
-        let explainers = bands
+        let positions: Vec<f64> = bands.iter().map(|(_, b)| b.band.at).collect();
+        let explainers: Vec<band_explanation::BandExplainers> = bands
             .iter()
             .map(|(_, b)| {
                 band_explanation::explainers_of(
                     &b.band,
+                    &positions,
                     catalogue,
                     &groups,
                     technique,
                     options.tolerance_cm1,
                 )
+            })
+            .collect();
+        let exclude_sets = excludes
+            .iter()
+            .map(|e| GroupSet::of(e.iter().copied()))
+            .collect();
+        let require_sets = requires
+            .iter()
+            .map(|r| GroupSet::of(r.iter().copied()))
+            .collect();
+        let band_needs = explainers
+            .iter()
+            .map(|ex: &band_explanation::BandExplainers| {
+                let free = !ex.artefacts.is_empty()
+                    || ex.skeleton.iter().any(|(si, _)| skeleton_needs[*si].1);
+                (ex.demanded && !free).then(|| {
+                    let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
+                    for (_, gs, _) in &ex.patterns {
+                        gs.iter().for_each(|&g| set.insert(g));
+                    }
+                    for (si, _) in &ex.skeleton {
+                        skeleton_needs[*si].0.iter().for_each(|&g| set.insert(g));
+                    }
+                    set
+                })
             })
             .collect();
         Problem {
@@ -257,6 +328,9 @@ impl<'c> Problem<'c> {
             excludes,
             requires,
             skeleton_needs,
+            exclude_sets,
+            require_sets,
+            band_needs,
         }
     }
 

@@ -222,6 +222,41 @@ fn the_enumeration_agrees_with_the_integer_programme() {
     }
 }
 
+#[test]
+fn pruning_the_walk_loses_no_candidate() {
+    // The pruned walk must accept exactly the combinations the full walk accepts.
+    let cat = small_catalogue();
+    let cases = [
+        "formula: C3H6O\nir:\n  bands:\n    - { at: 2965, strength: medium }\n    - { at: 1715, strength: strong }\n",
+        "formula: C8H8O2\nir:\n  bands:\n    - { at: 3000, strength: strong, shape: broad }\n    - { at: 1705, strength: strong }\n    - { at: 1600, strength: medium }\n",
+        "formula: C9H9N\nir:\n  bands:\n    - { at: 3060, strength: medium }\n    - { at: 2240, strength: medium }\n    - { at: 1600, strength: medium }\n",
+        "formula: C6H12O2\n",
+    ];
+    for text in cases {
+        let c = case(text);
+        let options = SolveOptions::default();
+        let problem = Problem::new(&c, &cat, &options, &BTreeSet::new());
+        let allowed = problem.allowed_groups();
+        let mut full = Vec::new();
+        let mut pruned = Vec::new();
+        let leaves_full = enumerate::walk(&problem, &allowed, |counts, sk| {
+            if evaluate::evaluate(&problem, counts, sk, false).is_empty() {
+                full.push(counts.to_vec());
+            }
+            Flow::Continue
+        });
+        let leaves_pruned = enumerate::walk_pruned(&problem, &allowed, |counts, sk| {
+            if evaluate::evaluate(&problem, counts, sk, false).is_empty() {
+                pruned.push(counts.to_vec());
+            }
+            Flow::Continue
+        });
+        assert_eq!(full, pruned, "{text}");
+        assert!(leaves_pruned <= leaves_full);
+        assert!(!full.is_empty(), "{text}");
+    }
+}
+
 // ---------------------------------------------------------------- properties
 
 /// A generated molecule: group counts (by testkit id), skeleton carbons, its formula and

@@ -19,6 +19,9 @@ use crate::rules::{Catalogue, ExpectedShape, Technique};
 /// Width above which a sharp artefact is read as a forest of weak lines, cm⁻¹.
 pub const LINE_FOREST_CM1: f64 = 150.0;
 
+/// Observed bands inside a line-forest artefact's range that show the forest is there.
+pub const FOREST_MIN_BANDS: usize = 4;
+
 /// Everything that could explain one observed band, found once per band.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct BandExplainers {
@@ -42,6 +45,7 @@ pub fn is_demanded(band: &Band) -> bool {
 /// Finds every rule that can explain `band`.
 pub fn explainers_of(
     band: &Band,
+    all_positions: &[f64],
     catalogue: &Catalogue,
     groups: &[GroupData<'_>],
     technique: Option<Technique>,
@@ -61,8 +65,18 @@ pub fn explainers_of(
         // A sharp artefact spread over more than LINE_FOREST_CM1 (water-vapour lines) is a
         // forest of narrow lines: it may excuse weak and medium bands, never a strong one,
         // or a strong carbonyl could be waved away as water vapour.
+        // A medium band is excused by a forest only when the band list shows the forest
+        // (at least FOREST_MIN_BANDS observed bands inside its range): an isolated
+        // medium band such as a free O–H near 3650 is not water vapour.
         let forest = a.shape == ExpectedShape::Sharp && a.range.hi - a.range.lo > LINE_FOREST_CM1;
-        let strength_ok = !(forest && band.strength == Strength::Strong);
+        let forest_seen = all_positions
+            .iter()
+            .filter(|at| a.range.contains_within(**at, tolerance))
+            .count()
+            >= FOREST_MIN_BANDS;
+        let strength_ok = !forest
+            || band.strength == Strength::Weak
+            || (band.strength == Strength::Medium && forest_seen);
         if technique_ok && shape_ok && strength_ok && a.range.contains_within(band.at, tolerance) {
             let half = (a.range.hi - a.range.lo) / 2.0;
             let q = 1.0 - (band.at - a.range.centre()).abs() / (half + tolerance);
@@ -78,6 +92,11 @@ pub fn explainers_of(
         }
     }
     for (si, s) in catalogue.skeleton.iter().enumerate() {
+        // Skeleton rules are C–H stretches and bends: never broad (common practice),
+        // whatever shape the rule leaves open, so a broad O–H is never taken for C–H.
+        if band.shape == Some(crate::ir::Shape::Broad) {
+            continue;
+        }
         if let Some(q) = explains(band, &s.band, technique, tolerance) {
             out.skeleton.push((si, q));
         }
@@ -110,16 +129,25 @@ pub struct HydrogenNeeds {
     pub h_on_groups: Option<Vec<usize>>,
 }
 
-/// Whether skeleton rule `si` applies to the candidate.
-pub fn skeleton_applies(problem: &Problem<'_>, si: usize, counts: &[u32], skeleton_c: u32) -> bool {
+/// True when a group of the candidate holds a saturated C–H of its own.
+pub fn has_sp3_group(problem: &Problem<'_>, counts: &[u32]) -> bool {
+    counts
+        .iter()
+        .zip(&problem.groups)
+        .any(|(n, g)| *n > 0 && g.sp3_ch)
+}
+
+/// Whether skeleton rule `si` applies to the candidate (`sp3_group`: see
+/// [`has_sp3_group`], computed once per candidate).
+pub fn skeleton_applies(
+    problem: &Problem<'_>,
+    si: usize,
+    counts: &[u32],
+    skeleton_c: u32,
+    sp3_group: bool,
+) -> bool {
     let (needs, sp3) = &problem.skeleton_needs[si];
-    (*sp3
-        && (skeleton_c > 0
-            || counts
-                .iter()
-                .zip(&problem.groups)
-                .any(|(n, g)| *n > 0 && g.sp3_ch)))
-        || needs.iter().any(|&j| counts[j] > 0)
+    (*sp3 && (skeleton_c > 0 || sp3_group)) || needs.iter().any(|&j| counts[j] > 0)
 }
 
 /// The hydrogen a skeleton rule needs: `Some(true)` an sp3 C–H (the rule names
@@ -151,6 +179,7 @@ pub fn check(
 ) -> (Vec<usize>, HydrogenNeeds) {
     let mut unexplained = Vec::new();
     let mut needs = HydrogenNeeds::default();
+    let sp3_group = has_sp3_group(problem, counts);
     for (bi, ex) in problem.explainers.iter().enumerate() {
         if !ex.demanded || !ex.artefacts.is_empty() {
             continue;
@@ -167,7 +196,7 @@ pub fn check(
             .skeleton
             .iter()
             .map(|(si, _)| *si)
-            .filter(|&si| skeleton_applies(problem, si, counts, skeleton_c))
+            .filter(|&si| skeleton_applies(problem, si, counts, skeleton_c, sp3_group))
             .collect();
         if applicable.is_empty() {
             unexplained.push(bi);

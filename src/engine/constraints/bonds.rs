@@ -29,6 +29,7 @@ use super::band_explanation::HydrogenNeeds;
 pub fn check(
     problem: &Problem<'_>,
     counts: &[u32],
+    present: &[usize],
     skeleton_c: u32,
     needs: &HydrogenNeeds,
 ) -> Result<(), String> {
@@ -37,7 +38,7 @@ pub fn check(
     let mut group_nodes = 0u64;
     let mut carbon_bearing = u64::from(skeleton_c);
     let mut sp3_group_h = false;
-    for (g, &n) in problem.groups.iter().zip(counts) {
+    for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
         if n == 0 {
             continue;
         }
@@ -134,7 +135,7 @@ pub fn check(
         ));
     }
     // 4. Distinct partners per group instance.
-    for (g, &n) in problem.groups.iter().zip(counts) {
+    for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
         if n == 0 || !g.has_atoms {
             continue;
         }

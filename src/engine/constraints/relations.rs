@@ -3,13 +3,11 @@
 
 use super::super::model::Problem;
 
-/// Checks the relations; returns each violation in words.
-pub fn check(problem: &Problem<'_>, counts: &[u32]) -> Vec<String> {
+/// Checks the relations (`present`: the indices with a non-zero count); returns each
+/// violation in words.
+pub fn check(problem: &Problem<'_>, counts: &[u32], present: &[usize]) -> Vec<String> {
     let mut out = Vec::new();
-    for (i, &n) in counts.iter().enumerate() {
-        if n == 0 {
-            continue;
-        }
+    for &i in present {
         let g = problem.groups[i].group;
         for &j in &problem.excludes[i] {
             if j > i && counts[j] > 0 {
