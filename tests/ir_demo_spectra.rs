@@ -249,12 +249,14 @@ fn quiddity_bands_text_report_with_filters() {
         .unwrap();
     assert_eq!(out.status.code(), Some(0));
     let text = String::from_utf8(out.stdout).unwrap();
-    assert!(text.contains("format      JCAMP-DX 4.24"), "{text}");
-    assert!(text.contains("resolution  4"), "{text}");
-    assert!(
-        text.contains("points      7201, 400.0–4000.0 cm-1"),
-        "{text}"
-    );
+    let field = |key: &str, value: &str| {
+        text.lines()
+            .any(|l| l.starts_with(key) && l[key.len()..].trim_start().starts_with(value))
+    };
+    assert!(field("format", "JCAMP-DX 4.24"), "{text}");
+    assert!(field("resolution", "4"), "{text}");
+    assert!(field("points", "7201, 400.0–4000.0 cm-1"), "{text}");
+    assert!(field("title", "LAB-IR-0102"), "{text}");
     let rows: Vec<&str> = text
         .lines()
         .filter(|l| {

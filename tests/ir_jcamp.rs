@@ -294,13 +294,13 @@ fn binary_input_names_the_first_offending_byte() {
     bytes[offset] = 0;
     assert_eq!(
         first_error(&bytes),
-        "error: bad.jdx:3:5: binary data (byte 0x00); expected a JCAMP-DX text file"
+        "error: bad.jdx:3:5: binary data (byte 0x00); expected a text spectrum file (JCAMP-DX or two-column text)"
     );
     let mut bytes = GOOD.as_bytes().to_vec();
     bytes[offset] = 0xff;
     assert_eq!(
         first_error(&bytes),
-        "error: bad.jdx:3:5: invalid UTF-8; expected a JCAMP-DX text file (printable ASCII)"
+        "error: bad.jdx:3:5: invalid UTF-8; expected a text spectrum file (JCAMP-DX is printable ASCII)"
     );
 }
 

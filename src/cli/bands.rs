@@ -66,13 +66,13 @@ fn parse_region(text: &str) -> Result<(f64, f64), String> {
 struct BandView {
     at: f64,
     strength: Strength,
-    #[serde(skip_serializing_if = "Option::is_none")]
+    /// Always present (null when the width is unknown, as for a peak table), so scripts
+    /// can rely on the contract's three keys.
     shape: Option<crate::ir::Shape>,
     kind: BandKind,
     height: f64,
     relative_height: f64,
     prominence: f64,
-    #[serde(skip_serializing_if = "Option::is_none")]
     fwhm: Option<f64>,
 }
 
@@ -156,34 +156,51 @@ pub fn run(args: &BandsArgs, out: &mut dyn Write) -> CommandResult {
 /// The human-readable report: header summary, notes, aligned band table.
 fn write_text(out: &mut dyn Write, origin: &str, picked: &PickedSpectrum) -> std::io::Result<()> {
     let h = &picked.header;
-    writeln!(out, "file        {origin}")?;
-    writeln!(out, "format      {}", h.format)?;
+    let mut rows: Vec<(String, String)> = vec![
+        ("file".to_owned(), origin.to_owned()),
+        ("format".to_owned(), h.format.clone()),
+    ];
     if let Some(title) = &h.title {
-        writeln!(out, "title       {title}")?;
+        rows.push(("title".to_owned(), title.clone()));
     }
     if let Some(data_type) = &h.data_type {
-        writeln!(out, "data type   {data_type}")?;
+        rows.push(("data type".to_owned(), data_type.clone()));
     }
-    for (label, value) in &h.fields {
-        writeln!(out, "{:<11} {value}", label.to_lowercase())?;
+    for field in &h.fields {
+        rows.push((field.label.to_lowercase(), field.value.clone()));
     }
     if let Some(resolution) = &h.resolution {
-        writeln!(out, "resolution  {resolution}")?;
+        rows.push(("resolution".to_owned(), resolution.clone()));
     }
-    write!(out, "points      {}", h.n_points)?;
+    let mut points = h.n_points.to_string();
     if let Some((lo, hi)) = h.range_cm1 {
-        write!(out, ", {lo:.1}–{hi:.1} cm-1")?;
+        points.push_str(&format!(", {lo:.1}–{hi:.1} cm-1"));
     }
     if let Some(stats) = &picked.stats {
-        write!(out, ", spacing {:.3} cm-1", stats.spacing_cm1)?;
+        points.push_str(&format!(", spacing {:.3} cm-1", stats.spacing_cm1));
     }
-    writeln!(out)?;
-    writeln!(out, "units       x {}, y {}", h.x_units, h.y_units)?;
+    rows.push(("points".to_owned(), points));
+    rows.push((
+        "units".to_owned(),
+        format!("x {}, y {}", h.x_units, h.y_units),
+    ));
     if let Some(stats) = &picked.stats {
-        writeln!(out, "noise       {:.2e} absorbance (robust σ)", stats.noise)?;
+        rows.push((
+            "noise".to_owned(),
+            format!("{:.2e} absorbance (robust σ)", stats.noise),
+        ));
     }
     for note in &picked.notes {
-        writeln!(out, "note        {note}")?;
+        rows.push(("note".to_owned(), note.clone()));
+    }
+    let width = rows
+        .iter()
+        .map(|(k, _)| k.chars().count())
+        .max()
+        .unwrap_or(0)
+        .max(10);
+    for (key, value) in &rows {
+        writeln!(out, "{key:<width$}  {value}")?;
     }
     writeln!(out)?;
     if picked.bands.is_empty() {

@@ -7,7 +7,8 @@
 //! header   = any line before the first data line that is not two numbers
 //! data-line= number delim number [ delim *text ]      ; further columns ignored
 //! delim    = "," | TAB | ";" | 1*" "                    ; detected once for the file
-//! number   = decimal with "." as the decimal point, optional exponent
+//! number   = decimal with "." (or, unless the delimiter is a comma, ",") as the decimal
+//!            point, optional exponent
 //! ```
 //! Which column is the wavenumber: the one that is strictly monotonic. When both are, the
 //! header decides (a column named like `cm-1`, `wavenumber`, `µm`, `wavelength`), else the
@@ -143,12 +144,19 @@ fn is_comment(line: &str) -> bool {
     t.starts_with('#') || t.starts_with('%') || t.starts_with("//")
 }
 
+/// A decimal number; a decimal comma is accepted when the delimiter is not a comma (a
+/// field with one comma and no point, as European exports with semicolons or tabs write).
 fn number(field: &str) -> Option<f64> {
-    field
-        .trim_matches('"')
-        .parse::<f64>()
-        .ok()
-        .filter(|v| v.is_finite())
+    let field = field.trim_matches('"');
+    match field.parse::<f64>() {
+        Ok(v) => Some(v).filter(|v| v.is_finite()),
+        Err(_) if field.matches(',').count() == 1 && !field.contains('.') => field
+            .replace(',', ".")
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite()),
+        Err(_) => None,
+    }
 }
 
 fn is_nan_word(field: &str) -> bool {

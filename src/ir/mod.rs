@@ -26,7 +26,9 @@ pub mod synth;
 
 pub use band::{Band, Shape, Strength};
 pub use pick::{BandKind, PickParams, PickStats, PickedBand};
-pub use spectrum::{HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits};
+pub use spectrum::{
+    HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits,
+};
 
 use crate::diag::Diagnostic;
 use preprocess::AlsParams;
@@ -73,7 +75,8 @@ pub struct PickedSpectrum {
 }
 
 impl PickedSpectrum {
-    /// The bands in the shared form that case files and the engine use.
+    /// The bands in the shared form that case files and the engine use (positions rounded
+    /// to 0.1 cm⁻¹; shape absent when the width is unknown, as for a peak table).
     pub fn bands(&self) -> Vec<Band> {
         self.bands
             .iter()
@@ -260,4 +263,31 @@ pub fn bands_from_file_contents(
         bands,
         stats,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn kinds_are_told_apart_by_their_first_meaningful_line() {
+        assert_eq!(detect_kind("$$ note\n\n##TITLE=a\n"), FileKind::Jcamp);
+        assert_eq!(detect_kind("junk\n##TITLE=a\n"), FileKind::Jcamp);
+        assert_eq!(detect_kind("# comment\n4000,0.1\n"), FileKind::Columns);
+        assert_eq!(detect_kind(""), FileKind::Columns);
+    }
+
+    #[test]
+    fn control_characters_are_binary_input_with_their_place() {
+        let errors = bands_from_file_contents(
+            b"4000,0.1\n39\x0199,0.2\n",
+            "x.csv",
+            &PickOptions::default(),
+        )
+        .unwrap_err();
+        assert_eq!(
+            errors[0].to_string(),
+            "error: x.csv:2:3: binary data (byte 0x01); expected a text spectrum file (JCAMP-DX or two-column text)"
+        );
+    }
 }

@@ -356,6 +356,7 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
 
     let mut bands: Vec<PickedBand> = Vec::new();
     let mut peak_indices = Vec::new();
+    let mut peak_widths: Vec<f64> = Vec::new();
     for m in &maxima {
         let i = m.index;
         let (a, b, c) = (smooth[i - 1], smooth[i], smooth[i + 1]);
@@ -375,7 +376,9 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
             at = top_at;
             height = top_height;
         }
-        let level = height - m.prominence / 2.0;
+        // Half prominence below the highest sample, the point the prominence is measured
+        // from (the fitted top can differ slightly and would shift the level).
+        let level = b - m.prominence / 2.0;
         let left = crossing(&smooth, i, m.left_base, level);
         let right = crossing(&smooth, i, m.right_base, level);
         let centre_index = (at - x[0]) / spacing;
@@ -388,6 +391,7 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         }
         .filter(|w| *w > 0.0);
         peak_indices.push(i);
+        peak_widths.push(fwhm.unwrap_or(0.0));
         bands.push(PickedBand {
             at,
             height,
@@ -441,10 +445,18 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
                 if distance_to_peak < 0.5 * half_points.max(d_window as f64 / 2.0) {
                     continue;
                 }
-                if peak_indices
-                    .iter()
-                    .any(|&p| (p as f64 - j as f64).abs() < (d_window as f64 / 2.0).max(2.0))
-                {
+                // Another picked maximum explains the derivative minimum within its own
+                // core: three quarters of its width (at least half the derivative window).
+                // The host band's core was excluded above.
+                let explained = peak_indices.iter().zip(&peak_widths).any(|(&p, &w)| {
+                    let core = if p == m.index {
+                        (d_window as f64 / 2.0).max(2.0)
+                    } else {
+                        (0.75 * w / spacing).max(d_window as f64 / 2.0).max(2.0)
+                    };
+                    (p as f64 - j as f64).abs() < core
+                });
+                if explained {
                     continue;
                 }
                 if smooth[j] < min_prominence {

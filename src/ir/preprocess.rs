@@ -171,6 +171,35 @@ impl Default for AlsParams {
     }
 }
 
+/// The asymmetric least squares fit itself (Eilers & Boelens 2005) on evenly spaced points:
+/// starting from unit weights, solve the Whittaker smoother with second differences and
+/// penalty `lambda`, give points above the fit weight `asymmetry` and the others
+/// `1 − asymmetry`, and repeat until the weights stop changing or `iterations` rounds.
+pub fn als_fit(y: &[f64], lambda: f64, asymmetry: f64, iterations: usize) -> Vec<f64> {
+    let m = y.len();
+    let mut w = vec![1.0; m];
+    let mut z = y.to_vec();
+    for _ in 0..iterations.max(1) {
+        z = whittaker_solve(y, &w, lambda);
+        let mut changed = false;
+        for i in 0..m {
+            let new = if y[i] > z[i] {
+                asymmetry
+            } else {
+                1.0 - asymmetry
+            };
+            if new != w[i] {
+                changed = true;
+                w[i] = new;
+            }
+        }
+        if !changed {
+            break;
+        }
+    }
+    z
+}
+
 /// Asymmetric least squares baseline of `y` on the evenly spaced ascending grid `x`
 /// (Eilers & Boelens 2005, "Baseline correction with asymmetric least squares
 /// smoothing"). Bands are maxima; the baseline runs under them.
@@ -192,26 +221,7 @@ pub fn als_baseline(x: &[f64], y: &[f64], params: &AlsParams) -> Vec<f64> {
     let m = by.len();
     let coarse_step = step * per_bin as f64;
     let lambda = (params.stiffness_cm1 / coarse_step).powi(4);
-    let mut w = vec![1.0; m];
-    let mut z = by.clone();
-    for _ in 0..params.iterations.max(1) {
-        z = whittaker_solve(&by, &w, lambda);
-        let mut changed = false;
-        for i in 0..m {
-            let new = if by[i] > z[i] {
-                params.asymmetry
-            } else {
-                1.0 - params.asymmetry
-            };
-            if new != w[i] {
-                changed = true;
-                w[i] = new;
-            }
-        }
-        if !changed {
-            break;
-        }
-    }
+    let z = als_fit(&by, lambda, params.asymmetry, params.iterations);
     if m < 2 {
         return vec![z[0]; n];
     }

@@ -104,6 +104,15 @@ pub struct Trace {
     pub ordinate: Ordinate,
 }
 
+/// One header field as the file writes it.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct HeaderField {
+    /// The label as written (e.g. `SPECTROMETER/DATA SYSTEM`).
+    pub label: String,
+    /// The value, continuation lines joined by spaces.
+    pub value: String,
+}
+
 /// A plain summary of the file's header for people and reports.
 #[derive(Clone, Debug, Default, PartialEq, Serialize)]
 pub struct HeaderSummary {
@@ -114,8 +123,8 @@ pub struct HeaderSummary {
     /// DATA TYPE, if given.
     pub data_type: Option<String>,
     /// Other header fields worth showing (instrument, sampling, date, origin…), in file
-    /// order, as `(label as written, value)`.
-    pub fields: Vec<(String, String)>,
+    /// order.
+    pub fields: Vec<HeaderField>,
     /// Spectral resolution as given in the file.
     pub resolution: Option<String>,
     /// Number of points (or peaks) read.

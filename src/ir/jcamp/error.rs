@@ -22,13 +22,13 @@ pub struct JcampError {
 #[derive(Clone, Debug, PartialEq, Error)]
 pub enum JcampErrorKind {
     /// A NUL byte or another control character: not a text file.
-    #[error("binary data (byte 0x{byte:02x}); expected a JCAMP-DX text file")]
+    #[error("binary data (byte 0x{byte:02x}); expected a text spectrum file (JCAMP-DX or two-column text)")]
     Binary {
         /// The offending byte.
         byte: u8,
     },
     /// Bytes that are not UTF-8 text.
-    #[error("invalid UTF-8; expected a JCAMP-DX text file (printable ASCII)")]
+    #[error("invalid UTF-8; expected a text spectrum file (JCAMP-DX is printable ASCII)")]
     InvalidUtf8,
     /// Nothing but white space and comments.
     #[error("empty file; expected ##TITLE= to start a JCAMP-DX block")]

@@ -64,8 +64,8 @@ pub use ldr::{Block, Ldr};
 pub use write::{write_jcamp, JcampForm, WriteSpectrum};
 
 use super::spectrum::{
-    guess_ordinate, normalise_transmittance, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum,
-    SpectrumData, Trace, XUnits,
+    guess_ordinate, normalise_transmittance, HeaderField, HeaderSummary, Ordinate, ReadOptions,
+    ReadSpectrum, SpectrumData, Trace, XUnits,
 };
 use asdf::{expand_ordinates, tokenize, Token};
 
@@ -214,7 +214,15 @@ fn decimals_of_first_value(line: &str) -> i32 {
     }
 }
 
-/// Decodes the data of `block`: the first XYDATA, XYPOINTS or PEAK TABLE record.
+/// Decodes the data of `block`: the first XYDATA, XYPOINTS or PEAK TABLE record, scaled
+/// by XFACTOR and YFACTOR, with NPOINTS checked.
+///
+/// Grammar:
+/// ```text
+/// data record = "##XYDATA=" "(X++(Y..Y))" 1*xyy-line
+///             | ( "##XYDATA=" | "##XYPOINTS=" ) "(XY..XY)" 1*xy-line
+///             | "##PEAK TABLE=" ( "(XY..XY)" | "(XYW..XYW)" ) 1*xy-line
+/// ```
 pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
     let Some(record) = block
         .records
@@ -281,8 +289,7 @@ pub fn decode_block(block: &Block) -> Result<BlockData, JcampError> {
             ));
         }
     }
-    if let Some(bad) = y.iter().chain(x.iter()).position(|v| !v.is_finite()) {
-        let _ = bad;
+    if y.iter().chain(x.iter()).any(|v| !v.is_finite()) {
         return Err(JcampError::on_line(
             record.line,
             JcampErrorKind::NotANumber {
@@ -571,7 +578,12 @@ fn is_infrared(data_type: &str) -> bool {
     t.contains("INFRARED") || t.split_whitespace().next() == Some("IR")
 }
 
-/// Reads the first infrared spectrum of a JCAMP-DX text.
+/// Reads the first infrared spectrum of a JCAMP-DX text: picks the block, decodes its
+/// data, converts X to wavenumbers and normalises the ordinates, and summarises the header.
+///
+/// Grammar: `file = 1*block` with `block = "##TITLE=" ... "##END="` (see the module
+/// documentation); the block read is the first whose DATA TYPE contains INFRARED (or is
+/// IR…), else the first without a DATA TYPE, among blocks that hold data.
 pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, JcampError> {
     let blocks = read_blocks(src)?;
     let mut notes = Vec::new();
@@ -740,7 +752,10 @@ pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, J
         .iter()
         .filter(|r| SUMMARY_LABELS.contains(&r.label.as_str()))
         .filter(|r| !r.full_value().trim().is_empty())
-        .map(|r| (r.raw_label.clone(), r.full_value()))
+        .map(|r| HeaderField {
+            label: r.raw_label.clone(),
+            value: r.full_value(),
+        })
         .collect();
     let header = HeaderSummary {
         format: match version {
