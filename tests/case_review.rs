@@ -33,11 +33,7 @@ fn write_record(case: &Path) {
         &embedded_catalogue().unwrap(),
         &SolveOptions::default(),
     );
-    let record = Record::new(
-        &outcome,
-        loaded.inputs.clone(),
-        SolveOptions::default().max_candidates,
-    );
+    let record = Record::new(&outcome, loaded.inputs.clone(), &SolveOptions::default());
     std::fs::write(record_path(case), record.to_json()).unwrap();
 }
 
@@ -191,7 +187,7 @@ fn named_files_must_stay_inside_the_case_tree() {
     write("../outside.jdx");
     let f = load_case(&case, &LoadOptions::default()).unwrap_err();
     assert!(f.diagnostics[0].to_string().ends_with(
-        "c.yaml:3:3: ir.spectrum: \"../outside.jdx\": the path leaves the case file's directory tree"
+        "c.yaml:3:13: ir.spectrum: \"../outside.jdx\": the path leaves the case file's directory tree"
     ), "{}", f.diagnostics[0]);
     assert!(load_case(
         &case,

@@ -149,7 +149,7 @@ fn spectrum_files_are_listed_for_the_caller_and_required_for_validation() {
     let d = first_error(src);
     assert_eq!(
         d.to_string(),
-        "error: t.yaml:3:3: ir.spectrum: the spectrum file \"s/a.jdx\" was not read"
+        "error: t.yaml:3:13: ir.spectrum: the spectrum file \"s/a.jdx\" was not read"
     );
 }
 
@@ -201,7 +201,7 @@ fn metadata_blocks_are_checked() {
     let d = first_error(&with("sample:\n  received: 2026-02-30\n"));
     assert_eq!(
         d.to_string(),
-        "error: t.yaml:14:3: sample.received: date \"2026-02-30\" is not a calendar date written YYYY-MM-DD"
+        "error: t.yaml:14:13: sample.received: date \"2026-02-30\" is not a calendar date written YYYY-MM-DD"
     );
     let d = first_error(&with("review:\n  verdict: agreeed\n"));
     assert_eq!(d.help.as_deref(), Some("did you mean \"agreed\"?"));

@@ -5,7 +5,7 @@
 use super::Failure;
 use crate::case::digest::sha256_hex;
 use crate::case::paths::{check_written_path, is_inside};
-use crate::case::yaml::{locate, KeyPath};
+use crate::case::yaml::{locate_value, KeyPath};
 use crate::case::{self, Case, ReferencedFile};
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
@@ -113,7 +113,7 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
 fn place_spectrum(d: Diagnostic, src: &str) -> Diagnostic {
     let path = KeyPath::key("ir").with_key("spectrum");
     let d = d.with_key_path(path.to_string());
-    match locate(src, &path) {
+    match locate_value(src, &path) {
         Some(offset) => d.at_offset(src, offset),
         None => d,
     }

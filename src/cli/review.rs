@@ -98,7 +98,7 @@ pub fn review_case(
         ..defaults
     };
     let outcome = casefile::solve(&loaded, &catalogue, &options);
-    let now = Record::new(&outcome, loaded.inputs.clone(), options.max_candidates);
+    let now = Record::new(&outcome, loaded.inputs.clone(), &options);
     let findings = compare(recorded.as_ref(), &now, &outcome, accepted);
     Ok(ReviewReport {
         record: recorded.map(|_| record_path),

@@ -104,7 +104,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     if args.record {
         let path = casefile::record_path(&args.case);
         refuse_input_overwrite(&loaded, &path)?;
-        let record = Record::new(&outcome, loaded.inputs.clone(), args.max);
+        let record = Record::new(&outcome, loaded.inputs.clone(), &options);
         write_atomic(&path, record.to_json().as_bytes(), true).map_err(|e| {
             Diagnostic::error(
                 path.display().to_string(),

@@ -4,7 +4,7 @@
 //! gives the same answer from the same bytes — and if not, exactly what moved.
 
 use super::view::{groups_text, round, InputFile, QUIDDITY_VERSION};
-use crate::engine::Outcome;
+use crate::engine::{Outcome, SolveOptions};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
@@ -33,6 +33,8 @@ pub struct Record {
     pub tolerance_cm1: f64,
     /// Candidates listed at most.
     pub max_candidates: usize,
+    /// Consistent combinations collected at most.
+    pub enumeration_limit: usize,
     /// Every input with its digest: the case file (by file name) first, then spectra as
     /// written in the case.
     pub inputs: Vec<InputFile>,
@@ -66,14 +68,15 @@ pub struct RecordedCandidate {
 
 impl Record {
     /// The record of `outcome` made from `inputs`.
-    pub fn new(outcome: &Outcome, inputs: Vec<InputFile>, max_candidates: usize) -> Record {
+    pub fn new(outcome: &Outcome, inputs: Vec<InputFile>, options: &SolveOptions) -> Record {
         Record {
             record_format: RECORD_FORMAT.to_owned(),
             case: outcome.case.clone(),
             quiddity_version: QUIDDITY_VERSION.to_owned(),
             rules_digest: outcome.rules_digest.clone(),
             tolerance_cm1: outcome.tolerance_cm1,
-            max_candidates,
+            max_candidates: options.max_candidates,
+            enumeration_limit: options.enumeration_limit,
             inputs,
             conclusion: RecordedConclusion {
                 n_consistent: outcome.n_consistent,
