@@ -215,3 +215,26 @@ fn named_files_must_stay_inside_the_case_tree() {
         );
     }
 }
+
+#[test]
+fn a_misspelt_accepted_group_is_bad_input_with_a_hint() {
+    let (_dir, case) = recorded_copy();
+    let text = std::fs::read_to_string(&case).unwrap();
+    std::fs::write(
+        &case,
+        text.replace("ketone_conjugated: 1 }", "ketone_conjugatd: 1 }"),
+    )
+    .unwrap();
+    let failure = review_case(&case, None, None, &LoadOptions::default()).unwrap_err();
+    let d = &failure.diagnostics[0];
+    assert!(
+        d.to_string().contains(
+            "conclusion.accepted.ketone_conjugatd: unknown group id \"ketone_conjugatd\""
+        ),
+        "{d}"
+    );
+    assert_eq!(
+        d.help.as_deref(),
+        Some("did you mean \"ketone_conjugated\"?")
+    );
+}

@@ -14,7 +14,9 @@ pub use model::*;
 pub use raw::{
     referenced_files, RawBand, RawCase, RawConclusion, RawIr, RawMs, RawReview, RawSample,
 };
-pub use validate::{is_iso_date, validate, validate_with_files, BAND_LIMITS_CM1, DEFAULT_PPM};
+pub use validate::{
+    check_group_ids, is_iso_date, validate, validate_with_files, BAND_LIMITS_CM1, DEFAULT_PPM,
+};
 
 use crate::diag::Diagnostic;
 

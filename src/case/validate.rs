@@ -452,3 +452,30 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
         spectrum,
     }
 }
+
+/// Checks the group ids of the analyst's accepted candidate against the catalogue (the
+/// case layer cannot know the catalogue while validating): an unknown id is an error with
+/// its place and a "did you mean" hint. `ring` (plain carbocyclic rings) is always known.
+pub fn check_group_ids(
+    case: &Case,
+    src: &str,
+    catalogue: &crate::rules::Catalogue,
+) -> Vec<Diagnostic> {
+    let mut ctx = Ctx {
+        src,
+        origin: &case.origin,
+        diagnostics: Vec::new(),
+    };
+    let Some(conclusion) = &case.conclusion else {
+        return Vec::new();
+    };
+    let mut known: Vec<&str> = catalogue.groups.iter().map(|g| g.id.as_str()).collect();
+    known.push("ring");
+    for id in conclusion.accepted.keys() {
+        if !known.contains(&id.as_str()) {
+            let path = KeyPath::key("conclusion").with_key("accepted").with_key(id);
+            ctx.bad_word(&path, "group id", id, &known);
+        }
+    }
+    ctx.diagnostics
+}

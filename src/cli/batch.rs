@@ -148,6 +148,10 @@ pub fn process_one(
             return row;
         }
     };
+    if let Err(f) = casefile::check_against_catalogue(&loaded, catalogue) {
+        row.error = Some(first_line(&f));
+        return row;
+    }
     let outcome = casefile::solve(&loaded, catalogue, solve);
     row.case = outcome.case.clone();
     row.top = outcome.candidates.first().map(|c| groups_text(&c.groups));

@@ -27,6 +27,8 @@ pub struct LoadOptions {
 pub struct LoadedCase {
     /// The case file as opened.
     pub path: PathBuf,
+    /// The case file's text.
+    pub src: String,
     /// The validated case.
     pub case: Case,
     /// Warnings found on the way.
@@ -103,6 +105,7 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
     }));
     Ok(LoadedCase {
         path: path.to_path_buf(),
+        src,
         case,
         warnings: diagnostics,
         inputs,
@@ -161,6 +164,16 @@ fn resolve(
         .into());
     }
     Ok(full)
+}
+
+/// Checks what of the case only the catalogue can check (the accepted candidate's group
+/// ids); errors end the command with exit 2.
+pub fn check_against_catalogue(loaded: &LoadedCase, catalogue: &Catalogue) -> Result<(), Failure> {
+    let diagnostics = case::check_group_ids(&loaded.case, &loaded.src, catalogue);
+    if diagnostics.iter().any(Diagnostic::is_error) {
+        return Err(diagnostics.into());
+    }
+    Ok(())
 }
 
 /// Solves a loaded case.

@@ -87,6 +87,7 @@ pub fn review_case(
         .into());
     }
     let catalogue = load_catalogue(rules)?;
+    casefile::check_against_catalogue(&loaded, &catalogue)?;
     let defaults = SolveOptions::default();
     let options = SolveOptions {
         tolerance_cm1: recorded

@@ -82,6 +82,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
         let _ = writeln!(err, "{}", d.render());
     }
     let catalogue = load_catalogue(args.rules.as_deref())?;
+    casefile::check_against_catalogue(&loaded, &catalogue)?;
     let options = SolveOptions {
         tolerance_cm1: args.tolerance,
         max_candidates: args.max,
