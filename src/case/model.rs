@@ -19,11 +19,13 @@ pub struct Place {
 }
 
 impl Place {
-    /// `origin:line:col` (1-based) or just the origin.
+    /// `origin:line:col` (1-based); without a position, the origin and the key path
+    /// (`spectra/a.jdx (picked band 3)`), or just the origin.
     pub fn display(&self) -> String {
         match self.position {
             Some(p) => format!("{}:{}:{}", self.origin, p.line + 1, p.column + 1),
-            None => self.origin.clone(),
+            None if self.key_path.is_empty() => self.origin.clone(),
+            None => format!("{} ({})", self.origin, self.key_path),
         }
     }
 }

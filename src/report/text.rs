@@ -208,6 +208,7 @@ pub fn render(v: &ReportView) -> String {
             for i in 0..v.band_table.ranks.len() {
                 let _ = write!(l, "  {:<width$}", cell_text(row, i));
             }
+            let _ = write!(l, "  from {}", row.place);
             line(&mut s, l.trim_end());
         }
         if let Some(first) = v.band_table.rows.first() {
