@@ -4,11 +4,13 @@
 use super::text::{cell_text, flat};
 use super::view::{groups_text, ReportView};
 
-/// Escapes free text for Markdown: one line, markup characters backslash-escaped.
+/// Escapes free text for Markdown: one line, inline markup characters backslash-escaped
+/// (emphasis, code, links, raw HTML, table pipes, entities, strike-through). Line-start
+/// markup (`#`, `-`, `1.`) needs no escape: every call site puts a prefix before the text.
 pub fn md(text: &str) -> String {
     let mut out = String::new();
     for c in flat(text).chars() {
-        if "\\`*_[]<>|#!{}()+-.&~".contains(c) {
+        if "\\`*_[]<>|&~".contains(c) {
             out.push('\\');
         }
         out.push(c);

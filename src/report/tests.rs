@@ -22,7 +22,7 @@ fn html_escaping_leaves_no_markup() {
 #[test]
 fn markdown_escaping_keeps_text_as_text() {
     assert_eq!(
-        markdown::md("a|b <i>*x*</i>\nnext"),
-        "a\\|b \\<i\\>\\*x\\*\\</i\\> next"
+        markdown::md("a|b <i>*x*</i>\nnext [l](u) &lt;"),
+        "a\\|b \\<i\\>\\*x\\*\\</i\\> next \\[l\\](u) \\&lt;"
     );
 }
