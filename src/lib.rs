@@ -15,3 +15,4 @@ pub mod ir;
 pub mod ms;
 pub mod report;
 pub mod rules;
+pub mod structure;

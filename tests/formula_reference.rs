@@ -131,11 +131,10 @@ fn dbe_matches_the_textbook_formula() {
 
 /// quiddity's aggregated peak at nominal mass M+k: (relative %, mass), 0 when absent.
 fn peak_at(formula: &Formula, k: u64) -> (f64, f64) {
-    let nominal = formula.nominal_mass() + k;
     aggregated_pattern(formula)
         .relative(0.0)
         .iter()
-        .find(|p| p.mz.round() as u64 == nominal)
+        .find(|p| (p.mz - formula.monoisotopic_mass()).round() as u64 == k)
         .map_or((0.0, 0.0), |p| (p.relative, p.mz))
 }
 
@@ -176,6 +175,67 @@ fn aggregated_patterns_match_isospecpy_within_its_abundance_differences() {
                 (relative - expected).abs() <= 0.02 * expected + 0.01,
                 "{} M+{k}: {relative} vs IsoSpecPy {expected}",
                 row.text("name")
+            );
+        }
+    }
+}
+
+/// `tests/reference/fine_table.tsv` (IsoSpecPy, see `make_fine_table.py`): every
+/// isotopologue down to 1e-4 of the most probable, unmerged.
+const FINE_TABLE: &str = include_str!("reference/fine_table.tsv");
+
+#[test]
+fn fine_structure_isotopologues_match_isospecpy() {
+    use quiddity::chem::isotopes::fine_structure_pattern;
+    let mut rows: Vec<(&str, f64, f64)> = Vec::new(); // formula, mass, relative
+    for line in FINE_TABLE.lines().filter(|l| !l.starts_with('#')).skip(1) {
+        let fields: Vec<&str> = line.split('\t').collect();
+        assert_eq!(fields.len(), 4, "{line}");
+        let number = |s: &str| s.parse::<f64>().unwrap_or_else(|e| panic!("{line}: {e}"));
+        rows.push((fields[1], number(fields[2]), number(fields[3])));
+    }
+    let formulas: std::collections::BTreeSet<&str> = rows.iter().map(|r| r.0).collect();
+    assert!(
+        formulas.len() >= 5 && rows.len() >= 50,
+        "reference table too small"
+    );
+    for text in formulas {
+        let formula = Formula::parse(text).expect("valid formula");
+        // R = 1e12: no two distinct isotopologues merge (closest pairs are ~0.1 mDa).
+        let ours = fine_structure_pattern(&formula, 1e12)
+            .expect("valid R")
+            .relative(0.0);
+        let reference: Vec<(f64, f64)> = rows
+            .iter()
+            .filter(|r| r.0 == text)
+            .map(|r| (r.1, r.2))
+            .collect();
+        // Every reference isotopologue is found at the same exact mass (IsoSpecPy's own
+        // mass table differs from AME2020 by up to 5e-7 u per Br: 2e-6 u); intensities
+        // differ by its own abundances (≈ 0.8 % per 13C): 4 % + 0.003.
+        for (mass, relative) in &reference {
+            let found = ours
+                .iter()
+                .min_by(|a, b| (a.mz - mass).abs().total_cmp(&(b.mz - mass).abs()))
+                .expect("peaks");
+            assert!(
+                (found.mz - mass).abs() < 2e-6,
+                "{text}: {mass} vs {}",
+                found.mz
+            );
+            assert!(
+                (found.relative - relative).abs() < 0.04 * relative + 0.003,
+                "{text} at {mass}: {} vs IsoSpecPy {relative}",
+                found.relative
+            );
+        }
+        // And quiddity lists nothing above the reference's threshold that it lacks.
+        for peak in ours.iter().filter(|p| p.relative >= 0.011) {
+            assert!(
+                reference.iter().any(|(m, _)| (m - peak.mz).abs() < 2e-6),
+                "{text}: {} ({}) missing from IsoSpecPy",
+                peak.mz,
+                peak.relative
             );
         }
     }

@@ -52,3 +52,14 @@ fn every_rules_file_is_embedded() {
         assert_eq!(&disk, text, "{name} differs from its embedded copy");
     }
 }
+
+#[test]
+fn developers_guide_names_every_rules_file() {
+    let guide = include_str!("../DEVELOPERS.md");
+    for (name, _) in EMBEDDED_FILES {
+        assert!(
+            guide.contains(name),
+            "DEVELOPERS.md does not mention rules/{name}"
+        );
+    }
+}

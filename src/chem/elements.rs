@@ -486,6 +486,18 @@ mod tests {
     }
 
     #[test]
+    fn valences_agree_with_composition() {
+        for e in ELEMENTS {
+            assert_eq!(
+                crate::chem::composition::standard_valence(e.symbol),
+                Some(u32::from(e.valence)),
+                "{}",
+                e.symbol
+            );
+        }
+    }
+
+    #[test]
     fn required_elements_are_present() {
         for s in [
             "H", "B", "C", "N", "O", "F", "Na", "Mg", "Si", "P", "S", "Cl", "K", "Ca", "Fe", "Cu",

@@ -224,7 +224,7 @@ pub enum FormulaErrorKind {
         symbol: String,
     },
     /// An isotope label naming no natural isotope.
-    #[error("{symbol} has no natural isotope of mass number {mass_number}")]
+    #[error("no natural isotope of {symbol} has mass number {mass_number}")]
     UnknownIsotope {
         /// Element symbol.
         symbol: String,
@@ -411,12 +411,14 @@ impl SeniorCheck {
 }
 
 /// The LEWIS check as quiddity implements it (octet rule bookkeeping, after Kind & Fiehn
-/// 2007, `from memory`): the species has an even number of electrons, so every electron
-/// can sit in a bond or lone pair, and DBE ≥ 0, so the atoms at their standard valences
-/// have enough bonds to complete their octets (duet for H).
+/// 2007, `from memory`), on the neutral molecule with these atoms (charge ignored, like
+/// the SENIOR rules, so the molecular ion M+. of a valid molecule passes and an
+/// even-electron ion such as [M+H]+ does not): the molecule has an even number of
+/// electrons, so every electron can sit in a bond or lone pair, and DBE ≥ 0, so the atoms
+/// at their standard valences have enough bonds to complete their octets (duet for H).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
 pub struct LewisCheck {
-    /// Total electrons of the species (Σ atomic numbers − charge).
+    /// Electrons of the neutral molecule (Σ atomic numbers).
     pub electron_count: i64,
     /// Even electron count.
     pub even_electrons: bool,
@@ -493,20 +495,34 @@ impl Formula {
         self.radical
     }
 
-    /// The same atoms with another charge (radical mark kept).
+    /// The same atoms with another charge (radical mark kept for an ion, dropped for a
+    /// neutral formula, which has no radical-ion notation).
     pub fn with_charge(&self, charge: i32) -> Formula {
         Formula {
             charge,
+            radical: self.radical && charge != 0,
+            atoms: self.atoms.clone(),
+        }
+    }
+
+    /// The same formula with the radical-ion mark set or cleared (ignored when neutral).
+    pub fn with_radical(&self, radical: bool) -> Formula {
+        Formula {
+            radical: radical && self.charge != 0,
             ..self.clone()
         }
     }
 
-    /// The same formula with the radical mark set or cleared.
-    pub fn with_radical(&self, radical: bool) -> Formula {
-        Formula {
-            radical,
-            ..self.clone()
+    /// Adds `count` atoms of `atom` in place (building formulas without text, e.g. when
+    /// enumerating candidates for a measured mass).
+    pub fn add_atom(&mut self, atom: Atom, count: u32) -> Result<(), FormulaArithmeticError> {
+        if count == 0 {
+            return Ok(());
         }
+        let held = u64::from(self.count(atom));
+        let total = checked_count(held + u64::from(count))?;
+        self.atoms.insert(atom, total);
+        Ok(())
     }
 
     /// The neutral molecule with these atoms.
@@ -535,10 +551,11 @@ impl Formula {
             let slot = atoms.entry(*atom).or_insert(0);
             *slot = checked_count(u64::from(*slot) + u64::from(*n))?;
         }
+        let charge = checked_charge(i64::from(self.charge) + i64::from(other.charge))?;
         Ok(Formula {
             atoms,
-            charge: checked_charge(i64::from(self.charge) + i64::from(other.charge))?,
-            radical: self.radical != other.radical,
+            charge,
+            radical: (self.radical != other.radical) && charge != 0,
         })
     }
 
@@ -561,10 +578,11 @@ impl Formula {
                 atoms.insert(*atom, held - n);
             }
         }
+        let charge = checked_charge(i64::from(self.charge) - i64::from(other.charge))?;
         Ok(Formula {
             atoms,
-            charge: checked_charge(i64::from(self.charge) - i64::from(other.charge))?,
-            radical: self.radical != other.radical,
+            charge,
+            radical: (self.radical != other.radical) && charge != 0,
         })
     }
 
@@ -684,10 +702,9 @@ impl Formula {
         }
     }
 
-    /// The LEWIS check on the species (charge included in the electron count); see
-    /// [`LewisCheck`].
+    /// The LEWIS check on the neutral molecule with these atoms; see [`LewisCheck`].
     pub fn lewis(&self) -> LewisCheck {
-        let electron_count = self.electron_count();
+        let electron_count = self.neutral().electron_count();
         LewisCheck {
             electron_count,
             even_electrons: electron_count % 2 == 0,
@@ -752,6 +769,13 @@ impl fmt::Display for Formula {
             write!(f, ".")?;
         }
         Ok(())
+    }
+}
+
+impl serde::Serialize for Formula {
+    /// As its Hill-order text, which [`Formula::parse`] reads back.
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_str(self)
     }
 }
 
@@ -1290,6 +1314,10 @@ mod tests {
         ];
         for (input, kind, offset) in table {
             assert_eq!(&err(input), &(kind.clone(), *offset), "{input:?}");
+            // Messages are lower case without a trailing period (diag convention).
+            let message = kind.to_string();
+            assert!(!message.starts_with(char::is_uppercase), "{message}");
+            assert!(!message.ends_with('.'), "{message}");
         }
     }
 
@@ -1368,6 +1396,36 @@ mod tests {
     }
 
     #[test]
+    fn building_without_text_matches_parsing() {
+        let mut built = Formula::new();
+        let carbon = Atom::from_symbol("C").expect("C");
+        let hydrogen = Atom::from_symbol("H").expect("H");
+        built.add_atom(carbon, 2).expect("fits");
+        built.add_atom(hydrogen, 6).expect("fits");
+        built.add_atom(carbon, 0).expect("fits");
+        assert_eq!(built, f("C2H6"));
+        assert_eq!(
+            built.add_atom(carbon, u32::MAX),
+            Err(FormulaArithmeticError::Overflow)
+        );
+        let from_counts = Formula::from_composition(&Composition::from_pairs([("C", 2), ("H", 6)]));
+        assert_eq!(from_counts, Some(f("C2H6")));
+        assert_eq!(
+            serde_json::to_string(&f("OHC2H5")).expect("json"),
+            "\"C2H6O\""
+        );
+    }
+
+    #[test]
+    fn radical_marks_vanish_on_neutral_results() {
+        let radical_cation = f("C6H6+.");
+        assert!(!radical_cation.with_charge(0).is_radical());
+        let neutral = radical_cation.minus(&f("H+")).expect("fits");
+        assert_eq!(neutral.charge(), 0);
+        assert_eq!(Formula::parse(&neutral.to_string()), Ok(neutral));
+    }
+
+    #[test]
     fn nitrogen_rule_senior_and_lewis() {
         // common practice: pyridine C5H5N has odd nominal mass 79 and one N.
         let pyridine = f("C5H5N").nitrogen_rule();
@@ -1383,6 +1441,12 @@ mod tests {
         // H6C would need DBE −1: fails LEWIS and SENIOR rule 3.
         assert!(!f("CH6").lewis().passes());
         assert!(!f("CH6").senior().connected);
+        // Both checks judge the neutral molecule: benzene's M+. passes, an even-electron
+        // [M+H]+ formula does not.
+        assert!(f("C6H6+.").lewis().passes());
+        assert!(f("C6H6+.").senior().passes());
+        assert!(!f("C5H6N+").lewis().passes());
+        assert!(!f("C5H6N+").senior().passes());
         // SENIOR rule 2: a lone carbon cannot satisfy its four valences.
         assert!(!f("C").senior().covers_max_valence);
         assert!(f("C6H6+.").is_odd_electron());

@@ -4,22 +4,24 @@
 //! Aggregated pattern: each element's single-atom distribution over mass numbers is a
 //! polynomial; the molecule's distribution is the product of those polynomials raised to
 //! the atom counts. Powers are taken by repeated squaring, and after every product the
-//! tails below `prune_below` × the largest coefficient are cut (they cannot grow back
-//! above that level relative to the peak by more than the tiny mass they carry). Each
-//! bin also carries Σ p·m so that its peak sits at the probability-weighted mean mass of
-//! the isotopologues it holds.
+//! tails below `prune_below` × the largest coefficient are cut, which keeps the vectors
+//! short and loses far less than 1e-9 of the probability for molecular formulas (tested).
+//! Each bin also carries Σ p·m so that its peak sits at the probability-weighted mean
+//! mass of the isotopologues it holds.
 //!
-//! Fine structure: each element's isotopologues are enumerated as a multinomial (counts
-//! of each minor isotope, the rest major) with a depth-first walk that skips any branch
-//! whose marginal probability — an upper bound on every completion — is below the
-//! cut-off. Elements are then combined as sparse products, skipping partial products that
-//! cannot reach the cut-off even with the most probable configuration of the elements
-//! still to come. Finally peaks closer than m/R (the full width at half maximum at
-//! resolving power R) are merged into their probability-weighted centroid.
+//! Fine structure: each element's isotopologues are a multinomial over its isotopes; they
+//! are generated best-first from the most probable configuration (found by hill climbing)
+//! by moving one atom between isotopes, down to the cut-off. Elements are then combined
+//! as sparse products, skipping partial products that cannot reach the cut-off even with
+//! the most probable configuration of the elements still to come. Finally peaks closer
+//! than m/R (the full width at half maximum at resolving power R) are merged into their
+//! probability-weighted centroid. The number of isotopologues kept is capped
+//! ([`MAX_ELEMENT_CONFIGURATIONS`], [`MAX_FINE_PEAKS`]); only formulas with hundreds of
+//! atoms of many-isotope elements (Sn, Hg, Se, Zn) reach the caps.
 //!
 //! Both report m/z (electron masses removed for ions, divided by |charge|), probabilities
 //! that sum to 1 over the retained peaks, and the probability retained before that
-//! normalisation (1 minus what pruning dropped).
+//! normalisation (1 minus what pruning and the caps dropped).
 
 use super::elements::ELECTRON_MASS;
 use super::formula::{Atom, Formula};
@@ -237,6 +239,15 @@ impl Distribution {
     }
 }
 
+/// Most isotopologues kept per element and for the whole molecule in a fine-structure
+/// pattern. Elements with many isotopes in large numbers (Sn, Hg, Se by the hundred)
+/// have astronomically many; the most probable ones are kept and the loss shows in
+/// [`IsotopePattern::retained_probability`].
+pub const MAX_FINE_PEAKS: usize = 200_000;
+
+/// Most configurations generated for one element (bounds the best-first queue too).
+pub const MAX_ELEMENT_CONFIGURATIONS: usize = 20_000;
+
 /// Fine-structure pattern at resolving power `resolving_power` (m/Δm, FWHM), keeping
 /// isotopologues down to [`DEFAULT_PRUNE_BELOW`] × the most probable one. `None` when the
 /// resolving power is not a positive finite number.
@@ -259,43 +270,24 @@ pub fn fine_structure_pattern_pruned(
     Some(IsotopePattern::from_masses(merged, formula.charge()))
 }
 
-/// Every isotopologue (mass, probability) with probability ≥ `prune_below` × the most
-/// probable one, unsorted.
+/// Isotopologues (mass, probability) with probability ≥ `prune_below` × the most probable
+/// one (at most [`MAX_FINE_PEAKS`], the most probable first), unsorted.
 fn isotopologues(formula: &Formula, prune_below: f64) -> Vec<Peak> {
     let mut fixed_mass = 0.0;
-    let mut per_element: Vec<Vec<Peak>> = Vec::new();
-    let mut modes: Vec<f64> = Vec::new();
-    let natural: Vec<(Atom, u32)> = formula
-        .atoms()
-        .filter(|(a, _)| a.mass_number().is_none())
-        .collect();
+    let mut elements: Vec<Multinomial> = Vec::new();
     for (atom, n) in formula.atoms() {
         if atom.mass_number().is_some() {
             fixed_mass += atom.monoisotopic_mass() * f64::from(n);
+        } else {
+            elements.push(Multinomial::new(atom, n));
         }
     }
-    // The most probable configuration of each element, to bound what the others may add.
-    for (atom, n) in &natural {
-        modes.push(Multinomial::new(*atom, *n).mode_probability());
-    }
+    // The molecule's most probable isotopologue combines each element's most probable
+    // configuration (the elements are independent).
+    let modes: Vec<f64> = elements.iter().map(|e| e.mode().1.exp()).collect();
     let best_total: f64 = modes.iter().product();
     let cut_total = best_total * prune_below;
-    for (k, (atom, n)) in natural.iter().enumerate() {
-        let others: f64 = modes
-            .iter()
-            .enumerate()
-            .filter(|(j, _)| *j != k)
-            .map(|(_, m)| m)
-            .product();
-        let cut = if others > 0.0 {
-            cut_total / others
-        } else {
-            0.0
-        };
-        per_element.push(Multinomial::new(*atom, *n).enumerate(cut));
-    }
-    // A partial product is kept only if, completed by the most probable configuration of
-    // every element still to come, it could reach the cut-off.
+    // remaining_best[k] = product of the modes of elements k.. .
     let mut remaining_best: Vec<f64> = vec![1.0; modes.len() + 1];
     for k in (0..modes.len()).rev() {
         remaining_best[k] = remaining_best[k + 1] * modes[k];
@@ -304,29 +296,61 @@ fn isotopologues(formula: &Formula, prune_below: f64) -> Vec<Peak> {
         mz: fixed_mass,
         probability: 1.0,
     }];
-    for (k, configs) in per_element.iter().enumerate() {
+    for (k, element) in elements.iter().enumerate() {
+        // A configuration of this element is useful only if, with the best of every other
+        // element, it reaches the cut-off.
+        let others = best_total / modes[k];
+        let configs = element.enumerate(cut_total / others, MAX_ELEMENT_CONFIGURATIONS);
+        // A partial product is kept only if, completed by the most probable configuration
+        // of every element still to come, it could reach the cut-off. The configurations
+        // come most probable first, so the inner loop stops at the first product below
+        // it; when the list outgrows twice the cap it is cut to the cap and the cut-off
+        // rises to the least probable survivor, which bounds the work.
         let bound_after = remaining_best[k + 1];
-        let mut next = Vec::with_capacity(partial.len() * configs.len().min(64));
+        let mut cut_now = cut_total;
+        let best_config = configs.first().map_or(0.0, |c| c.probability);
+        let mut next = Vec::new();
         for a in &partial {
-            for b in configs {
+            if a.probability * best_config * bound_after < cut_now {
+                continue;
+            }
+            for b in &configs {
                 let p = a.probability * b.probability;
-                if p * bound_after >= cut_total {
-                    next.push(Peak {
-                        mz: a.mz + b.mz,
-                        probability: p,
-                    });
+                if p * bound_after < cut_now {
+                    break;
                 }
+                next.push(Peak {
+                    mz: a.mz + b.mz,
+                    probability: p,
+                });
+            }
+            if next.len() >= 2 * MAX_FINE_PEAKS {
+                keep_most_probable(&mut next, MAX_FINE_PEAKS);
+                let least = next
+                    .iter()
+                    .map(|p| p.probability)
+                    .fold(f64::INFINITY, f64::min);
+                cut_now = cut_now.max(least * bound_after);
             }
         }
+        keep_most_probable(&mut next, MAX_FINE_PEAKS);
         partial = next;
     }
     partial
 }
 
+/// Truncates `peaks` to the `cap` most probable (order not kept).
+fn keep_most_probable(peaks: &mut Vec<Peak>, cap: usize) {
+    if peaks.len() > cap {
+        peaks.select_nth_unstable_by(cap, |a, b| b.probability.total_cmp(&a.probability));
+        peaks.truncate(cap);
+    }
+}
+
 /// Sorts by mass and merges neighbours closer than m/R, chaining (a peak joins the group
 /// when its gap to the previous peak is below the resolution width at its mass).
 fn merge_within_resolution(mut peaks: Vec<Peak>, resolving_power: f64) -> Vec<Peak> {
-    peaks.sort_by(|a, b| a.mz.total_cmp(&b.mz));
+    peaks.sort_unstable_by(|a, b| a.mz.total_cmp(&b.mz));
     let mut merged: Vec<Peak> = Vec::new();
     let mut last_mass = f64::NEG_INFINITY;
     for p in peaks {
@@ -345,28 +369,51 @@ fn merge_within_resolution(mut peaks: Vec<Peak>, resolving_power: f64) -> Vec<Pe
 }
 
 /// The isotopologues of `n` atoms of one natural element: a multinomial over its
-/// isotopes, isotopes ordered most abundant first.
+/// isotopes.
 struct Multinomial {
     n: u32,
-    isotopes: Vec<(f64, f64)>, // (mass, abundance), most abundant first
+    isotopes: Vec<(f64, f64)>, // (mass, abundance)
+}
+
+/// A configuration in the best-first queue, ordered by log-probability.
+struct Queued {
+    ln_p: f64,
+    counts: Vec<u32>,
+}
+
+impl PartialEq for Queued {
+    fn eq(&self, other: &Queued) -> bool {
+        self.ln_p.total_cmp(&other.ln_p).is_eq()
+    }
+}
+impl Eq for Queued {}
+impl PartialOrd for Queued {
+    fn partial_cmp(&self, other: &Queued) -> Option<std::cmp::Ordering> {
+        Some(self.cmp(other))
+    }
+}
+impl Ord for Queued {
+    fn cmp(&self, other: &Queued) -> std::cmp::Ordering {
+        self.ln_p.total_cmp(&other.ln_p)
+    }
 }
 
 impl Multinomial {
     fn new(atom: Atom, n: u32) -> Multinomial {
-        let mut isotopes: Vec<(f64, f64)> = atom
+        let isotopes = atom
             .element()
             .isotopes
             .iter()
             .map(|i| (i.mass, i.abundance))
             .collect();
-        isotopes.sort_by(|a, b| b.1.total_cmp(&a.1));
         Multinomial { n, isotopes }
     }
 
-    /// Probability of the most probable configuration. The multinomial is log-concave
-    /// in its counts, so a hill climb that moves one atom between two isotopes while that
-    /// raises the probability, started from the expected counts, ends at the mode.
-    fn mode_probability(&self) -> f64 {
+    /// The most probable configuration and its log-probability. The multinomial is
+    /// log-concave in its counts, so a hill climb that moves one atom between two isotopes
+    /// while that raises the probability, started from the expected counts, ends at the
+    /// mode.
+    fn mode(&self) -> (Vec<u32>, f64) {
         let k = self.isotopes.len();
         let mut counts: Vec<u32> = self
             .isotopes
@@ -374,7 +421,13 @@ impl Multinomial {
             .map(|(_, p)| (f64::from(self.n) * p).floor() as u32)
             .collect();
         let assigned: u32 = counts.iter().sum();
-        counts[0] += self.n - assigned.min(self.n);
+        let (major, _) = self
+            .isotopes
+            .iter()
+            .enumerate()
+            .max_by(|a, b| a.1 .1.total_cmp(&b.1 .1))
+            .unwrap_or((0, &(0.0, 0.0)));
+        counts[major] += self.n - assigned.min(self.n);
         let mut ln_p = self.ln_probability(&counts);
         loop {
             let mut improved = false;
@@ -383,20 +436,17 @@ impl Multinomial {
                     if from == to || counts[from] == 0 {
                         continue;
                     }
-                    counts[from] -= 1;
-                    counts[to] += 1;
-                    let candidate = self.ln_probability(&counts);
-                    if candidate > ln_p + 1e-15 {
+                    let candidate = ln_p + self.ln_move_ratio(&counts, from, to);
+                    if candidate > ln_p + 1e-12 {
+                        counts[from] -= 1;
+                        counts[to] += 1;
                         ln_p = candidate;
                         improved = true;
-                    } else {
-                        counts[from] += 1;
-                        counts[to] -= 1;
                     }
                 }
             }
             if !improved {
-                return ln_p.exp();
+                return (counts, ln_p);
             }
         }
     }
@@ -409,87 +459,79 @@ impl Multinomial {
         ln_p
     }
 
-    /// Configurations with probability ≥ `cut`, as (mass, probability).
-    fn enumerate(&self, cut: f64) -> Vec<Peak> {
-        let mut out = Vec::new();
-        self.walk(cut, |mass, p| {
-            out.push(Peak {
-                mz: mass,
-                probability: p,
-            })
-        });
-        out
+    /// ln P(after) − ln P(before) for moving one atom from isotope `from` to `to`.
+    fn ln_move_ratio(&self, counts: &[u32], from: usize, to: usize) -> f64 {
+        f64::from(counts[from]).ln() - f64::from(counts[to] + 1).ln() + self.isotopes[to].1.ln()
+            - self.isotopes[from].1.ln()
     }
 
-    /// Depth-first over the counts of the minor isotopes. At each level the marginal
-    /// probability of the counts chosen so far (all later isotopes lumped together) is an
-    /// upper bound for every completion, so a branch below `cut` is skipped; the marginal
-    /// is unimodal in the count, so once it falls below `cut` past its peak the loop ends.
-    fn walk<F: FnMut(f64, f64)>(&self, cut: f64, mut visit: F) {
+    fn mass(&self, counts: &[u32]) -> f64 {
+        counts
+            .iter()
+            .zip(&self.isotopes)
+            .map(|(c, (m, _))| m * f64::from(*c))
+            .sum()
+    }
+
+    /// Configurations with probability ≥ `cut`, most probable first, at most `cap`, as
+    /// (mass, probability). Best-first from the mode over single-atom moves: the
+    /// superlevel sets of a log-concave distribution are connected under those moves, so
+    /// nothing above the cut is missed.
+    fn enumerate(&self, cut: f64, cap: usize) -> Vec<Peak> {
         let k = self.isotopes.len();
         if k == 1 || self.n == 0 {
-            visit(self.isotopes[0].0 * f64::from(self.n), 1.0);
-            return;
+            return vec![Peak {
+                mz: self.isotopes[0].0 * f64::from(self.n),
+                probability: 1.0,
+            }];
         }
-        // tail_abundance[i] = Σ abundances of isotopes i.. (the lumped rest at level i).
-        let mut tail = vec![0.0; k + 1];
-        for i in (0..k).rev() {
-            tail[i] = tail[i + 1] + self.isotopes[i].1;
-        }
-        let mut counts = vec![0u32; k];
-        self.descend(1, self.n, 0.0, &tail, &mut counts, cut, &mut visit);
-    }
-
-    #[allow(clippy::too_many_arguments)]
-    fn descend<F: FnMut(f64, f64)>(
-        &self,
-        level: usize,
-        remaining: u32,
-        ln_prefix: f64,
-        tail: &[f64],
-        counts: &mut [u32],
-        cut: f64,
-        visit: &mut F,
-    ) {
-        let k = self.isotopes.len();
-        // ln of: n!/(Π c_j!) Π p_j^c_j over levels 1..level, times the lumped rest handled
-        // in `marginal`. ln_prefix holds −Σ ln c_j! + Σ c_j ln p_j for chosen levels.
-        let ln_n_fact = ln_factorial(self.n);
-        if level == k {
-            // The major isotope (index 0) takes the remaining atoms.
-            counts[0] = remaining;
-            let (m0, p0) = self.isotopes[0];
-            let ln_p = ln_n_fact + ln_prefix - ln_factorial(remaining) + ln_pow(p0, remaining);
-            let p = ln_p.exp();
-            if p >= cut {
-                let mut mass = m0 * f64::from(remaining);
-                for (j, c) in counts.iter().enumerate().skip(1) {
-                    mass += self.isotopes[j].0 * f64::from(*c);
-                }
-                visit(mass, p);
+        let ln_cut = if cut > 0.0 {
+            cut.ln()
+        } else {
+            f64::NEG_INFINITY
+        };
+        let (start, ln_start) = self.mode();
+        let mut seen: std::collections::HashSet<Vec<u32>> = std::collections::HashSet::new();
+        let mut queue = std::collections::BinaryHeap::new();
+        seen.insert(start.clone());
+        queue.push(Queued {
+            ln_p: ln_start,
+            counts: start,
+        });
+        let mut out = Vec::new();
+        while let Some(Queued { ln_p, counts }) = queue.pop() {
+            if ln_p < ln_cut || out.len() >= cap {
+                break;
             }
-            return;
-        }
-        let (_, pj) = self.isotopes[level];
-        // The rest after this level: isotope 0 plus isotopes level+1.. .
-        let rest = self.isotopes[0].1 + tail[level + 1];
-        let mut previous = f64::NEG_INFINITY;
-        for c in 0..=remaining {
-            let ln_here = ln_prefix - ln_factorial(c) + ln_pow(pj, c);
-            let r = remaining - c;
-            let marginal = (ln_n_fact + ln_here - ln_factorial(r) + ln_pow(rest, r)).exp();
-            let falling = marginal < previous;
-            previous = marginal;
-            if marginal < cut {
-                if falling {
-                    break;
+            out.push(Peak {
+                mz: self.mass(&counts),
+                probability: ln_p.exp(),
+            });
+            for from in 0..k {
+                if counts[from] == 0 {
+                    continue;
                 }
-                continue;
+                for to in 0..k {
+                    if to == from {
+                        continue;
+                    }
+                    let ln_next = ln_p + self.ln_move_ratio(&counts, from, to);
+                    if ln_next < ln_cut {
+                        continue;
+                    }
+                    let mut next = counts.clone();
+                    next[from] -= 1;
+                    next[to] += 1;
+                    if seen.insert(next.clone()) {
+                        queue.push(Queued {
+                            ln_p: ln_next,
+                            counts: next,
+                        });
+                    }
+                }
             }
-            counts[level] = c;
-            self.descend(level + 1, r, ln_here, tail, counts, cut, visit);
         }
-        counts[level] = 0;
+        out
     }
 }
 

@@ -13,6 +13,9 @@ use std::io::Write;
 /// Peaks below this percentage of the most abundant one are left out of the output.
 const MIN_RELATIVE_SHOWN: f64 = 0.01;
 
+/// Below this retained probability the text output says the pattern is incomplete.
+const TRUNCATION_WARNING_BELOW: f64 = 0.999;
+
 /// Where a formula typed on the command line comes from, for diagnostics.
 const ORIGIN: &str = "<formula>";
 
@@ -55,6 +58,9 @@ struct FormulaReport {
     /// "aggregated" or "fine".
     pattern: &'static str,
     resolving_power: Option<f64>,
+    /// Probability held by the computed isotopologues (below 1 only when pruning or the
+    /// fine-structure cap dropped some; see `chem::isotopes`).
+    retained_probability: f64,
     isotopes: Vec<RelativePeak>,
 }
 
@@ -134,6 +140,7 @@ fn build_report(args: &FormulaArgs) -> Result<FormulaReport, super::Failure> {
         },
         pattern: pattern_kind,
         resolving_power: args.resolution,
+        retained_probability: pattern.retained_probability(),
         isotopes: pattern.relative(MIN_RELATIVE_SHOWN),
     })
 }
@@ -229,6 +236,14 @@ fn write_text(out: &mut dyn Write, r: &FormulaReport) -> std::io::Result<()> {
         out,
         "  (peaks below {MIN_RELATIVE_SHOWN} % of the most abundant are not shown)"
     )?;
+    if r.retained_probability < TRUNCATION_WARNING_BELOW {
+        writeln!(
+            out,
+            "  caution: only the most probable isotopologues were computed ({:.2} % of the \
+             total); intensities are relative to those",
+            100.0 * r.retained_probability
+        )?;
+    }
     Ok(())
 }
 

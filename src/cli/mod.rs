@@ -10,6 +10,7 @@ pub mod batch;
 pub mod casefile;
 mod formula;
 mod from_mass;
+mod isomers;
 mod new_case;
 pub mod review;
 mod rules;
@@ -51,6 +52,8 @@ enum Command {
     Bands(bands::BandsArgs),
     /// Candidate formulas for a measured m/z.
     FromMass(from_mass::FromMassArgs),
+    /// Constitutional isomers of a formula, optionally with an exact group multiset.
+    Isomers(isomers::IsomersArgs),
     /// Recompute a case and compare with its record and the analyst's conclusion.
     Review(review::ReviewArgs),
     /// Solve every case file of a directory in parallel and write one report per case.
@@ -114,6 +117,7 @@ where
         Command::Solve(a) => solve::run(a, &mut out),
         Command::Bands(a) => bands::run(a, &mut out),
         Command::FromMass(a) => from_mass::run(a, &mut out),
+        Command::Isomers(a) => isomers::run(a, &mut out),
         Command::Review(a) => review::run(a, &mut out),
         Command::Batch(a) => batch::run(a, &mut out),
         Command::NewCase(a) => new_case::run(a, &mut out),

@@ -274,7 +274,7 @@ fn list(catalogue: &Catalogue, json: bool, out: &mut dyn Write) -> CommandResult
         let parent = if r.subtype_of.is_empty() {
             String::new()
         } else {
-            format!("  (a {})", r.subtype_of.join(", "))
+            format!("  (subtype of {})", r.subtype_of.join(", "))
         };
         let family = if r.concrete { "" } else { "  [family]" };
         writeln!(out, "{:width$}  {}{parent}{family}", r.id, r.name).map_err(io_failure)?;

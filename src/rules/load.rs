@@ -61,7 +61,12 @@ where
     }
     let mut catalogue = loader.cross_check();
     catalogue.digest = digest(&files);
-    let diagnostics = loader.diagnostics;
+    let mut diagnostics = loader.diagnostics;
+    // File order, then place; problems without a file (a missing required id) come last.
+    diagnostics.sort_by(|a, b| {
+        let key = |d: &Diagnostic| (d.origin.starts_with('<'), d.origin.clone(), d.position);
+        key(a).cmp(&key(b))
+    });
     (catalogue, diagnostics)
 }
 
@@ -102,6 +107,22 @@ struct File<'a> {
     name: &'a str,
     text: &'a str,
     root: Node,
+    /// Byte offset where each line starts, for fast offset-to-position conversion.
+    line_starts: Vec<usize>,
+}
+
+impl File<'_> {
+    /// The 0-based position of a byte offset (same result as `Position::of_offset`, but
+    /// by binary search: the loader converts hundreds of offsets per file).
+    fn position(&self, offset: usize) -> Position {
+        let mut offset = offset.min(self.text.len());
+        while !self.text.is_char_boundary(offset) {
+            offset -= 1;
+        }
+        let line = self.line_starts.partition_point(|&start| start <= offset) - 1;
+        let column = self.text[self.line_starts[line]..offset].chars().count();
+        Position { line, column }
+    }
 }
 
 /// Where a loaded item sits: its file (index into `Loader::files`) and key path.
@@ -156,7 +177,7 @@ struct IdDef {
 struct Loader<'a> {
     files: Vec<File<'a>>,
     diagnostics: Vec<Diagnostic>,
-    groups: Vec<(Group, Place, RawGroup)>,
+    groups: Vec<(Group, Place)>,
     skeleton: Vec<(SkeletonRule, Place)>,
     artefacts: Vec<(ArtefactRule, Place)>,
     patterns: Vec<(PatternRule, Place)>,
@@ -168,7 +189,7 @@ impl<'a> Loader<'a> {
     fn diag_at(&self, place: &Place, message: impl Into<String>) -> Diagnostic {
         let file = &self.files[place.file];
         let offset = yaml::offset_of(&file.root, &place.path);
-        let position = Position::of_offset(file.text, offset);
+        let position = file.position(offset);
         let d = Diagnostic::error(file.name, message).at(file.text, position);
         if place.path.is_empty() {
             d
@@ -192,7 +213,7 @@ impl<'a> Loader<'a> {
         let offset = yaml::offset_of(&file.root, &place.path);
         RuleRef {
             file: file.name.to_owned(),
-            line: Position::of_offset(file.text, offset).line + 1,
+            line: file.position(offset).line + 1,
         }
     }
 
@@ -211,7 +232,15 @@ impl<'a> Loader<'a> {
             }
         };
         let file_index = self.files.len();
-        self.files.push(File { name, text, root });
+        let line_starts = std::iter::once(0)
+            .chain(text.match_indices('\n').map(|(i, _)| i + 1))
+            .collect();
+        self.files.push(File {
+            name,
+            text,
+            root,
+            line_starts,
+        });
         let top = Place {
             file: file_index,
             path: Vec::new(),
@@ -289,13 +318,20 @@ impl<'a> Loader<'a> {
         match yaml::deserialize_item::<T>(file.text, node) {
             Ok(raw) => Some(raw),
             Err(e) => {
-                let mut key_path = path_text(&place.path);
-                if let Some(inner) = &e.inner_path {
-                    key_path = format!("{key_path}.{inner}");
+                // Rebuild the full key path; an unknown key is located in the tree itself,
+                // so the caret sits on the misspelt key rather than on its mapping.
+                let mut inner = e.inner_path.as_deref().map(parse_path).unwrap_or_default();
+                let unknown_key = unknown_field(&e.message);
+                if let Some(key) = &unknown_key {
+                    inner.push(Step::Key(key.clone()));
                 }
-                let position = e
-                    .position
-                    .unwrap_or_else(|| Position::of_offset(file.text, node.offset));
+                let mut full = place.path.clone();
+                full.extend(inner.iter().cloned());
+                let key_path = path_text(&full);
+                let position = match (&unknown_key, e.position) {
+                    (Some(_), _) | (None, None) => file.position(yaml::offset_of(node, &inner)),
+                    (None, Some(p)) => p,
+                };
                 let mut d = Diagnostic::error(file.name, e.message.clone())
                     .at(file.text, position)
                     .with_key_path(key_path);
@@ -465,7 +501,7 @@ impl<'a> Loader<'a> {
         })
     }
 
-    fn add_group(&mut self, raw: RawGroup, place: Place) {
+    fn add_group(&mut self, mut raw: RawGroup, place: Place) {
         self.check_id(&place, &raw.id);
         self.check_text(&place, "name", &raw.name);
         let source = self.check_source(&place, &raw.source);
@@ -546,31 +582,31 @@ impl<'a> Loader<'a> {
             );
         }
         let mut bands = Vec::new();
-        for (i, b) in raw.bands.iter().cloned().enumerate() {
+        for (i, b) in std::mem::take(&mut raw.bands).into_iter().enumerate() {
             bands.push(self.band(&place.key("bands").index(i), b));
         }
         let mut ms = Vec::new();
-        for (i, m) in raw.ms.iter().cloned().enumerate() {
+        for (i, m) in std::mem::take(&mut raw.ms).into_iter().enumerate() {
             if let Some(clue) = self.ms_clue(&place.key("ms").index(i), m) {
                 ms.push(clue);
             }
         }
         let group = Group {
-            id: raw.id.clone(),
-            name: raw.name.clone(),
+            id: raw.id,
+            name: raw.name,
             atoms,
             dbe: raw.dbe,
             bonds,
-            subtype_of: raw.subtype_of.clone(),
-            excludes: raw.excludes.clone(),
-            requires_any: raw.requires_any.clone(),
+            subtype_of: raw.subtype_of,
+            excludes: raw.excludes,
+            requires_any: raw.requires_any,
             bands,
             ms,
-            note: raw.note.clone(),
+            note: raw.note,
             source,
             defined_at: self.rule_ref(&place),
         };
-        self.groups.push((group, place, raw));
+        self.groups.push((group, place));
     }
 
     fn add_skeleton(&mut self, raw: RawSkeleton, place: Place) {
@@ -660,11 +696,11 @@ impl<'a> Loader<'a> {
     /// Checks that need the whole catalogue and assembles it.
     fn cross_check(&mut self) -> Catalogue {
         self.check_unique_ids();
-        let group_ids: Vec<String> = self.groups.iter().map(|(g, ..)| g.id.clone()).collect();
+        let group_ids: Vec<String> = self.groups.iter().map(|(g, _)| g.id.clone()).collect();
         let refs: Vec<(Place, String, Vec<String>)> = self
             .groups
             .iter()
-            .flat_map(|(g, place, _)| {
+            .flat_map(|(g, place)| {
                 [
                     (place.key("subtype_of"), g.id.clone(), g.subtype_of.clone()),
                     (place.key("excludes"), g.id.clone(), g.excludes.clone()),
@@ -707,7 +743,7 @@ impl<'a> Loader<'a> {
         self.check_subtype_cycles();
         self.check_required(&group_ids);
         Catalogue {
-            groups: self.groups.iter().map(|(g, ..)| g.clone()).collect(),
+            groups: self.groups.iter().map(|(g, _)| g.clone()).collect(),
             skeleton: self.skeleton.iter().map(|(r, _)| r.clone()).collect(),
             artefacts: self.artefacts.iter().map(|(r, _)| r.clone()).collect(),
             patterns: self.patterns.iter().map(|(r, _)| r.clone()).collect(),
@@ -733,11 +769,7 @@ impl<'a> Loader<'a> {
 
     fn check_unique_ids(&mut self) {
         let mut all: Vec<(String, Place)> = Vec::new();
-        all.extend(
-            self.groups
-                .iter()
-                .map(|(g, p, _)| (g.id.clone(), p.clone())),
-        );
+        all.extend(self.groups.iter().map(|(g, p)| (g.id.clone(), p.clone())));
         all.extend(self.skeleton.iter().map(|(r, p)| (r.id.clone(), p.clone())));
         all.extend(
             self.artefacts
@@ -767,12 +799,12 @@ impl<'a> Loader<'a> {
     fn check_subtype_cycles(&mut self) {
         let mut graph: DiGraph<usize, ()> = DiGraph::new();
         let mut index: HashMap<&str, NodeIndex> = HashMap::new();
-        for (i, (g, ..)) in self.groups.iter().enumerate() {
+        for (i, (g, _)) in self.groups.iter().enumerate() {
             index
                 .entry(g.id.as_str())
                 .or_insert_with(|| graph.add_node(i));
         }
-        for (g, ..) in &self.groups {
+        for (g, _) in &self.groups {
             for parent in &g.subtype_of {
                 if let (Some(&a), Some(&b)) = (index.get(g.id.as_str()), index.get(parent.as_str()))
                 {
@@ -822,6 +854,46 @@ impl<'a> Loader<'a> {
     }
 }
 
+/// The key named by serde's `unknown field "x", ...` message.
+fn unknown_field(message: &str) -> Option<String> {
+    let rest = message.strip_prefix("unknown field \"")?;
+    rest.split_once('"').map(|(word, _)| word.to_owned())
+}
+
+/// Parses serde_yaml's path text (`bands[0].range`) into steps.
+fn parse_path(text: &str) -> Vec<Step> {
+    let mut steps = Vec::new();
+    for part in text.split('.') {
+        let (key, indices) = match part.find('[') {
+            Some(i) => (&part[..i], &part[i..]),
+            None => (part, ""),
+        };
+        if !key.is_empty() {
+            steps.push(Step::Key(key.to_owned()));
+        }
+        for index in indices.split('[').filter(|s| !s.is_empty()) {
+            if let Ok(i) = index.trim_end_matches(']').parse() {
+                steps.push(Step::Index(i));
+            }
+        }
+    }
+    steps
+}
+
+/// The closest candidate to `word`: by edit distance, else a candidate with the same
+/// letters in another order (a transposition such as `rnage` for `range`).
+fn suggest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
+    closest_match(word, candidates.iter().copied()).or_else(|| {
+        let mut sorted: Vec<char> = word.chars().collect();
+        sorted.sort_unstable();
+        candidates.iter().copied().find(|c| {
+            let mut other: Vec<char> = c.chars().collect();
+            other.sort_unstable();
+            other == sorted
+        })
+    })
+}
+
 /// A "did you mean" hint for serde's unknown-field and unknown-variant messages, which
 /// read `unknown field "x", expected one of "a", "b"` (quotes already turned to `"`).
 fn suggest_from_serde(message: &str) -> Option<String> {
@@ -836,5 +908,204 @@ fn suggest_from_serde(message: &str) -> Option<String> {
         .filter(|(i, _)| i % 2 == 1)
         .map(|(_, s)| s)
         .collect();
-    closest_match(word, candidates).map(|s| format!("did you mean \"{s}\"?"))
+    suggest(word, &candidates).map(|s| format!("did you mean \"{s}\"?"))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const KETONE: &str = "\
+groups:
+  - id: ketone_x
+    name: test ketone
+    atoms: { C: 1, O: 1 }
+    dbe: 1
+    bonds: { carbon: 2 }
+    source: common practice
+    bands:
+      - label: C=O stretch
+        range: [1700, 1730]
+        strength: strong
+        role: diagnostic
+        source: common practice
+";
+
+    fn messages(diagnostics: &[Diagnostic]) -> Vec<String> {
+        diagnostics
+            .iter()
+            .filter(|d| !d.message.starts_with("required group ids missing"))
+            .map(ToString::to_string)
+            .collect()
+    }
+
+    #[test]
+    fn rules_remember_the_line_they_are_defined_on() {
+        let (catalogue, diagnostics) = load([("k.yaml", KETONE)]);
+        assert!(messages(&diagnostics).is_empty(), "{diagnostics:?}");
+        let g = catalogue.group("ketone_x").expect("loaded");
+        assert_eq!(
+            g.defined_at,
+            RuleRef {
+                file: "k.yaml".into(),
+                line: 2
+            }
+        );
+        assert_eq!(g.bands[0].defined_at.line, 9);
+        assert_eq!(g.atoms.to_string(), "CO");
+    }
+
+    #[test]
+    fn digest_depends_on_names_and_text_but_not_on_order() {
+        let a = [("a.yaml", "groups: []\n"), ("b.yaml", KETONE)];
+        let b = [("b.yaml", KETONE), ("a.yaml", "groups: []\n")];
+        assert_eq!(digest(&a), digest(&b));
+        assert_ne!(
+            digest(&a),
+            digest(&[("a.yaml", "groups: []\n"), ("c.yaml", KETONE)])
+        );
+        assert_ne!(
+            digest(&a),
+            digest(&[("a.yaml", "groups: [] \n"), ("b.yaml", KETONE)])
+        );
+        assert_eq!(digest(&a).len(), 64);
+        // SHA-256 of the empty input (FIPS 180-4 test vector, common practice).
+        let mut h = Sha256::new();
+        h.update(b"");
+        let empty: String = h.finalize().iter().map(|b| format!("{b:02x}")).collect();
+        assert_eq!(
+            empty,
+            "e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855"
+        );
+    }
+
+    #[test]
+    fn files_are_read_in_name_order() {
+        let other = KETONE.replace("ketone_x", "ketone_y");
+        let (catalogue, _) = load([("z.yaml", KETONE), ("a.yaml", other.as_str())]);
+        let ids: Vec<&str> = catalogue.groups.iter().map(|g| g.id.as_str()).collect();
+        assert_eq!(ids, ["ketone_y", "ketone_x"]);
+    }
+
+    #[test]
+    fn a_ring_closed_through_the_skeleton_is_counted_by_ring_closures() {
+        let lactone = "groups:\n  - { id: lac, name: l, atoms: { C: 1, O: 2 }, dbe: 2, ring_closures: 1, bonds: { carbon: 1, hetero: 1 }, source: s }\n";
+        let (_, diagnostics) = load([("l.yaml", lactone)]);
+        assert!(messages(&diagnostics).is_empty(), "{diagnostics:?}");
+        let too_many = lactone.replace("ring_closures: 1", "ring_closures: 3");
+        let (_, diagnostics) = load([("l.yaml", too_many.as_str())]);
+        assert_eq!(
+            messages(&diagnostics),
+            ["error: l.yaml:2:56: groups[0].ring_closures: ring_closures (3) cannot exceed dbe (2): each closed ring is one DBE"]
+        );
+    }
+
+    #[test]
+    fn every_bad_item_of_a_file_is_reported() {
+        let text = "groups:\n  - { id: a, nme: x }\n  - { id: b, name: y, atoms: {}, dbe: x }\n";
+        let (_, diagnostics) = load([("t.yaml", text)]);
+        let m = messages(&diagnostics);
+        assert_eq!(m.len(), 2, "{m:?}");
+        assert!(
+            m[0].starts_with("error: t.yaml:2:14: groups[0].nme: unknown field \"nme\""),
+            "{m:?}"
+        );
+        assert!(m[1].starts_with("error: t.yaml:3:"), "{m:?}");
+        assert_eq!(
+            diagnostics[0].help.as_deref(),
+            Some("did you mean \"name\"?")
+        );
+    }
+
+    #[test]
+    fn columns_count_characters_after_non_ascii_text() {
+        let text = "artefacts:\n  - { id: x, label: \"µ cm⁻¹\", range: [3000, 2000], source: s }\n";
+        let (_, diagnostics) = load([("u.yaml", text)]);
+        let m = messages(&diagnostics);
+        let col = text
+            .lines()
+            .nth(1)
+            .expect("line")
+            .chars()
+            .position(|c| c == 'r')
+            .expect("r");
+        assert_eq!(m.len(), 1, "{m:?}");
+        // `range` is the first `r` of that line.
+        assert!(
+            m[0].starts_with(&format!(
+                "error: u.yaml:2:{}: artefacts[0].range: inverted",
+                col + 1
+            )),
+            "{m:?}"
+        );
+    }
+
+    #[test]
+    fn empty_files_and_empty_sections_hold_no_rules() {
+        let (catalogue, diagnostics) = load([
+            ("e.yaml", ""),
+            ("n.yaml", "groups:\n"),
+            ("c.yaml", "# only a comment\n"),
+        ]);
+        assert!(messages(&diagnostics).is_empty(), "{diagnostics:?}");
+        assert!(catalogue.groups.is_empty());
+    }
+
+    #[test]
+    fn a_file_must_be_one_mapping() {
+        let (_, d) = load([("l.yaml", "- a\n- b\n")]);
+        assert!(
+            messages(&d)[0].contains("a rules file is a mapping"),
+            "{d:?}"
+        );
+        let (_, d) = load([("m.yaml", "groups: []\n---\ngroups: []\n")]);
+        assert!(
+            messages(&d)[0].starts_with(
+                "error: m.yaml:2:1: invalid YAML: a rules file holds one YAML document"
+            ),
+            "{d:?}"
+        );
+        let (_, d) = load([("s.yaml", "groups: 3\n")]);
+        assert_eq!(
+            messages(&d),
+            ["error: s.yaml:1:1: groups: section \"groups\" must be a list"]
+        );
+    }
+
+    #[test]
+    fn the_valence_equation_accepts_the_textbook_fragments() {
+        // common practice: open valences of familiar fragments by the valence count.
+        let cases = [
+            ("{ C: 1, H: 1, O: 1 }", 1, "{ carbon_or_h: 1 }"), // aldehyde -CHO
+            ("{ C: 1, N: 1 }", 2, "{ carbon_or_h: 1 }"),       // nitrile -C#N
+            ("{ C: 6 }", 4, "{ carbon_or_h: 6 }"),             // benzene ring
+            ("{ N: 1, O: 2 }", 1, "{ hetero: 1 }"),            // nitro -NO2
+            ("{ S: 1, O: 2 }", 0, "{ hetero: 2 }"),            // sulfone
+            ("{ N: 3 }", 2, "{ hetero: 1 }"),                  // azide -N3
+            ("{ P: 1, O: 4 }", 0, "{ hetero: 3 }"),            // phosphate triester
+        ];
+        for (atoms, dbe, bonds) in cases {
+            let text = format!("groups:\n  - {{ id: g, name: g, atoms: {atoms}, dbe: {dbe}, bonds: {bonds}, source: s }}\n");
+            let (_, d) = load([("v.yaml", text.as_str())]);
+            assert!(messages(&d).is_empty(), "{atoms}: {d:?}");
+            let wrong = text.replace(&format!("dbe: {dbe}"), &format!("dbe: {}", dbe + 1));
+            let (_, d) = load([("v.yaml", wrong.as_str())]);
+            assert_eq!(
+                messages(&d).len(),
+                1,
+                "{atoms} with one DBE too many must fail"
+            );
+        }
+    }
+
+    #[test]
+    fn a_clean_catalogue_needs_every_required_id() {
+        let (_, d) = load([("k.yaml", KETONE)]);
+        let last = d.last().expect("a diagnostic");
+        assert!(last
+            .message
+            .starts_with("required group ids missing: alkene,"));
+        assert_eq!(last.place(), "<catalogue>");
+        assert!(load_checked([("k.yaml", KETONE)]).is_err());
+    }
 }

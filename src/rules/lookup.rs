@@ -166,3 +166,81 @@ fn distance(range: Range, at: f64) -> f64 {
     let half = ((range.hi - range.lo) / 2.0).max(f64::EPSILON);
     (at - range.centre()).abs() / half
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::rules::load;
+
+    const TEXT: &str = "\
+groups:
+  - id: wide
+    name: wide
+    atoms: { O: 1 }
+    dbe: 0
+    bonds: { hetero: 2 }
+    source: s
+    bands:
+      - { label: wide band, range: [1600, 1800], strength: strong, role: diagnostic, source: s }
+  - id: narrow
+    name: narrow
+    atoms: { O: 1 }
+    dbe: 0
+    bonds: { hetero: 2 }
+    source: s
+    bands:
+      - label: narrow band
+        range: [1710, 1730]
+        strength: strong
+        role: diagnostic
+        source: s
+        by_technique:
+          gas: { range: [1740, 1760], source: s }
+artefacts:
+  - { id: moisture, label: water, range: [1600, 1700], techniques: [KBr], source: s }
+";
+
+    fn ids(matches: &[Coverage]) -> Vec<&str> {
+        matches.iter().map(|m| m.id.as_str()).collect()
+    }
+
+    #[test]
+    fn the_most_central_range_comes_first() {
+        let (catalogue, _) = load([("t.yaml", TEXT)]);
+        let m = rules_at(&catalogue, 1720.0, None);
+        assert_eq!(ids(&m), ["narrow", "wide"]);
+        assert_eq!(m[0].distance, 0.0);
+        assert!((m[1].distance - 0.2).abs() < 1e-12);
+    }
+
+    #[test]
+    fn a_technique_applies_its_ranges_and_its_artefacts() {
+        let (catalogue, _) = load([("t.yaml", TEXT)]);
+        assert_eq!(
+            ids(&rules_at(&catalogue, 1750.0, Some(Technique::Gas))),
+            ["narrow", "wide"]
+        );
+        assert_eq!(
+            ids(&rules_at(&catalogue, 1720.0, Some(Technique::Gas))),
+            ["wide"]
+        );
+        assert_eq!(
+            ids(&rules_at(&catalogue, 1650.0, Some(Technique::Atr))),
+            ["wide"]
+        );
+        assert_eq!(
+            ids(&rules_at(&catalogue, 1650.0, Some(Technique::Kbr))),
+            ["moisture", "wide"]
+        );
+        assert_eq!(
+            ids(&rules_at(&catalogue, 1650.0, None)),
+            ["moisture", "wide"]
+        );
+    }
+
+    #[test]
+    fn nothing_covers_an_empty_region() {
+        let (catalogue, _) = load([("t.yaml", TEXT)]);
+        assert!(rules_at(&catalogue, 2500.0, None).is_empty());
+    }
+}

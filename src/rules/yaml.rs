@@ -136,15 +136,17 @@ impl MarkedEventReceiver for Recorder {
 pub(crate) fn parse_tree(text: &str) -> Result<Option<Node>, YamlError> {
     let mut recorder = Recorder { events: Vec::new() };
     let mut parser = Parser::new_from_str(text);
+    // Markers count characters; diagnostics want byte offsets.
+    let char_starts: Vec<usize> = text.char_indices().map(|(b, _)| b).collect();
+    let to_byte = |char_index: usize| char_starts.get(char_index).copied().unwrap_or(text.len());
     parser.load(&mut recorder, true).map_err(|e| YamlError {
-        offset: Some(char_index_to_byte(text, e.marker().index())),
+        offset: Some(to_byte(e.marker().index())),
         message: lower_first(e.info()),
     })?;
-    // Markers count characters; diagnostics want byte offsets.
     let events: Vec<(Event, usize)> = recorder
         .events
         .into_iter()
-        .map(|(e, m)| (e, char_index_to_byte(text, m.index())))
+        .map(|(e, m)| (e, to_byte(m.index())))
         .collect();
     let documents = events
         .iter()
@@ -253,13 +255,6 @@ fn trim_item_ends(text: &str, items: &mut [Node]) {
             prev.end = prev.end.min(next_line_start);
         }
     }
-}
-
-/// Converts a character index into a byte offset of `text` (clamped to its length).
-fn char_index_to_byte(text: &str, char_index: usize) -> usize {
-    text.char_indices()
-        .nth(char_index)
-        .map_or(text.len(), |(b, _)| b)
 }
 
 /// Lower-cases the first letter of a library message, per the diagnostics convention.

@@ -1,0 +1,109 @@
+//! Structures: from a formula (and optionally a functional-group multiset) to every
+//! constitutional isomer, each exactly once, as canonical SMILES with the structure-level
+//! features the IR catalogue can check.
+//!
+//! Entry points: [`enumerate`] (a sorted list, capped), [`count_structures`] (a count),
+//! [`for_each_structure`] (streaming) and [`score_features`] (features against bands).
+//! Isomers are constitutional: cis/trans and optical isomers are not told apart. See
+//! DEVELOPERS.md, "Structures", for the method, the group definitions and the checks
+//! against outside sources.
+
+pub mod aromatic;
+pub mod canon;
+pub mod features;
+pub mod generate;
+pub mod groups;
+pub mod molecule;
+pub mod perceive;
+pub mod smiles;
+
+pub use features::{features, score_features, FeatureScore, StructureFeatures};
+pub use generate::{
+    count_structures, for_each_structure, StructureError, Summary, MAX_HEAVY_ATOMS,
+};
+pub use groups::{GroupCounts, GroupId, GroupsError};
+pub use molecule::{Atom, Bond, Element, Molecule};
+pub use perceive::{perceive, Perception};
+pub use smiles::{parse_smiles, to_smiles, SmilesError};
+
+use crate::chem::Formula;
+use crate::ir::Band;
+use std::ops::ControlFlow;
+
+/// One generated structure with what the report needs.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct Structure {
+    /// Canonical SMILES (aromatic rings lower case).
+    pub smiles: String,
+    /// Perceived groups (`ring` included).
+    pub groups: GroupCounts,
+    /// Structure-level IR features.
+    pub features: StructureFeatures,
+    /// The molecular graph (aromatised).
+    #[serde(skip)]
+    pub molecule: Molecule,
+}
+
+impl Structure {
+    /// Describes an aromatised molecule.
+    pub fn of(molecule: Molecule) -> Structure {
+        Structure {
+            smiles: to_smiles(&molecule),
+            groups: perceive(&molecule).groups,
+            features: features(&molecule),
+            molecule,
+        }
+    }
+
+    /// Scores the structure's features against observed bands (tolerance in cm⁻¹).
+    pub fn score(&self, bands: &[Band], tolerance: f64) -> FeatureScore {
+        score_features(&self.features, bands, tolerance)
+    }
+}
+
+/// The result of [`enumerate`].
+#[derive(Clone, Debug)]
+pub struct Enumeration {
+    /// The structures, sorted by SMILES.
+    pub structures: Vec<Structure>,
+    /// True when more structures exist than the cap let through.
+    pub truncated: bool,
+    /// Why no structure can exist, when formula and groups disagree.
+    pub no_structure_reason: Option<String>,
+}
+
+/// Every structure of `formula` (with exactly the groups `groups`, when given), at most
+/// `max` of them, sorted by SMILES. See [`for_each_structure`] for the rules.
+pub fn enumerate(
+    formula: &Formula,
+    groups: Option<&GroupCounts>,
+    max: Option<usize>,
+) -> Result<Enumeration, StructureError> {
+    enumerate_with_progress(formula, groups, max, &mut |_| {})
+}
+
+/// [`enumerate`], calling `progress` with the number found so far after each structure.
+pub fn enumerate_with_progress(
+    formula: &Formula,
+    groups: Option<&GroupCounts>,
+    max: Option<usize>,
+    progress: &mut dyn FnMut(usize),
+) -> Result<Enumeration, StructureError> {
+    let mut structures = Vec::new();
+    let mut truncated = false;
+    let summary = for_each_structure(formula, groups, |m| {
+        if max.is_some_and(|cap| structures.len() >= cap) {
+            truncated = true;
+            return ControlFlow::Break(());
+        }
+        structures.push(Structure::of(m));
+        progress(structures.len());
+        ControlFlow::Continue(())
+    })?;
+    structures.sort_by(|a, b| a.smiles.cmp(&b.smiles));
+    Ok(Enumeration {
+        structures,
+        truncated,
+        no_structure_reason: summary.no_structure_reason,
+    })
+}

@@ -1,0 +1,123 @@
+//! Black-box tests of `quiddity isomers`: stdout, stderr and exit status every time.
+
+use std::process::Command;
+
+fn run(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_quiddity"))
+        .arg("isomers")
+        .args(args)
+        .output()
+        .expect("the binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn counting_prints_the_bare_number() {
+    // common practice: hexane has 5 constitutional isomers.
+    assert_eq!(
+        run(&["C6H14", "--count"]),
+        (0, "5\n".to_owned(), String::new())
+    );
+}
+
+#[test]
+fn json_lists_every_structure_once() {
+    let (code, stdout, stderr) = run(&["C4H10O", "--json"]);
+    assert_eq!((code, stderr.as_str()), (0, ""));
+    let v: serde_json::Value = serde_json::from_str(&stdout).expect("one JSON document");
+    assert_eq!(v["formula"], "C4H10O");
+    assert_eq!(v["count"], 7);
+    assert_eq!(v["truncated"], false);
+    let smiles: Vec<&str> = v["structures"]
+        .as_array()
+        .expect("structures")
+        .iter()
+        .map(|s| s["smiles"].as_str().expect("smiles"))
+        .collect();
+    // common practice: the four butanols and three ethers of C4H10O.
+    assert_eq!(
+        smiles,
+        [
+            "CC(C)(C)O",
+            "CC(C)CO",
+            "CCC(C)O",
+            "CCCCO",
+            "CCOCC",
+            "COC(C)C",
+            "COCCC"
+        ]
+    );
+    assert_eq!(v["structures"][0]["features"]["alcohols"][0], "tertiary");
+}
+
+#[test]
+fn groups_restrict_and_features_are_shown() {
+    let (code, stdout, _) = run(&["C8H8O", "--groups", "ketone:1,aromatic_ring:1"]);
+    assert_eq!(code, 0);
+    assert!(stdout.starts_with("C8H8O with groups aromatic_ring:1,ketone:1: 1 structure(s)\n"));
+    assert!(stdout.contains("CC(=O)c1ccccc1"));
+    assert!(stdout.contains("ring mono; C=O ketone conj. aromatic_ring"));
+    assert!(stdout.contains("not an identification"));
+}
+
+#[test]
+fn the_cap_is_reported_honestly() {
+    let (code, stdout, stderr) = run(&["C8H18", "--max", "3", "--json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&stdout).expect("JSON");
+    assert_eq!(v["count"], 3);
+    assert_eq!(v["truncated"], true);
+    assert_eq!(
+        stderr,
+        "note: truncated at 3 structures; raise --max to see more\n"
+    );
+}
+
+#[test]
+fn no_structure_is_a_scientific_no_with_its_reason() {
+    let (code, stdout, _) = run(&["C4H10O", "--groups", "ketone:1"]);
+    assert_eq!(code, 1);
+    assert!(stdout.contains("0 structure(s)"));
+    assert!(stdout.contains(
+        "no structure: the groups account for 1 rings plus π bonds (DBE), the formula for 0"
+    ));
+}
+
+#[test]
+fn bad_input_names_its_place_and_exits_2() {
+    let (code, stdout, stderr) = run(&["C4H10O", "--groups", "ketone:1,ketome:1"]);
+    assert_eq!((code, stdout.as_str()), (2, ""));
+    assert!(
+        stderr.starts_with("error: --groups:1:10: unknown group id \"ketome\""),
+        "{stderr}"
+    );
+    assert!(stderr.contains("did you mean \"ketone\"?"));
+    let (code, _, stderr) = run(&["C6X"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.starts_with("error: <formula>:1:3: unknown element symbol \"X\""),
+        "{stderr}"
+    );
+    let (code, _, stderr) = run(&["SiH4"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("element Si is not supported by the structure generator"),
+        "{stderr}"
+    );
+    let (code, _, stderr) = run(&["C6H6+"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("neutral closed-shell molecules only"),
+        "{stderr}"
+    );
+    let (code, _, stderr) = run(&["C6H14", "--max", "0"]);
+    assert_eq!(code, 2);
+    assert!(
+        stderr.contains("error: --max: the cap must be at least 1"),
+        "{stderr}"
+    );
+}
