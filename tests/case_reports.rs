@@ -133,6 +133,10 @@ fn the_json_report_parses_and_names_the_contract_fields() {
     assert_eq!(json["candidates"].as_array().map(Vec::len), Some(0));
     assert!(!json["conflicts"].as_array().unwrap().is_empty());
     assert_eq!(json["formula_facts"]["nominal_mass"], 86);
+    // Hexane C6H14 monoisotopic mass 86.10955 u (PubChem compound record for hexane,
+    // "Monoisotopic Mass 86.109550402 Da"; from memory).
+    let mono = json["formula_facts"]["monoisotopic_mass"].as_f64().unwrap();
+    assert!((mono - 86.109_550).abs() < 2e-6, "{mono}");
     // C6H14: DBE = 6 - 14/2 + 1 = 0 (common practice: DBE = C - H/2 + N/2 + 1).
     assert_eq!(json["formula_facts"]["dbe"], 0.0);
 }
