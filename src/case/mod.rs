@@ -2,15 +2,21 @@
 //! case-file text into a [`Case`] plus diagnostics. Only the CLI reads files; it calls
 //! [`parse_raw`], reads what [`referenced_files`] lists, then [`validate`].
 
+pub mod digest;
 mod formula;
 pub mod model;
+pub mod paths;
 pub mod raw;
 mod validate;
 pub mod yaml;
 
 pub use model::*;
-pub use raw::{referenced_files, RawBand, RawCase, RawIr, RawMs};
-pub use validate::{validate, BAND_LIMITS_CM1, DEFAULT_PPM};
+pub use raw::{
+    referenced_files, RawBand, RawCase, RawConclusion, RawIr, RawMs, RawReview, RawSample,
+};
+pub use validate::{
+    check_group_ids, is_iso_date, validate, validate_with_files, BAND_LIMITS_CM1, DEFAULT_PPM,
+};
 
 use crate::diag::Diagnostic;
 

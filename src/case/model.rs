@@ -19,11 +19,13 @@ pub struct Place {
 }
 
 impl Place {
-    /// `origin:line:col` (1-based) or just the origin.
+    /// `origin:line:col` (1-based); without a position, the origin and the key path
+    /// (`spectra/a.jdx (picked band 3)`), or just the origin.
     pub fn display(&self) -> String {
         match self.position {
             Some(p) => format!("{}:{}:{}", self.origin, p.line + 1, p.column + 1),
-            None => self.origin.clone(),
+            None if self.key_path.is_empty() => self.origin.clone(),
+            None => format!("{} ({})", self.origin, self.key_path),
         }
     }
 }
@@ -60,6 +62,110 @@ pub struct IrEvidence {
     /// Measured window `(low, high)` in cm⁻¹: a band rule lying partly outside it is not
     /// demanded. Default by technique (see [`default_window`]).
     pub window: (f64, f64),
+    /// The spectrum file the bands were picked from, when the case names one.
+    pub spectrum: Option<SpectrumSource>,
+}
+
+/// A spectrum file named by a case and what picking it gave.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SpectrumSource {
+    /// The path as written in the case (relative to the case file).
+    pub written: String,
+    /// The name diagnostics and band places use (the path as the CLI opened it).
+    pub origin: String,
+    /// Bands picked from the file (before written bands override any of them).
+    pub n_picked: usize,
+    /// Picked bands replaced by a written band within [`OVERRIDE_CM1`].
+    pub n_overridden: usize,
+    /// The file's title, when it has one.
+    pub title: Option<String>,
+    /// What the reader and picker assumed or converted.
+    pub notes: Vec<String>,
+}
+
+/// A written band replaces a picked band closer than this, cm⁻¹: the analyst's reading of
+/// the same feature wins over the picker's (about one resolution element of a routine
+/// 4 cm⁻¹ FTIR scan; common practice, from memory).
+pub const OVERRIDE_CM1: f64 = 5.0;
+
+/// A file the case refers to, read by the caller.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ReferencedFile {
+    /// The path as written in the case.
+    pub written: String,
+    /// The name diagnostics use (the path as opened).
+    pub origin: String,
+    /// The file's bytes.
+    pub bytes: Vec<u8>,
+}
+
+/// Where the sample came from and who handles it (all free text but the date).
+#[derive(Clone, Debug, Default, PartialEq, Eq, serde::Serialize)]
+pub struct Sample {
+    /// Date received, `YYYY-MM-DD`.
+    pub received: Option<String>,
+    /// Who asked for the analysis.
+    pub requested_by: Option<String>,
+    /// Description of the sample.
+    pub description: Option<String>,
+    /// Techniques used.
+    pub technique: Option<String>,
+    /// Analyst in charge.
+    pub analyst: Option<String>,
+}
+
+/// The analyst's recorded conclusion.
+#[derive(Clone, Debug, Default, PartialEq, Eq, serde::Serialize)]
+pub struct Conclusion {
+    /// Accepted candidate: group id → count (empty when none was written).
+    pub accepted: std::collections::BTreeMap<String, u32>,
+    /// Where `accepted` was written.
+    #[serde(skip)]
+    pub accepted_place: Option<Place>,
+    /// Comments.
+    pub comments: Option<String>,
+}
+
+/// The second analyst's verdict.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Verdict {
+    /// The reviewer agrees with the conclusion.
+    Agreed,
+    /// The reviewer sent the case back.
+    Returned,
+    /// The review is not finished.
+    Pending,
+}
+
+impl Verdict {
+    /// Every verdict with its case-file word.
+    pub const ALL: [(Verdict, &'static str); 3] = [
+        (Verdict::Agreed, "agreed"),
+        (Verdict::Returned, "returned"),
+        (Verdict::Pending, "pending"),
+    ];
+
+    /// The case-file word.
+    pub fn word(self) -> &'static str {
+        Verdict::ALL
+            .iter()
+            .find(|(v, _)| *v == self)
+            .map_or("?", |(_, w)| w)
+    }
+}
+
+/// The review block.
+#[derive(Clone, Debug, Default, PartialEq, Eq, serde::Serialize)]
+pub struct Review {
+    /// Reviewer.
+    pub reviewer: Option<String>,
+    /// Date, `YYYY-MM-DD`.
+    pub date: Option<String>,
+    /// Verdict.
+    pub verdict: Option<Verdict>,
+    /// Comments.
+    pub comments: Option<String>,
 }
 
 /// The wavenumber window assumed when the case does not state one. Source: common
@@ -150,4 +256,12 @@ pub struct Case {
     pub ms: Option<MsEvidence>,
     /// IR evidence (no `ir:` block means no IR constraints at all).
     pub ir: Option<IrEvidence>,
+    /// Sample metadata.
+    pub sample: Sample,
+    /// Free notes.
+    pub notes: Option<String>,
+    /// The analyst's conclusion, when written.
+    pub conclusion: Option<Conclusion>,
+    /// The review block, when written.
+    pub review: Option<Review>,
 }

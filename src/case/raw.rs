@@ -23,6 +23,54 @@ pub struct RawCase {
     pub ms: Option<RawMs>,
     /// IR evidence.
     pub ir: Option<RawIr>,
+    /// Sample metadata.
+    pub sample: Option<RawSample>,
+    /// Free notes.
+    pub notes: Option<String>,
+    /// The analyst's recorded conclusion.
+    pub conclusion: Option<RawConclusion>,
+    /// The second analyst's review.
+    pub review: Option<RawReview>,
+}
+
+/// The `sample:` block: where the unknown came from and who handles it.
+#[derive(Clone, Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawSample {
+    /// Date received, `YYYY-MM-DD`.
+    pub received: Option<String>,
+    /// Who asked for the analysis.
+    pub requested_by: Option<String>,
+    /// What the sample looks like, where it was found.
+    pub description: Option<String>,
+    /// Techniques used on the sample (free text, e.g. `FTIR-ATR, GC-MS (EI)`).
+    pub technique: Option<String>,
+    /// The analyst in charge.
+    pub analyst: Option<String>,
+}
+
+/// The `conclusion:` block: what the analyst accepted.
+#[derive(Clone, Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawConclusion {
+    /// The accepted candidate as group id → count.
+    pub accepted: Option<BTreeMap<String, u32>>,
+    /// Free comments.
+    pub comments: Option<String>,
+}
+
+/// The `review:` block: the second analyst's check.
+#[derive(Clone, Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawReview {
+    /// The reviewer's name or initials.
+    pub reviewer: Option<String>,
+    /// Date of the review, `YYYY-MM-DD`.
+    pub date: Option<String>,
+    /// `agreed | returned | pending`.
+    pub verdict: Option<String>,
+    /// Free comments.
+    pub comments: Option<String>,
 }
 
 /// The `ms:` block.

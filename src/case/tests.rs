@@ -142,10 +142,81 @@ fn block_style_bands_are_located_too() {
 }
 
 #[test]
-fn spectrum_files_are_listed_for_the_cli_and_refused_until_wired() {
+fn spectrum_files_are_listed_for_the_caller_and_required_for_validation() {
     let src = "formula: CH4O\nir:\n  spectrum: s/a.jdx\n";
     let raw = parse_raw(src, "t.yaml").expect("raw");
     assert_eq!(referenced_files(&raw), vec!["s/a.jdx".to_owned()]);
     let d = first_error(src);
-    assert!(d.message.contains("not available in this build"), "{d}");
+    assert_eq!(
+        d.to_string(),
+        "error: t.yaml:3:13: ir.spectrum: the spectrum file \"s/a.jdx\" was not read"
+    );
+}
+
+/// A small invented two-column absorbance trace with one strong band near 1715 cm⁻¹.
+fn two_column_trace() -> Vec<u8> {
+    let mut s = String::new();
+    let mut x = 4000.0;
+    while x >= 600.0 {
+        let d: f64 = (x - 1715.0) / 8.0;
+        let w: f64 = (x - 1100.0) / 10.0;
+        let y = 0.01 + 1.0 / (1.0 + d * d) + 0.3 / (1.0 + w * w);
+        s.push_str(&format!("{x:.1}\t{y:.6}\n"));
+        x -= 1.0;
+    }
+    s.into_bytes()
+}
+
+#[test]
+fn picked_bands_join_the_written_ones_and_written_bands_win() {
+    let src =
+        "formula: C3H6O\nir:\n  spectrum: s.txt\n  bands:\n    - { at: 1713, strength: medium }\n";
+    let raw = parse_raw(src, "t.yaml").expect("raw");
+    let files = vec![ReferencedFile {
+        written: "s.txt".into(),
+        origin: "dir/s.txt".into(),
+        bytes: two_column_trace(),
+    }];
+    let (case, diagnostics) = validate_with_files(&raw, src, "t.yaml", &files);
+    assert!(diagnostics.iter().all(|d| !d.is_error()), "{diagnostics:?}");
+    let ir = case.expect("case").ir.expect("ir");
+    let spectrum = ir.spectrum.expect("spectrum source");
+    assert_eq!(spectrum.n_overridden, 1, "the picked 1715 band is replaced");
+    let near_1715: Vec<_> = ir
+        .bands
+        .iter()
+        .filter(|b| (b.band.at - 1715.0).abs() < 5.0)
+        .collect();
+    assert_eq!(near_1715.len(), 1);
+    assert_eq!(near_1715[0].band.strength, crate::ir::Strength::Medium);
+    assert!(ir
+        .bands
+        .iter()
+        .any(|b| (b.band.at - 1100.0).abs() < 3.0 && b.place.origin == "dir/s.txt"));
+}
+
+#[test]
+fn metadata_blocks_are_checked() {
+    let with = |extra: &str| format!("{GOOD}{extra}");
+    let d = first_error(&with("sample:\n  received: 2026-02-30\n"));
+    assert_eq!(
+        d.to_string(),
+        "error: t.yaml:14:13: sample.received: date \"2026-02-30\" is not a calendar date written YYYY-MM-DD"
+    );
+    let d = first_error(&with("review:\n  verdict: agreeed\n"));
+    assert_eq!(d.help.as_deref(), Some("did you mean \"agreed\"?"));
+    let d = first_error(&with("sample:\n  analsyt: X\n"));
+    assert_eq!(d.help.as_deref(), Some("did you mean \"analyst\"?"));
+    assert_eq!(d.position.map(|p| (p.line, p.column)), Some((13, 2)));
+    let (case, ds) = parse(
+        &with("conclusion:\n  accepted: { ketone_saturated: 1 }\nnotes: seen\nreview:\n  verdict: agreed\n  date: 2024-02-29\n"),
+        "t.yaml",
+    );
+    assert!(ds.is_empty(), "{ds:?}");
+    let case = case.expect("case");
+    assert_eq!(
+        case.conclusion.expect("c").accepted.get("ketone_saturated"),
+        Some(&1)
+    );
+    assert_eq!(case.review.expect("r").verdict, Some(Verdict::Agreed));
 }

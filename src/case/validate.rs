@@ -5,7 +5,7 @@ use super::model::*;
 use super::raw::*;
 use super::yaml::{locate, locate_value, KeyPath};
 use crate::diag::{closest_match, Diagnostic, Position};
-use crate::ir::{Band, Shape, Strength};
+use crate::ir::{Band, PickOptions, Shape, Strength};
 use crate::rules::Technique;
 
 /// Lowest and highest wavenumber a mid-IR band may have, cm⁻¹ (DESIGN.md, case files).
@@ -49,8 +49,21 @@ impl Ctx<'_> {
     }
 }
 
-/// Validates a raw case; returns the case when no error was found, plus every diagnostic.
+/// Validates a raw case that names no file, or whose files the caller did not read (a
+/// named spectrum file is then an error); see [`validate_with_files`].
 pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Diagnostic>) {
+    validate_with_files(raw, src, origin, &[])
+}
+
+/// Validates a raw case; `files` holds the contents of the files the case refers to (see
+/// [`referenced_files`]), read by the caller. Returns the case when no error was found,
+/// plus every diagnostic.
+pub fn validate_with_files(
+    raw: &RawCase,
+    src: &str,
+    origin: &str,
+    files: &[ReferencedFile],
+) -> (Option<Case>, Vec<Diagnostic>) {
     let mut ctx = Ctx {
         src,
         origin,
@@ -89,7 +102,17 @@ pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Di
         }
     });
     let ms = raw.ms.as_ref().map(|m| validate_ms(&mut ctx, m));
-    let ir = raw.ir.as_ref().map(|i| validate_ir(&mut ctx, i));
+    let ir = raw.ir.as_ref().map(|i| validate_ir(&mut ctx, i, files));
+    let sample = validate_sample(&mut ctx, raw.sample.as_ref());
+    let conclusion = raw.conclusion.as_ref().map(|c| Conclusion {
+        accepted: c.accepted.clone().unwrap_or_default(),
+        accepted_place: c
+            .accepted
+            .as_ref()
+            .map(|_| ctx.place(&KeyPath::key("conclusion").with_key("accepted"))),
+        comments: c.comments.clone(),
+    });
+    let review = raw.review.as_ref().map(|r| validate_review(&mut ctx, r));
     // Without a formula the engine derives candidate formulas from the molecular ion.
     let has_ion = ms.as_ref().is_some_and(|m| m.molecular_ion.is_some());
     if formula.is_none() && raw.formula.is_none() && !has_ion {
@@ -111,8 +134,143 @@ pub fn validate(raw: &RawCase, src: &str, origin: &str) -> (Option<Case>, Vec<Di
         formula,
         ms,
         ir,
+        sample,
+        notes: raw.notes.clone(),
+        conclusion,
+        review,
     });
     (case, ctx.diagnostics)
+}
+
+/// True for a real calendar date written `YYYY-MM-DD`.
+pub fn is_iso_date(text: &str) -> bool {
+    let parts: Vec<&str> = text.split('-').collect();
+    let [y, m, d] = parts.as_slice() else {
+        return false;
+    };
+    if y.len() != 4 || m.len() != 2 || d.len() != 2 {
+        return false;
+    }
+    let (Ok(y), Ok(m), Ok(d)) = (y.parse::<u32>(), m.parse::<u32>(), d.parse::<u32>()) else {
+        return false;
+    };
+    let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
+    let days = match m {
+        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
+        4 | 6 | 9 | 11 => 30,
+        2 if leap => 29,
+        2 => 28,
+        _ => return false,
+    };
+    (1..=days).contains(&d)
+}
+
+fn check_date(ctx: &mut Ctx<'_>, path: &KeyPath, text: Option<&String>) {
+    if let Some(t) = text {
+        if !is_iso_date(t) {
+            ctx.error(
+                path,
+                format!("date \"{t}\" is not a calendar date written YYYY-MM-DD"),
+                Some("write dates as e.g. 2026-03-14".to_owned()),
+            );
+        }
+    }
+}
+
+fn validate_sample(ctx: &mut Ctx<'_>, raw: Option<&RawSample>) -> Sample {
+    let Some(raw) = raw else {
+        return Sample::default();
+    };
+    check_date(
+        ctx,
+        &KeyPath::key("sample").with_key("received"),
+        raw.received.as_ref(),
+    );
+    Sample {
+        received: raw.received.clone(),
+        requested_by: raw.requested_by.clone(),
+        description: raw.description.clone(),
+        technique: raw.technique.clone(),
+        analyst: raw.analyst.clone(),
+    }
+}
+
+fn validate_review(ctx: &mut Ctx<'_>, raw: &RawReview) -> Review {
+    let base = KeyPath::key("review");
+    check_date(ctx, &base.with_key("date"), raw.date.as_ref());
+    let verdict = raw.verdict.as_ref().and_then(|word| {
+        let found = Verdict::ALL
+            .iter()
+            .find(|(_, w)| w == word)
+            .map(|(v, _)| *v);
+        if found.is_none() {
+            let words: Vec<&str> = Verdict::ALL.iter().map(|(_, w)| *w).collect();
+            ctx.bad_word(&base.with_key("verdict"), "verdict", word, &words);
+        }
+        found
+    });
+    Review {
+        reviewer: raw.reviewer.clone(),
+        date: raw.date.clone(),
+        verdict,
+        comments: raw.comments.clone(),
+    }
+}
+
+/// Picks the bands of the named spectrum file; `None` (with an error) when the file was
+/// not supplied or cannot be read.
+fn pick_spectrum(
+    ctx: &mut Ctx<'_>,
+    written: &str,
+    files: &[ReferencedFile],
+) -> Option<(SpectrumSource, Vec<ObservedBand>)> {
+    let path = KeyPath::key("ir").with_key("spectrum");
+    let Some(file) = files.iter().find(|f| f.written == written) else {
+        ctx.error(
+            &path,
+            format!("the spectrum file \"{written}\" was not read"),
+            Some(
+                "run the case through the quiddity command, which reads the files it names"
+                    .to_owned(),
+            ),
+        );
+        return None;
+    };
+    match crate::ir::bands_from_file_contents(&file.bytes, &file.origin, &PickOptions::default()) {
+        Ok(picked) => {
+            let bands = picked
+                .bands()
+                .into_iter()
+                .enumerate()
+                .map(|(i, band)| ObservedBand {
+                    band,
+                    place: Place {
+                        origin: file.origin.clone(),
+                        position: None,
+                        key_path: format!("picked band {}", i + 1),
+                    },
+                })
+                .collect::<Vec<_>>();
+            let source = SpectrumSource {
+                written: written.to_owned(),
+                origin: file.origin.clone(),
+                n_picked: bands.len(),
+                n_overridden: 0,
+                title: picked.header.title.clone(),
+                notes: picked.notes.clone(),
+            };
+            Some((source, bands))
+        }
+        Err(diagnostics) => {
+            ctx.error(
+                &path,
+                format!("the spectrum file \"{written}\" cannot be read"),
+                Some("the problems in the file are listed below".to_owned()),
+            );
+            ctx.diagnostics.extend(diagnostics);
+            None
+        }
+    }
 }
 
 fn validate_ms(ctx: &mut Ctx<'_>, raw: &RawMs) -> MsEvidence {
@@ -196,7 +354,7 @@ fn validate_ms(ctx: &mut Ctx<'_>, raw: &RawMs) -> MsEvidence {
     }
 }
 
-fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr) -> IrEvidence {
+fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEvidence {
     let base = KeyPath::key("ir");
     let technique = raw.technique.as_ref().and_then(|word| {
         let found = Technique::ALL.into_iter().find(|t| t.word() == word);
@@ -206,13 +364,10 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr) -> IrEvidence {
         }
         found
     });
-    if raw.spectrum.is_some() {
-        ctx.error(
-            &base.with_key("spectrum"),
-            "reading spectrum files is not available in this build".to_owned(),
-            Some("list the bands under `ir.bands` instead".to_owned()),
-        );
-    }
+    let picked = raw
+        .spectrum
+        .as_ref()
+        .and_then(|written| pick_spectrum(ctx, written, files));
     let (lo, hi) = BAND_LIMITS_CM1;
     let mut bands = Vec::new();
     for (i, b) in raw.bands.iter().flatten().enumerate() {
@@ -271,9 +426,55 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr) -> IrEvidence {
             Some("add `bands:` or remove the `ir:` block".to_owned()),
         );
     }
+    let spectrum = picked.map(|(mut source, picked_bands)| {
+        // Written bands are the analyst's reading: they replace a picked band of the same
+        // feature, and the rest of the picked bands join them.
+        let mut kept = Vec::new();
+        for p in picked_bands {
+            if bands
+                .iter()
+                .any(|w: &ObservedBand| (w.band.at - p.band.at).abs() < OVERRIDE_CM1)
+            {
+                source.n_overridden += 1;
+            } else {
+                kept.push(p);
+            }
+        }
+        bands.extend(kept);
+        bands.sort_by(|a, b| b.band.at.total_cmp(&a.band.at));
+        source
+    });
     IrEvidence {
         technique,
         bands,
         window,
+        spectrum,
     }
+}
+
+/// Checks the group ids of the analyst's accepted candidate against the catalogue (the
+/// case layer cannot know the catalogue while validating): an unknown id is an error with
+/// its place and a "did you mean" hint. `ring` (plain carbocyclic rings) is always known.
+pub fn check_group_ids(
+    case: &Case,
+    src: &str,
+    catalogue: &crate::rules::Catalogue,
+) -> Vec<Diagnostic> {
+    let mut ctx = Ctx {
+        src,
+        origin: &case.origin,
+        diagnostics: Vec::new(),
+    };
+    let Some(conclusion) = &case.conclusion else {
+        return Vec::new();
+    };
+    let mut known: Vec<&str> = catalogue.groups.iter().map(|g| g.id.as_str()).collect();
+    known.push("ring");
+    for id in conclusion.accepted.keys() {
+        if !known.contains(&id.as_str()) {
+            let path = KeyPath::key("conclusion").with_key("accepted").with_key(id);
+            ctx.bad_word(&path, "group id", id, &known);
+        }
+    }
+    ctx.diagnostics
 }

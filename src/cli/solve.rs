@@ -2,10 +2,13 @@
 //! catalogue, run the engine, print the outcome as aligned text or one JSON document.
 //! Exit 0 with at least one candidate, 1 with none (the conflict is shown), 2 on bad input.
 
+use super::casefile::{
+    self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
+};
 use super::{io_failure, print_json, CommandResult, Failure, Status};
-use crate::case;
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
+use crate::report::record::Record;
 use crate::rules::Catalogue;
 use clap::Args;
 use std::io::Write;
@@ -31,6 +34,21 @@ pub struct SolveArgs {
     /// Use the rules catalogue in DIR instead of the built-in one.
     #[arg(long, value_name = "DIR")]
     rules: Option<PathBuf>,
+    /// Write a report to FILE; the format follows the extension (.txt .md .json .html).
+    /// May be given more than once.
+    #[arg(long, value_name = "FILE")]
+    report: Vec<PathBuf>,
+    /// Write a record (conclusion, version, rules digest, input digests) beside the case
+    /// as NAME.record.json, for `quiddity review`.
+    #[arg(long)]
+    record: bool,
+    /// Put the current UTC time in the reports (they are otherwise byte-for-byte
+    /// reproducible).
+    #[arg(long)]
+    timestamp: bool,
+    /// Let the case name files outside its own directory tree.
+    #[arg(long)]
+    allow_outside: bool,
 }
 
 /// Runs `quiddity solve`.
@@ -48,25 +66,54 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     if args.max == 0 {
         return Err(Diagnostic::error("--max", "--max must be at least 1").into());
     }
-    let origin = args.case.display().to_string();
-    let src = std::fs::read_to_string(&args.case)
-        .map_err(|e| Diagnostic::error(&origin, format!("cannot read case file: {e}")))?;
-    let (case, diagnostics) = case::parse(&src, &origin);
-    let Some(case) = case else {
-        return Err(diagnostics.into());
-    };
+    let loaded = load_case(
+        &args.case,
+        &LoadOptions {
+            allow_outside: args.allow_outside,
+        },
+    )?;
+    let formats = args
+        .report
+        .iter()
+        .map(|p| format_of(p))
+        .collect::<Result<Vec<_>, _>>()?;
     let mut err = std::io::stderr().lock();
-    for d in diagnostics.iter().filter(|d| !d.is_error()) {
+    for d in &loaded.warnings {
         let _ = writeln!(err, "{}", d.render());
     }
     let catalogue = load_catalogue(args.rules.as_deref())?;
+    casefile::check_against_catalogue(&loaded, &catalogue)?;
     let options = SolveOptions {
         tolerance_cm1: args.tolerance,
         max_candidates: args.max,
         enumeration_limit: args.limit.max(args.max),
         ..SolveOptions::default()
     };
-    let outcome = engine::solve(&case, &catalogue, &options);
+    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let stamp = args.timestamp.then(casefile::utc_now);
+    for (path, format) in args.report.iter().zip(formats) {
+        refuse_input_overwrite(&loaded, path)?;
+        let text = casefile::report_text(&loaded, &outcome, format, stamp.clone());
+        write_atomic(path, text.as_bytes(), true).map_err(|e| {
+            Diagnostic::error(
+                path.display().to_string(),
+                format!("cannot write the report: {e}"),
+            )
+        })?;
+        let _ = writeln!(err, "report written: {}", path.display());
+    }
+    if args.record {
+        let path = casefile::record_path(&args.case);
+        refuse_input_overwrite(&loaded, &path)?;
+        let record = Record::new(&outcome, loaded.inputs.clone(), &options);
+        write_atomic(&path, record.to_json().as_bytes(), true).map_err(|e| {
+            Diagnostic::error(
+                path.display().to_string(),
+                format!("cannot write the record: {e}"),
+            )
+        })?;
+        let _ = writeln!(err, "record written: {}", path.display());
+    }
     if args.json {
         print_json(out, &outcome)?;
     } else {
@@ -81,7 +128,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
 }
 
 /// The built-in catalogue, or every `*.yaml` of `dir`; any catalogue error is exit 2.
-fn load_catalogue(dir: Option<&Path>) -> Result<Catalogue, Failure> {
+pub(crate) fn load_catalogue(dir: Option<&Path>) -> Result<Catalogue, Failure> {
     let Some(dir) = dir else {
         return crate::rules::embedded_catalogue().map_err(Failure::from);
     };
