@@ -178,7 +178,9 @@ pub fn check_against_catalogue(loaded: &LoadedCase, catalogue: &Catalogue) -> Re
 
 /// Solves a loaded case.
 pub fn solve(loaded: &LoadedCase, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
-    engine::solve(&loaded.case, catalogue, options)
+    let mut outcome = engine::solve(&loaded.case, catalogue, options);
+    engine::structures::attach(&mut outcome, &loaded.case, catalogue, options.tolerance_cm1);
+    outcome
 }
 
 /// The provenance of a report on `loaded`.

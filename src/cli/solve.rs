@@ -164,6 +164,9 @@ pub(crate) fn load_catalogue(dir: Option<&Path>) -> Result<Catalogue, Failure> {
 /// How many candidates get their full explanation in the text output.
 const DETAILED: usize = 3;
 
+/// Structures listed per candidate in the terminal output.
+const STRUCTURES_SHOWN: usize = 8;
+
 /// The terminal rendering: a header, the ranked table, details of the first few, ruled
 /// out, near misses, conflicts, discriminating checks and the cautions.
 pub fn render_text(o: &Outcome) -> String {
@@ -213,10 +216,36 @@ pub fn render_text(o: &Outcome) -> String {
                 ""
             }
         ));
-        s.push_str(" rank   score  groups\n");
+        if !o.formula_leads.is_empty() {
+            s.push_str("formulas from the molecular ion (no formula stated), each solved:\n");
+            for l in &o.formula_leads {
+                let ppm = l
+                    .error_ppm
+                    .map(|e| format!("{e:+.1} ppm"))
+                    .unwrap_or_else(|| "nominal".to_owned());
+                s.push_str(&format!(
+                    "  {:>3}  {:<14} DBE {:<4} {:<10} MS score {:>6.2}  {} consistent\n",
+                    l.rank, l.formula, l.dbe, ppm, l.ms_score, l.n_consistent
+                ));
+            }
+            s.push('\n');
+        }
+        let formula_width = o
+            .candidates
+            .iter()
+            .filter_map(|c| c.formula.as_ref().map(|f| f.chars().count()))
+            .max();
+        match formula_width {
+            Some(w) => s.push_str(&format!(" rank   score  {:<w$}  groups\n", "formula")),
+            None => s.push_str(" rank   score  groups\n"),
+        }
         for c in &o.candidates {
+            let formula = match (formula_width, &c.formula) {
+                (Some(w), Some(f)) => format!("{f:<w$}  "),
+                _ => String::new(),
+            };
             s.push_str(&format!(
-                "{:>5}  {:>6.2}  {}\n",
+                "{:>5}  {:>6.2}  {formula}{}\n",
                 c.rank,
                 c.score,
                 groups_text(&c.groups)
@@ -257,6 +286,27 @@ pub fn render_text(o: &Outcome) -> String {
             }
             for w in &c.weakening {
                 s.push_str(&format!("    against: {w}\n"));
+            }
+            if let Some(st) = &c.structures {
+                match (&st.note, st.count) {
+                    (Some(note), _) => s.push_str(&format!("    structures {note}\n")),
+                    (None, Some(n)) => {
+                        s.push_str(&format!(
+                            "    structures {n} constitutional isomer{}, best IR feature score first\n",
+                            if n == 1 { "" } else { "s" }
+                        ));
+                        for r in st.ranked.iter().take(STRUCTURES_SHOWN) {
+                            s.push_str(&format!("      {:>5.1}  {}\n", r.score, r.smiles));
+                        }
+                        if st.ranked.len() > STRUCTURES_SHOWN {
+                            s.push_str(&format!(
+                                "      ... {} more (see --json)\n",
+                                st.ranked.len() - STRUCTURES_SHOWN
+                            ));
+                        }
+                    }
+                    (None, None) => {}
+                }
             }
         }
     }
