@@ -4,8 +4,8 @@
 
 #![allow(clippy::unwrap_used, clippy::expect_used)] // a test panics on purpose
 
-use quiddity::cli::casefile::{load_case, report_text, LoadOptions};
-use quiddity::engine::{solve, SolveOptions};
+use quiddity::cli::casefile::{load_case, report_text, solve as casefile_solve, LoadOptions};
+use quiddity::engine::SolveOptions;
 use quiddity::report::{Format, REPORT_CAUTIONS};
 use quiddity::rules::embedded_catalogue;
 use std::path::{Path, PathBuf};
@@ -36,7 +36,7 @@ fn every_demo_case_matches_its_golden_reports_in_every_format() {
     for path in &cases {
         let loaded = load_case(path, &LoadOptions::default())
             .unwrap_or_else(|f| panic!("{}: {:?}", path.display(), f.diagnostics));
-        let outcome = solve(&loaded.case, &catalogue, &SolveOptions::default());
+        let outcome = casefile_solve(&loaded, &catalogue, &SolveOptions::default());
         let stem = path.file_stem().unwrap().to_string_lossy().into_owned();
         for (format, ext) in Format::ALL {
             let text = report_text(&loaded, &outcome, format, None);
@@ -72,7 +72,7 @@ fn every_report_format_carries_the_cautions_and_the_input_digests() {
     let catalogue = embedded_catalogue().expect("catalogue");
     let path = Path::new("cases/lab-0111-spectrum-ketone.yaml");
     let loaded = load_case(path, &LoadOptions::default()).expect("demo case loads");
-    let outcome = solve(&loaded.case, &catalogue, &SolveOptions::default());
+    let outcome = casefile_solve(&loaded, &catalogue, &SolveOptions::default());
     assert_eq!(loaded.inputs.len(), 2, "case file and spectrum file");
     for (format, _) in Format::ALL {
         let text = report_text(&loaded, &outcome, format, None);
@@ -106,7 +106,7 @@ fn a_timestamp_appears_only_when_asked_for() {
         &LoadOptions::default(),
     )
     .unwrap();
-    let outcome = solve(&loaded.case, &catalogue, &SolveOptions::default());
+    let outcome = casefile_solve(&loaded, &catalogue, &SolveOptions::default());
     let plain = report_text(&loaded, &outcome, Format::Text, None);
     assert!(!plain.contains("generated"));
     let stamped = report_text(
@@ -126,7 +126,7 @@ fn the_json_report_parses_and_names_the_contract_fields() {
         &LoadOptions::default(),
     )
     .unwrap();
-    let outcome = solve(&loaded.case, &catalogue, &SolveOptions::default());
+    let outcome = casefile_solve(&loaded, &catalogue, &SolveOptions::default());
     let json: serde_json::Value =
         serde_json::from_str(&report_text(&loaded, &outcome, Format::Json, None)).unwrap();
     assert_eq!(json["report_format"], "quiddity-report/1");

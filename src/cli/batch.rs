@@ -11,7 +11,7 @@ use super::solve::load_catalogue;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::SolveOptions;
-use crate::report::view::groups_text;
+use crate::report::view::candidate_text;
 use crate::report::Format;
 use crate::rules::Catalogue;
 use clap::Args;
@@ -154,7 +154,7 @@ pub fn process_one(
     }
     let outcome = casefile::solve(&loaded, catalogue, solve);
     row.case = outcome.case.clone();
-    row.top = outcome.candidates.first().map(|c| groups_text(&c.groups));
+    row.top = outcome.candidates.first().map(candidate_text);
     row.n_candidates = outcome.n_consistent;
     row.n_conflicts = outcome.conflicts.len();
     let stem = path

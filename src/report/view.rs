@@ -150,9 +150,12 @@ pub struct FormulaFacts {
 pub struct CandidateView {
     /// 1-based rank.
     pub rank: usize,
+    /// The candidate's formula when the case stated none (it came from the molecular ion).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub formula: Option<String>,
     /// Group counts.
     pub groups: BTreeMap<String, u32>,
-    /// The same in words.
+    /// The same in words (prefixed with the formula when it came from the molecular ion).
     pub groups_text: String,
     /// Evidence score.
     pub score: f64,
@@ -166,6 +169,9 @@ pub struct CandidateView {
     pub supporting: Vec<String>,
     /// Evidence against.
     pub weakening: Vec<String>,
+    /// Constitutional isomers with these groups, when few enough to list.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub structures: Option<crate::engine::StructureSection>,
 }
 
 /// Observed bands against the leading candidates.
@@ -214,6 +220,15 @@ impl BandRow {
     /// The kind of the leading candidate's explanation (`none` without candidates).
     pub fn kind(&self) -> &str {
         self.cells.first().map_or("none", |c| c.kind.as_str())
+    }
+}
+
+/// A candidate in words: its groups, prefixed with its formula when the formula came from
+/// the molecular ion (`C4H8O2: ester_saturated`).
+pub fn candidate_text(c: &crate::engine::Candidate) -> String {
+    match &c.formula {
+        Some(f) => format!("{f}: {}", groups_text(&c.groups)),
+        None => groups_text(&c.groups),
     }
 }
 
@@ -311,14 +326,16 @@ pub fn build(
         .iter()
         .map(|c| CandidateView {
             rank: c.rank,
+            formula: c.formula.clone(),
             groups: c.groups.clone(),
-            groups_text: groups_text(&c.groups),
+            groups_text: candidate_text(c),
             score: round(c.score, 4),
             skeleton_carbons: c.skeleton_carbons,
             dbe_accounting: c.dbe_accounting.clone(),
             atom_accounting: c.atom_accounting.clone(),
             supporting: c.supporting.clone(),
             weakening: c.weakening.clone(),
+            structures: c.structures.clone(),
         })
         .collect();
     let band_table = band_table(case, outcome);
