@@ -25,7 +25,7 @@ pub mod spectrum;
 pub mod synth;
 
 pub use band::{Band, Shape, Strength};
-pub use pick::{BandKind, PickParams, PickStats, PickedBand};
+pub use pick::{BandKind, PickParams, PickStats, PickedBand, SamplePhase};
 pub use spectrum::{
     HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits,
 };
@@ -207,7 +207,9 @@ pub fn bands_from_file_contents(
     let (mut bands, stats) = match &read.data {
         SpectrumData::Trace(trace) => {
             let prepared = prepare_trace(trace, options.correct_baseline, &mut notes);
-            let (bands, stats) = pick::pick_bands(&prepared.x, &prepared.y, &options.pick);
+            let (bands, stats, pick_notes) =
+                pick::pick_bands_noted(&prepared.x, &prepared.y, &options.pick);
+            notes.extend(pick_notes);
             (bands, Some(stats))
         }
         SpectrumData::PeakTable(table) => {
