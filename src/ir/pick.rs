@@ -548,8 +548,11 @@ pub fn pick_bands_noted(
 
     let mut notes = Vec::new();
     if params.phase == SamplePhase::Vapour {
-        mark_line_forests(&mut bands, spacing, &mut notes);
-        merge_contours(x, &smooth, &mut bands, &mut notes);
+        // Contours first, so that a Q branch or a branch narrowed by its neighbours is not
+        // taken for a water line; then the lines left over.
+        let forests = find_forests(&bands, spacing);
+        merge_contours(x, &smooth, &mut bands, &forests, &mut notes);
+        mark_line_forests(&mut bands, &forests, &mut notes);
     }
     mark_co2(&mut bands, params.phase, &mut notes);
 
@@ -586,28 +589,28 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
 /// the low one widened to 2000 because bend lines reach about 1980).
 pub const FOREST_WINDOWS_CM1: [(f64, f64); 2] = [(1300.0, 2000.0), (3500.0, 3950.0)];
 
-/// A line of a forest is at most this wide (FWHM, cm⁻¹), or 2.5 point spacings when that
-/// is more. Water-vapour lines are far narrower than any spectrometer's resolution, so they
+/// A line of a forest is at most this wide (FWHM, cm⁻¹), or 3 point spacings when that is
+/// more. Water-vapour lines are far narrower than any spectrometer's resolution, so they
 /// appear with the instrument's line width: about 1.2–1.5 × the nominal resolution after
 /// apodisation, i.e. 5–6 cm⁻¹ at 4 cm⁻¹ and 10–12 cm⁻¹ at 8 cm⁻¹ resolution (common
-/// practice). A P or R branch of an organic molecule's band spans about 10–20 cm⁻¹ even
-/// at 4 cm⁻¹ resolution, so most survive this test; those that do not are saved by
-/// [`FOREST_STANDOUT`].
-pub const FOREST_LINE_FWHM_CM1: f64 = 12.0;
+/// practice), a little more where two lines blend. A P or R branch of an organic
+/// molecule's band spans about 10–20 cm⁻¹, so some branches pass this test too: they are
+/// merged into contours first and saved by [`FOREST_STANDOUT`].
+pub const FOREST_LINE_FWHM_CM1: f64 = 14.0;
 
-/// Half-width of the neighbourhood in which narrow lines are counted, cm⁻¹.
-pub const FOREST_NEIGHBOURHOOD_CM1: f64 = 100.0;
+/// A window holds a forest when at least this many narrow maxima lie in it: water vapour
+/// gives dozens of lines in each window even after a fair background ratio, while one
+/// vapour-phase band gives at most three maxima (P, Q, R) and two neighbouring bands six.
+pub const FOREST_MIN_LINES: usize = 8;
 
-/// A forest needs at least this many narrow lines (the line itself included) within
-/// [`FOREST_NEIGHBOURHOOD_CM1`]: water vapour gives dozens of lines in each window, while
-/// one vapour-phase band gives at most three maxima (P, Q, R) and two neighbouring bands six.
-pub const FOREST_MIN_LINES: usize = 7;
-
-/// A narrow line taller than this multiple of the upper quartile of the narrow lines'
-/// heights around it stands out of the forest and is read as a band of the sample (a Q
-/// branch, a free O–H): residual water lines after a background ratio are of comparable
-/// size, whereas a sample band that happens to be narrow usually dominates them.
-pub const FOREST_STANDOUT: f64 = 3.0;
+/// A narrow line more prominent than this multiple of the median prominence of the
+/// window's narrow lines stands out of the forest and is read as a band of the sample (a Q
+/// branch, a free O–H). Residual water lines after a background ratio are of comparable
+/// size: the picked ones (the top one to two decades of a line list) mostly lie within
+/// 4 × their median, whereas a sample band that happens to be narrow usually dominates
+/// them. The median, not a higher quantile, because the sample's own narrow branches in
+/// the window (a handful among dozens of lines) must not raise the bar.
+pub const FOREST_STANDOUT: f64 = 4.0;
 
 /// P–R separation range of a contour, cm⁻¹. The Gerhard–Dennison estimate
 /// Δν(PR) ≈ 2.36·√(B·T) (B in cm⁻¹, T in K; Gerhard & Dennison, Phys. Rev. 43 (1933) 197,
@@ -625,18 +628,22 @@ pub const CONTOUR_MAX_SEPARATION_CM1: f64 = 35.0;
 pub const CONTOUR_HEIGHT_RATIO: f64 = 0.4;
 
 /// The trace between the branches stays at least this fraction of the lower maximum: the
-/// branches of one band overlap (a shallow dip, typically to 40–70 % of the maxima), while
-/// two separate narrow lines 8–35 cm⁻¹ apart fall nearly to the baseline between them.
-pub const CONTOUR_VALLEY_FRACTION: f64 = 0.3;
+/// branches of one band overlap (the dip typically reaches 25–70 % of the maxima; two
+/// Gaussian branches of 10.8 cm⁻¹ FWHM 22 cm⁻¹ apart, a small molecule at 4 cm⁻¹
+/// resolution, still keep 11 %), while two separate narrow lines 8–35 cm⁻¹ apart fall
+/// nearly to the baseline between them. Overlapping
+/// water lines that pass this test are caught by the forest test instead.
+pub const CONTOUR_VALLEY_FRACTION: f64 = 0.1;
 
 /// A CO2 band lies in 2330–2370 cm⁻¹ (asymmetric stretch, P and R maxima near 2360 and
-/// 2340, centre 2349; common practice) and is at most this wide (FWHM, cm⁻¹). Organic
+/// 2340, centre 2349; common practice) and is at most this wide (FWHM, cm⁻¹; the merged
+/// P/R envelope measures about 40–50 cm⁻¹ at 8 cm⁻¹ resolution). Organic
 /// groups absorbing there are rare (P–H near 2280–2440 is the one to keep in mind) and
 /// isocyanates (2240–2290) and nitriles (2210–2260) lie below the window.
 pub const CO2_WINDOW_CM1: (f64, f64) = (2330.0, 2370.0);
 
 /// See [`CO2_WINDOW_CM1`].
-pub const CO2_MAX_FWHM_CM1: f64 = 45.0;
+pub const CO2_MAX_FWHM_CM1: f64 = 60.0;
 
 /// The CO2 bend (Q branch at 667 cm⁻¹, common practice), flagged in the vapour phase
 /// only when the stretch was: C–Cl stretches also lie near 650–750 cm⁻¹.
@@ -646,47 +653,70 @@ fn in_window(at: f64, (lo, hi): (f64, f64)) -> bool {
     at >= lo && at <= hi
 }
 
-/// Marks the narrow maxima of a water-vapour line forest ([`BandKind::LineForest`]).
-fn mark_line_forests(bands: &mut [PickedBand], spacing: f64, notes: &mut Vec<String>) {
-    let max_width = FOREST_LINE_FWHM_CM1.max(2.5 * spacing);
+/// A water-vapour line forest found in one of [`FOREST_WINDOWS_CM1`].
+#[derive(Clone, Copy, Debug)]
+struct Forest {
+    window: (f64, f64),
+    /// Median prominence of the window's narrow lines.
+    median: f64,
+    /// Widest FWHM a line may have, cm⁻¹.
+    max_width: f64,
+}
+
+impl Forest {
+    /// True when a band of this position, width and prominence reads as one of its lines.
+    fn holds(&self, at: f64, fwhm: Option<f64>, prominence: f64) -> bool {
+        in_window(at, self.window)
+            && fwhm.is_some_and(|w| w <= self.max_width)
+            && prominence <= FOREST_STANDOUT * self.median
+    }
+}
+
+/// Finds the water-vapour line forests: a window holds one when at least
+/// [`FOREST_MIN_LINES`] narrow maxima lie in it. Statistics are taken over the whole window
+/// so that the sparse edges of a forest are recognised too.
+fn find_forests(bands: &[PickedBand], spacing: f64) -> Vec<Forest> {
+    let max_width = FOREST_LINE_FWHM_CM1.max(3.0 * spacing);
+    let mut forests = Vec::new();
     for window in FOREST_WINDOWS_CM1 {
-        let narrow: Vec<usize> = (0..bands.len())
-            .filter(|&i| {
-                let b = &bands[i];
+        let mut prominences: Vec<f64> = bands
+            .iter()
+            .filter(|b| {
                 b.kind == BandKind::Peak
                     && in_window(b.at, window)
                     && b.fwhm.is_some_and(|w| w <= max_width)
             })
+            .map(|b| b.prominence)
             .collect();
-        let mut marked = Vec::new();
-        for &i in &narrow {
-            let around: Vec<f64> = narrow
-                .iter()
-                .filter(|&&j| (bands[j].at - bands[i].at).abs() <= FOREST_NEIGHBOURHOOD_CM1)
-                .map(|&j| bands[j].prominence)
-                .collect();
-            if around.len() < FOREST_MIN_LINES {
-                continue;
+        if prominences.len() < FOREST_MIN_LINES {
+            continue;
+        }
+        prominences.sort_by(f64::total_cmp);
+        forests.push(Forest {
+            window,
+            median: prominences[prominences.len() / 2],
+            max_width,
+        });
+    }
+    forests
+}
+
+/// Marks the maxima that read as lines of a forest ([`BandKind::LineForest`]).
+fn mark_line_forests(bands: &mut [PickedBand], forests: &[Forest], notes: &mut Vec<String>) {
+    for forest in forests {
+        let mut marked = 0;
+        for b in bands.iter_mut() {
+            if matches!(b.kind, BandKind::Peak | BandKind::LineForest)
+                && forest.holds(b.at, b.fwhm, b.prominence)
+            {
+                b.kind = BandKind::LineForest;
+                marked += 1;
             }
-            let mut sorted = around.clone();
-            sorted.sort_by(f64::total_cmp);
-            let upper_quartile = sorted[(3 * sorted.len()) / 4];
-            if bands[i].prominence > FOREST_STANDOUT * upper_quartile {
-                continue;
-            }
-            marked.push(i);
         }
-        for &i in &marked {
-            bands[i].kind = BandKind::LineForest;
-        }
-        if !marked.is_empty() {
-            notes.push(format!(
-                "vapour phase: {} narrow line(s) in {:.0}-{:.0} cm-1 read as a water-vapour line forest; kept in the list as weak (kind line-forest) and left out of the strength scale",
-                marked.len(),
-                window.0,
-                window.1
-            ));
-        }
+        notes.push(format!(
+            "vapour phase: {marked} narrow line(s) in {:.0}-{:.0} cm-1 read as a water-vapour line forest; kept in the list as weak (kind line-forest) and left out of the strength scale",
+            forest.window.0, forest.window.1
+        ));
     }
 }
 
@@ -716,7 +746,15 @@ fn branch_pair(x: &[f64], smooth: &[f64], p: &PickedBand, r: &PickedBand) -> boo
 /// [`BandKind::Contour`] at the band centre: the Q branch when there is one, else the
 /// midpoint of P and R. Its height is the tallest branch; its width runs from P's low
 /// half-height point to R's high one.
-fn merge_contours(x: &[f64], smooth: &[f64], bands: &mut Vec<PickedBand>, notes: &mut Vec<String>) {
+/// Two or three narrow lines of a forest window that pass for branches but do not stand out
+/// of the forest are overlapping water lines: they are marked as forest lines instead.
+fn merge_contours(
+    x: &[f64],
+    smooth: &[f64],
+    bands: &mut Vec<PickedBand>,
+    forests: &[Forest],
+    notes: &mut Vec<String>,
+) {
     let mut peaks: Vec<PickedBand> = Vec::new();
     let mut rest: Vec<PickedBand> = Vec::new();
     for b in bands.drain(..) {
@@ -757,6 +795,26 @@ fn merge_contours(x: &[f64], smooth: &[f64], bands: &mut Vec<PickedBand>, notes:
             continue;
         }
         let group = &peaks[i..i + members];
+        // Overlapping water lines: every member in a forest window, none standing out of
+        // the forest by its height, at least one as narrow as a line (the others may have
+        // been measured wider against their neighbours).
+        let forest_group = forests.iter().any(|f| {
+            group
+                .iter()
+                .all(|b| in_window(b.at, f.window) && b.height <= FOREST_STANDOUT * f.median)
+                && group
+                    .iter()
+                    .any(|b| b.fwhm.is_some_and(|w| w <= f.max_width))
+        });
+        if forest_group {
+            for b in group {
+                let mut line = b.clone();
+                line.kind = BandKind::LineForest;
+                out.push(line);
+            }
+            i += members;
+            continue;
+        }
         let (p, r) = (&group[0], &group[members - 1]);
         let centre = if triplet {
             group[1].at
