@@ -1,1 +1,39 @@
-//! Case files: the raw YAML schema, the validated case, path safety and input digests.
+//! Case files: the raw YAML schema, the validated case, and the parse step that turns
+//! case-file text into a [`Case`] plus diagnostics. Only the CLI reads files; it calls
+//! [`parse_raw`], reads what [`referenced_files`] lists, then [`validate`].
+
+pub mod digest;
+mod formula;
+pub mod model;
+pub mod paths;
+pub mod raw;
+mod validate;
+pub mod yaml;
+
+pub use model::*;
+pub use raw::{
+    referenced_files, RawBand, RawCase, RawConclusion, RawIr, RawMs, RawReview, RawSample,
+};
+pub use validate::{
+    check_group_ids, is_iso_date, validate, validate_with_files, BAND_LIMITS_CM1, DEFAULT_PPM,
+};
+
+use crate::diag::Diagnostic;
+
+/// Parses case-file text into its raw form; a YAML or schema error (unknown key, wrong
+/// type) is one diagnostic with its place.
+pub fn parse_raw(src: &str, origin: &str) -> Result<RawCase, Box<Diagnostic>> {
+    yaml::from_str::<RawCase>(src, origin)
+}
+
+/// Parses and validates case-file text: the case when it is usable, and every problem
+/// found (errors and warnings) with file, line, column and key path.
+pub fn parse(src: &str, origin: &str) -> (Option<Case>, Vec<Diagnostic>) {
+    match parse_raw(src, origin) {
+        Ok(raw) => validate(&raw, src, origin),
+        Err(d) => (None, vec![*d]),
+    }
+}
+
+#[cfg(test)]
+mod tests;

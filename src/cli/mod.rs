@@ -6,9 +6,13 @@
 //! (no consistent candidate, with its conflict shown), 2 = bad input or usage.
 
 mod bands;
+pub mod batch;
+pub mod casefile;
 mod formula;
 mod from_mass;
 mod isomers;
+mod new_case;
+pub mod review;
 mod rules;
 mod solve;
 
@@ -50,6 +54,12 @@ enum Command {
     FromMass(from_mass::FromMassArgs),
     /// Constitutional isomers of a formula, optionally with an exact group multiset.
     Isomers(isomers::IsomersArgs),
+    /// Recompute a case and compare with its record and the analyst's conclusion.
+    Review(review::ReviewArgs),
+    /// Solve every case file of a directory in parallel and write one report per case.
+    Batch(batch::BatchArgs),
+    /// Write a commented template case file.
+    NewCase(new_case::NewCaseArgs),
 }
 
 /// What a subcommand reports back to `run`: the exit status it earned.
@@ -108,6 +118,9 @@ where
         Command::Bands(a) => bands::run(a, &mut out),
         Command::FromMass(a) => from_mass::run(a, &mut out),
         Command::Isomers(a) => isomers::run(a, &mut out),
+        Command::Review(a) => review::run(a, &mut out),
+        Command::Batch(a) => batch::run(a, &mut out),
+        Command::NewCase(a) => new_case::run(a, &mut out),
     };
     let _ = out.flush();
     match result {

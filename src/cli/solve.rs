@@ -1,19 +1,339 @@
-//! `quiddity solve`.
+//! `quiddity solve CASE.yaml`: read the case file (and what it references), load the
+//! catalogue, run the engine, print the outcome as aligned text or one JSON document.
+//! Exit 0 with at least one candidate, 1 with none (the conflict is shown), 2 on bad input.
 
-use super::{not_built, CommandResult};
+use super::casefile::{
+    self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
+};
+use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::diag::Diagnostic;
+use crate::engine::{self, Outcome, SolveOptions};
+use crate::report::record::Record;
+use crate::rules::Catalogue;
 use clap::Args;
 use std::io::Write;
+use std::path::{Path, PathBuf};
 
 /// Arguments of `quiddity solve`.
 #[derive(Debug, Args)]
 pub struct SolveArgs {
+    /// The case file (YAML).
+    case: PathBuf,
     /// Print one JSON document on stdout.
     #[arg(long)]
     json: bool,
+    /// Band-position tolerance on each side of a rule's range, cm⁻¹.
+    #[arg(long, value_name = "CM1", default_value_t = engine::DEFAULT_TOLERANCE_CM1)]
+    tolerance: f64,
+    /// Show at most N candidates.
+    #[arg(long, value_name = "N", default_value_t = 25)]
+    max: usize,
+    /// Stop collecting consistent combinations after N (the output says when it did).
+    #[arg(long, value_name = "N", default_value_t = SolveOptions::default().enumeration_limit)]
+    limit: usize,
+    /// Use the rules catalogue in DIR instead of the built-in one.
+    #[arg(long, value_name = "DIR")]
+    rules: Option<PathBuf>,
+    /// Write a report to FILE; the format follows the extension (.txt .md .json .html).
+    /// May be given more than once.
+    #[arg(long, value_name = "FILE")]
+    report: Vec<PathBuf>,
+    /// Write a record (conclusion, version, rules digest, input digests) beside the case
+    /// as NAME.record.json, for `quiddity review`.
+    #[arg(long)]
+    record: bool,
+    /// Put the current UTC time in the reports (they are otherwise byte-for-byte
+    /// reproducible).
+    #[arg(long)]
+    timestamp: bool,
+    /// Let the case name files outside its own directory tree.
+    #[arg(long)]
+    allow_outside: bool,
 }
 
 /// Runs `quiddity solve`.
-pub fn run(args: &SolveArgs, _out: &mut dyn Write) -> CommandResult {
-    let _ = args.json;
-    not_built("quiddity solve")
+pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
+    if !(args.tolerance.is_finite() && (0.0..=100.0).contains(&args.tolerance)) {
+        return Err(Diagnostic::error(
+            "--tolerance",
+            format!(
+                "tolerance {} cm⁻¹ must be between 0 and 100",
+                args.tolerance
+            ),
+        )
+        .into());
+    }
+    if args.max == 0 {
+        return Err(Diagnostic::error("--max", "--max must be at least 1").into());
+    }
+    let loaded = load_case(
+        &args.case,
+        &LoadOptions {
+            allow_outside: args.allow_outside,
+        },
+    )?;
+    let formats = args
+        .report
+        .iter()
+        .map(|p| format_of(p))
+        .collect::<Result<Vec<_>, _>>()?;
+    let mut err = std::io::stderr().lock();
+    for d in &loaded.warnings {
+        let _ = writeln!(err, "{}", d.render());
+    }
+    let catalogue = load_catalogue(args.rules.as_deref())?;
+    casefile::check_against_catalogue(&loaded, &catalogue)?;
+    let options = SolveOptions {
+        tolerance_cm1: args.tolerance,
+        max_candidates: args.max,
+        enumeration_limit: args.limit.max(args.max),
+        ..SolveOptions::default()
+    };
+    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let stamp = args.timestamp.then(casefile::utc_now);
+    for (path, format) in args.report.iter().zip(formats) {
+        refuse_input_overwrite(&loaded, path)?;
+        let text = casefile::report_text(&loaded, &outcome, format, stamp.clone());
+        write_atomic(path, text.as_bytes(), true).map_err(|e| {
+            Diagnostic::error(
+                path.display().to_string(),
+                format!("cannot write the report: {e}"),
+            )
+        })?;
+        let _ = writeln!(err, "report written: {}", path.display());
+    }
+    if args.record {
+        let path = casefile::record_path(&args.case);
+        refuse_input_overwrite(&loaded, &path)?;
+        let record = Record::new(&outcome, loaded.inputs.clone(), &options);
+        write_atomic(&path, record.to_json().as_bytes(), true).map_err(|e| {
+            Diagnostic::error(
+                path.display().to_string(),
+                format!("cannot write the record: {e}"),
+            )
+        })?;
+        let _ = writeln!(err, "record written: {}", path.display());
+    }
+    if args.json {
+        print_json(out, &outcome)?;
+    } else {
+        out.write_all(render_text(&outcome).as_bytes())
+            .map_err(io_failure)?;
+    }
+    Ok(if outcome.candidates.is_empty() {
+        Status::Negative
+    } else {
+        Status::Success
+    })
+}
+
+/// The built-in catalogue, or every `*.yaml` of `dir`; any catalogue error is exit 2.
+pub(crate) fn load_catalogue(dir: Option<&Path>) -> Result<Catalogue, Failure> {
+    let Some(dir) = dir else {
+        return crate::rules::embedded_catalogue().map_err(Failure::from);
+    };
+    let origin = dir.display().to_string();
+    let entries = std::fs::read_dir(dir)
+        .map_err(|e| Diagnostic::error(&origin, format!("cannot read rules directory: {e}")))?;
+    let mut files = Vec::new();
+    for entry in entries.flatten() {
+        let name = entry.file_name().to_string_lossy().into_owned();
+        if name.ends_with(".yaml") {
+            let text = std::fs::read_to_string(entry.path()).map_err(|e| {
+                Diagnostic::error(
+                    entry.path().display().to_string(),
+                    format!("cannot read rules file: {e}"),
+                )
+            })?;
+            files.push((name, text));
+        }
+    }
+    if files.is_empty() {
+        return Err(Diagnostic::error(origin, "no rules files (*.yaml) in this directory").into());
+    }
+    crate::rules::load_checked(files.iter().map(|(n, t)| (n.as_str(), t.as_str()))).map_err(
+        |mut ds| {
+            for d in &mut ds {
+                d.origin = dir.join(&d.origin).display().to_string();
+            }
+            Failure::from(ds)
+        },
+    )
+}
+
+/// How many candidates get their full explanation in the text output.
+const DETAILED: usize = 3;
+
+/// The terminal rendering: a header, the ranked table, details of the first few, ruled
+/// out, near misses, conflicts, discriminating checks and the cautions.
+pub fn render_text(o: &Outcome) -> String {
+    let mut s = String::new();
+    let mut head = Vec::new();
+    if let Some(c) = &o.case {
+        head.push(format!("case {c}"));
+    }
+    if let Some(f) = &o.formula {
+        head.push(format!("formula {f}"));
+    }
+    if let Some(d) = o.dbe {
+        head.push(format!("DBE {d}"));
+    }
+    head.push(format!(
+        "technique {}",
+        o.technique.as_deref().unwrap_or("not stated")
+    ));
+    head.push(format!("tolerance ±{} cm⁻¹", o.tolerance_cm1));
+    s.push_str(&head.join(" · "));
+    s.push('\n');
+    for c in &o.evidence_checks {
+        s.push_str(&format!(
+            "  {} {}: {}\n",
+            if c.agrees { "ok  " } else { "FAIL" },
+            c.item,
+            c.detail
+        ));
+    }
+    s.push('\n');
+    if o.candidates.is_empty() {
+        s.push_str("no consistent candidate\n");
+    } else {
+        let shown = o.candidates.len();
+        s.push_str(&format!(
+            "{} consistent candidate{}{}{}\n\n",
+            o.n_consistent,
+            if o.n_consistent == 1 { "" } else { "s" },
+            if o.list_truncated {
+                format!(" (showing {shown})")
+            } else {
+                String::new()
+            },
+            if o.enumeration_truncated {
+                "; the enumeration limit was reached, more may exist"
+            } else {
+                ""
+            }
+        ));
+        s.push_str(" rank   score  groups\n");
+        for c in &o.candidates {
+            s.push_str(&format!(
+                "{:>5}  {:>6.2}  {}\n",
+                c.rank,
+                c.score,
+                groups_text(&c.groups)
+            ));
+        }
+        for c in o.candidates.iter().take(DETAILED) {
+            s.push_str(&format!("\n#{}  {}\n", c.rank, groups_text(&c.groups)));
+            let fam: Vec<String> = c
+                .families
+                .iter()
+                .filter(|(k, _)| !c.groups.contains_key(*k))
+                .map(|(k, v)| format!("{k} {v}"))
+                .collect();
+            if !fam.is_empty() {
+                s.push_str(&format!("    families   {}\n", fam.join(", ")));
+            }
+            s.push_str(&format!("    {}\n", c.dbe_accounting));
+            for a in &c.atom_accounting {
+                s.push_str(&format!("    {a}\n"));
+            }
+            s.push_str("    bands\n");
+            for b in &c.bands {
+                let obs = format!(
+                    "{:.0} {}{}",
+                    b.at,
+                    b.strength,
+                    b.shape
+                        .as_ref()
+                        .map(|x| format!(" {x}"))
+                        .unwrap_or_default()
+                );
+                let why = match b.explained_by.first() {
+                    Some(e) => format!("{:<9} {} — {} ({})", e.kind, e.id, e.rule, e.defined_at),
+                    None if b.demanded => "UNEXPLAINED".to_owned(),
+                    None => "unexplained (not demanded)".to_owned(),
+                };
+                s.push_str(&format!("      {obs:<20} {why}\n"));
+            }
+            for w in &c.weakening {
+                s.push_str(&format!("    against: {w}\n"));
+            }
+        }
+    }
+    if !o.conflicts.is_empty() {
+        s.push_str("\nconflict: these evidence items cannot hold together\n");
+        for c in &o.conflicts {
+            for i in &c.items {
+                s.push_str(&format!("  - {i}\n"));
+            }
+            for e in &c.explanation {
+                s.push_str(&format!("    because {e}\n"));
+            }
+            s.push_str("  usual causes to check:\n");
+            for cause in &c.suggested_causes {
+                s.push_str(&format!("    · {cause}\n"));
+            }
+        }
+    }
+    if !o.ruled_out.is_empty() {
+        s.push_str("\nruled out\n");
+        let width = o.ruled_out.iter().map(|r| r.group.len()).max().unwrap_or(0);
+        for r in o
+            .ruled_out
+            .iter()
+            .filter(|r| !r.reason.starts_with("composition"))
+        {
+            s.push_str(&format!("  {:<width$}  {}\n", r.group, r.reason));
+        }
+        let by_formula = o
+            .ruled_out
+            .iter()
+            .filter(|r| r.reason.starts_with("composition"))
+            .count();
+        if by_formula > 0 {
+            s.push_str(&format!(
+                "  ({by_formula} more groups cannot fit the formula; see --json)\n"
+            ));
+        }
+    }
+    if !o.near_misses.is_empty() {
+        s.push_str("\nnear misses\n");
+        for n in o.near_misses.iter().take(5) {
+            s.push_str(&format!(
+                "  {}: {}\n",
+                groups_text(&n.groups),
+                n.lacked.join("; ")
+            ));
+        }
+    }
+    if !o.discriminating_checks.is_empty() {
+        s.push_str("\nto tell the leading candidates apart\n");
+        for d in o.discriminating_checks.iter().take(8) {
+            s.push_str(&format!(
+                "  [{} vs {}] {}\n",
+                d.between[0], d.between[1], d.observation
+            ));
+        }
+    }
+    s.push_str("\ncaution: ");
+    s.push_str(&o.cautions.join("; "));
+    s.push_str(".\n");
+    s
+}
+
+fn groups_text(groups: &std::collections::BTreeMap<String, u32>) -> String {
+    if groups.is_empty() {
+        return "(hydrocarbon skeleton only)".into();
+    }
+    groups
+        .iter()
+        .map(|(k, v)| {
+            if *v > 1 {
+                format!("{v} × {k}")
+            } else {
+                k.clone()
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(" + ")
 }

@@ -1,2 +1,342 @@
 //! The deduction engine: constraint model, enumeration, scoring, explanation and conflicts.
 //! The only module that combines evidence with the rules catalogue; pure (no I/O).
+//!
+//! Flow of [`solve`]: prepare the problem (per-group band presence, per-band explainers)
+//! → formula-level checks (DBE, MS agreement) → enumerate exact compositions over the
+//! groups the bands allow → keep those meeting relations, band explanation and bonds →
+//! score and rank → explain candidates and ruled-out groups, find near misses → when
+//! nothing survives, find a minimal conflict → discriminating checks for the top ones.
+
+pub mod conflicts;
+pub mod constraints;
+pub mod discriminate;
+pub mod enumerate;
+pub mod evaluate;
+pub mod explain;
+pub mod lp;
+pub mod model;
+pub mod outcome;
+pub mod score;
+pub mod testkit;
+
+pub use model::EvidenceItem;
+pub use outcome::*;
+
+use crate::case::Case;
+use crate::rules::Catalogue;
+use constraints::ms;
+use enumerate::Flow;
+use model::Problem;
+use std::collections::BTreeSet;
+
+/// Default band-position tolerance, cm⁻¹: real spectra differ from handbook ranges by
+/// sample state, calibration and band picking; 15 cm⁻¹ keeps true candidates of real
+/// condensed- and vapour-phase spectra while staying below the gap between neighbouring
+/// carbonyl families (common practice, from memory).
+pub const DEFAULT_TOLERANCE_CM1: f64 = 15.0;
+
+/// Options of a solve.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SolveOptions {
+    /// Band-position tolerance on each side of a rule's range, cm⁻¹.
+    pub tolerance_cm1: f64,
+    /// Candidates shown at most.
+    pub max_candidates: usize,
+    /// Consistent combinations collected at most (beyond it the list is cut and said so).
+    pub enumeration_limit: usize,
+    /// Compositions examined at most when looking for near misses.
+    pub near_miss_budget: u64,
+}
+
+impl Default for SolveOptions {
+    fn default() -> SolveOptions {
+        SolveOptions {
+            tolerance_cm1: DEFAULT_TOLERANCE_CM1,
+            max_candidates: 25,
+            enumeration_limit: 10_000,
+            near_miss_budget: 3_000,
+        }
+    }
+}
+
+/// The cautions that go with every result.
+pub const CAUTIONS: [&str; 4] = [
+    "a screening lead, not an identification",
+    "confirm against a reference standard under the laboratory's validated method",
+    "treat the unknown as hazardous until identified",
+    "local regulations and licensed practice prevail",
+];
+
+/// The formula-level MS checks with the items not set aside.
+pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<EvidenceCheck> {
+    let mut out = Vec::new();
+    let (Some(f), Some(ms_e)) = (&case.formula, &case.ms) else {
+        return out;
+    };
+    if set_aside.contains(&EvidenceItem::Formula) {
+        return out;
+    }
+    if let Some((mz, _)) = &ms_e.molecular_ion {
+        if !set_aside.contains(&EvidenceItem::MolecularIon) {
+            let c = ms::check_molecular_ion(&f.formula, ms_e, *mz);
+            out.push(EvidenceCheck {
+                item: "molecular_ion".into(),
+                agrees: c.agrees,
+                detail: c.detail,
+            });
+        }
+    }
+    let (m1, m2) = ms::isotope_percentages(&f.formula);
+    if let Some((v, _)) = &ms_e.m_plus_1 {
+        // M+1 is reported, not enforced: it scatters too much at unit resolution to rule
+        // out a formula on its own.
+        let c = ms::check_isotope("M+1", *v, m1);
+        out.push(EvidenceCheck {
+            item: "M+1 (reported only)".into(),
+            agrees: true,
+            detail: c.detail,
+        });
+    }
+    if let Some((v, _)) = &ms_e.m_plus_2 {
+        if !set_aside.contains(&EvidenceItem::MPlus2) {
+            let c = ms::check_isotope("M+2", *v, m2);
+            out.push(EvidenceCheck {
+                item: "M+2".into(),
+                agrees: c.agrees,
+                detail: c.detail,
+            });
+        }
+    }
+    out
+}
+
+/// Solves a validated case against a catalogue.
+pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
+    let evidence_checks = formula_checks(case, &BTreeSet::new());
+    let formula_ok = problem.formula_dbe.is_some() && evidence_checks.iter().all(|c| c.agrees);
+    let ms_e = case.ms.as_ref();
+    let molecular_nominal = case
+        .formula
+        .as_ref()
+        .map(|f| f.formula.nominal_mass() as f64);
+
+    // Enumerate the consistent combinations.
+    let mut found: Vec<(Vec<u32>, u32)> = Vec::new();
+    let mut enumeration_truncated = false;
+    if formula_ok {
+        let allowed = problem.allowed_groups();
+        enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
+            if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
+                if found.len() >= options.enumeration_limit {
+                    enumeration_truncated = true;
+                    return Flow::Stop;
+                }
+                found.push((counts.to_vec(), skeleton_c));
+            }
+            Flow::Continue
+        });
+    }
+    let parts = score::group_parts(&problem, ms_e, molecular_nominal);
+    let mut scored: Vec<(f64, Vec<u32>, u32)> = found
+        .into_iter()
+        .map(|(counts, sk)| (score::score(&problem, &counts, sk, &parts), counts, sk))
+        .collect();
+    scored.sort_by(|a, b| {
+        b.0.total_cmp(&a.0)
+            .then_with(|| a.1.iter().sum::<u32>().cmp(&b.1.iter().sum::<u32>()))
+            .then_with(|| b.1.cmp(&a.1))
+    });
+    let n_consistent = scored.len();
+    let mut in_some_candidate = vec![false; problem.groups.len()];
+    for (_, counts, _) in &scored {
+        for (i, &n) in counts.iter().enumerate() {
+            if n > 0 {
+                in_some_candidate[i] = true;
+            }
+        }
+    }
+    let ranked: Vec<(Vec<u32>, u32)> = scored
+        .iter()
+        .take(5)
+        .map(|(_, c, s)| (c.clone(), *s))
+        .collect();
+    let candidates: Vec<Candidate> = scored
+        .into_iter()
+        .take(options.max_candidates)
+        .enumerate()
+        .map(|(i, (s, counts, sk))| {
+            let terms = score::terms(&problem, &counts, sk, ms_e, molecular_nominal);
+            explain::candidate(
+                &problem,
+                &counts,
+                sk,
+                i + 1,
+                s,
+                terms,
+                ms_e,
+                molecular_nominal,
+            )
+        })
+        .collect();
+
+    // Near misses: compositions over every composable group that fail on one point.
+    let mut near: Vec<(usize, f64, Vec<u32>, Vec<evaluate::Failure>)> = Vec::new();
+    if formula_ok {
+        let composable = problem.composable_groups();
+        let mut budget = options.near_miss_budget;
+        enumerate::walk(&problem, &composable, |counts, sk| {
+            if budget == 0 {
+                return Flow::Stop;
+            }
+            budget -= 1;
+            let failures = evaluate::evaluate(&problem, counts, sk, true);
+            if failures.len() == 1 {
+                let s = score::score(&problem, counts, sk, &parts);
+                near.push((failures.len(), s, counts.to_vec(), failures));
+            }
+            Flow::Continue
+        });
+    }
+    near.sort_by(|a, b| {
+        a.0.cmp(&b.0)
+            .then(b.1.total_cmp(&a.1))
+            .then_with(|| b.2.cmp(&a.2))
+    });
+    let near_misses: Vec<NearMiss> = near
+        .iter()
+        .take(8)
+        .map(|(_, _, counts, failures)| explain::near_miss(&problem, counts, failures))
+        .collect();
+
+    let ruled_out = explain::ruled_out(
+        &problem,
+        &in_some_candidate,
+        formula_ok && !enumeration_truncated,
+    );
+
+    let conflicts = if candidates.is_empty() {
+        conflict_report(case, catalogue, options, &problem, &evidence_checks)
+    } else {
+        Vec::new()
+    };
+    let discriminating_checks = discriminate::checks(&problem, &ranked, 12);
+
+    Outcome {
+        case: case.id.clone(),
+        formula: case.formula.as_ref().map(|f| f.composition.to_string()),
+        dbe: case.formula.as_ref().and_then(|f| f.composition.dbe()),
+        technique: problem.technique.map(|t| t.word().to_owned()),
+        tolerance_cm1: options.tolerance_cm1,
+        list_truncated: n_consistent > candidates.len(),
+        candidates,
+        n_consistent,
+        enumeration_truncated,
+        ruled_out,
+        near_misses,
+        conflicts,
+        discriminating_checks,
+        evidence_checks,
+        cautions: CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
+        rules_digest: catalogue.digest.clone(),
+    }
+}
+
+fn conflict_report(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    problem: &Problem<'_>,
+    evidence_checks: &[EvidenceCheck],
+) -> Vec<Conflict> {
+    let Some(items) = conflicts::minimal_conflict(case, catalogue, options) else {
+        return Vec::new();
+    };
+    let mut explanation = Vec::new();
+    for item in &items {
+        match item {
+            EvidenceItem::Formula => {
+                if let Some(f) = &problem.formula {
+                    if problem.formula_dbe.is_none() {
+                        explanation.push(constraints::dbe::describe_formula_dbe(f));
+                    }
+                }
+            }
+            EvidenceItem::Band(i) => {
+                let Some(bi) = problem.bands.iter().position(|(orig, _)| orig == i) else {
+                    continue;
+                };
+                let ex = &problem.explainers[bi];
+                let band = &problem.bands[bi].1.band;
+                // Group the candidate explainers by why each is unavailable.
+                let mut by_reason: Vec<(String, Vec<String>)> = Vec::new();
+                for (g, _, _) in &ex.groups {
+                    let gd = &problem.groups[*g];
+                    let why = constraints::composition::impossible(problem, *g)
+                        .or_else(|| {
+                            gd.presence.missing.first().map(|r| {
+                                constraints::diagnostic_bands::describe_missing(
+                                    &gd.group.bands[r[0]],
+                                    problem.technique,
+                                    problem.tolerance,
+                                )
+                            })
+                        })
+                        .unwrap_or_else(|| "no consistent combination holds it".to_owned());
+                    match by_reason.iter_mut().find(|(w, _)| *w == why) {
+                        Some((_, ids)) => {
+                            if !ids.contains(&gd.group.id) {
+                                ids.push(gd.group.id.clone());
+                            }
+                        }
+                        None => by_reason.push((why, vec![gd.group.id.clone()])),
+                    }
+                }
+                let ids: Vec<String> = by_reason
+                    .iter()
+                    .map(|(why, ids)| format!("{} ({why})", ids.join(", ")))
+                    .collect();
+                if ex.demanded {
+                    if ids.is_empty() {
+                        explanation.push(format!(
+                            "the band at {:.0} cm⁻¹ must be explained and no rule covers it",
+                            band.at
+                        ));
+                    } else {
+                        explanation.push(format!(
+                            "the band at {:.0} cm⁻¹ must be explained, only by: {}",
+                            band.at,
+                            ids.join("; ")
+                        ));
+                    }
+                } else {
+                    explanation.push(format!(
+                        "the band at {:.0} cm⁻¹ is demanded by a group's diagnostic rule",
+                        band.at
+                    ));
+                }
+            }
+            EvidenceItem::MolecularIon | EvidenceItem::MPlus2 => {
+                let key = if *item == EvidenceItem::MPlus2 {
+                    "M+2"
+                } else {
+                    "molecular_ion"
+                };
+                for c in evidence_checks.iter().filter(|c| c.item == key) {
+                    explanation.push(c.detail.clone());
+                }
+            }
+        }
+    }
+    vec![Conflict {
+        items: items
+            .iter()
+            .map(|i| conflicts::describe_item(case, *i))
+            .collect(),
+        explanation,
+        suggested_causes: conflicts::suggested_causes(case, &items),
+    }]
+}
+
+#[cfg(test)]
+mod tests;

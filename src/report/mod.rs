@@ -1,1 +1,80 @@
-//! Report renderers: view types and text, JSON, Markdown and HTML output of an outcome.
+//! Reports: view types built from a case and the engine's outcome ([`view`]), and one
+//! renderer per format — plain text, Markdown, JSON and a self-contained HTML page with an
+//! inline SVG plot. Renderers are pure functions of the view, so the same inputs give the
+//! same bytes (no clock unless the caller puts a time in the provenance).
+//!
+//! Also here: the record of a solved case and the comparison a review makes
+//! ([`record`]), and the spectrum trace prepared for plotting ([`plot`]).
+
+pub mod html;
+pub mod json;
+pub mod markdown;
+pub mod plot;
+pub mod record;
+pub mod svg;
+pub mod text;
+pub mod view;
+
+pub use view::{build, Provenance, ReportView};
+
+/// A report format, chosen from the output file's extension.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum Format {
+    /// `.txt`: aligned plain text.
+    Text,
+    /// `.md`: Markdown.
+    Markdown,
+    /// `.json`: one JSON document.
+    Json,
+    /// `.html`: one self-contained page.
+    Html,
+}
+
+impl Format {
+    /// Every format with its file extension.
+    pub const ALL: [(Format, &'static str); 4] = [
+        (Format::Text, "txt"),
+        (Format::Markdown, "md"),
+        (Format::Json, "json"),
+        (Format::Html, "html"),
+    ];
+
+    /// The format of a file extension (without the dot, case-insensitive).
+    pub fn from_extension(ext: &str) -> Option<Format> {
+        let lower = ext.to_ascii_lowercase();
+        Format::ALL
+            .iter()
+            .find(|(_, e)| *e == lower)
+            .map(|(f, _)| *f)
+    }
+
+    /// The file extension.
+    pub fn extension(self) -> &'static str {
+        Format::ALL
+            .iter()
+            .find(|(f, _)| *f == self)
+            .map_or("txt", |(_, e)| e)
+    }
+}
+
+/// Renders `view` in `format`.
+pub fn render(view: &ReportView, format: Format) -> String {
+    match format {
+        Format::Text => text::render(view),
+        Format::Markdown => markdown::render(view),
+        Format::Json => json::render(view),
+        Format::Html => html::render(view),
+    }
+}
+
+/// The cautions every report carries (DESIGN.md and the product owner's rules).
+pub const REPORT_CAUTIONS: [&str; 5] = [
+    "this is a screening lead, not an identification",
+    "confirm against a reference standard with the laboratory's validated method",
+    "combine independent techniques as the laboratory's accreditation requires",
+    "treat the unknown as hazardous until it is identified",
+    "local regulations and licensed practice prevail",
+];
+
+#[cfg(test)]
+mod tests;

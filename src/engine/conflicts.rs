@@ -1,0 +1,261 @@
+//! Conflicts: when no candidate survives, a minimal set of evidence items that cannot
+//! hold together, found by a deletion filter: start from all items; for each item in
+//! turn, set it aside for good if the rest is still inconsistent. What remains is
+//! irreducible — dropping any one of its items makes the evidence consistent.
+//!
+//! Setting an item aside means not trusting it: without the formula there are no
+//! composition or DBE constraints (any groups whose bands fit may be chosen); a band set
+//! aside needs no explanation and its region becomes uncertain for presence; an MS item
+//! set aside is not compared with the formula.
+
+use super::model::{EvidenceItem, GroupData, Problem};
+use super::{formula_checks, SolveOptions};
+use crate::case::Case;
+use crate::rules::Catalogue;
+use std::collections::BTreeSet;
+
+/// Every evidence item of the case, in a fixed order (formula, bands, MS).
+pub fn all_items(case: &Case) -> Vec<EvidenceItem> {
+    let mut items = Vec::new();
+    if case.formula.is_some() {
+        items.push(EvidenceItem::Formula);
+    }
+    for i in 0..case.ir.as_ref().map_or(0, |ir| ir.bands.len()) {
+        items.push(EvidenceItem::Band(i));
+    }
+    if let Some(ms) = &case.ms {
+        if ms.molecular_ion.is_some() {
+            items.push(EvidenceItem::MolecularIon);
+        }
+        if ms.m_plus_2.is_some() {
+            items.push(EvidenceItem::MPlus2);
+        }
+    }
+    items
+}
+
+/// True when some candidate meets every item not in `set_aside`.
+pub fn consistent(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    set_aside: &BTreeSet<EvidenceItem>,
+) -> bool {
+    let problem = Problem::new(case, catalogue, options, set_aside);
+    if problem.formula.is_none() {
+        return free_composition_feasible(&problem);
+    }
+    if problem.formula_dbe.is_none() {
+        return false;
+    }
+    if formula_checks(case, set_aside).iter().any(|c| !c.agrees) {
+        return false;
+    }
+    let allowed = problem.allowed_groups();
+    let mut found = false;
+    super::enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
+        if super::evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
+            found = true;
+            super::enumerate::Flow::Stop
+        } else {
+            super::enumerate::Flow::Continue
+        }
+    });
+    found
+}
+
+/// Without a formula: can some set of allowed groups explain every demanded band while
+/// respecting the relations? (Skeleton carbons can always be added, so `sp3_carbon`
+/// holds.) A small depth-first search over the bands' explainers.
+pub fn free_composition_feasible(problem: &Problem<'_>) -> bool {
+    let allowed: Vec<bool> = problem
+        .groups
+        .iter()
+        .map(|g: &GroupData<'_>| g.presence.missing.is_empty())
+        .collect();
+    let mut chosen = vec![0u32; problem.groups.len()];
+    search(problem, &allowed, &mut chosen, 0)
+}
+
+fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth: usize) -> bool {
+    if depth > 12 {
+        return false;
+    }
+    let clash = |g: usize, chosen: &[u32]| problem.excludes[g].iter().any(|&j| chosen[j] > 0);
+    // First band not yet explained (with sp3 skeleton assumed available).
+    let pending = problem.explainers.iter().position(|ex| {
+        ex.demanded
+            && ex.artefacts.is_empty()
+            && !ex.groups.iter().any(|(g, _, _)| chosen[*g] > 0)
+            && !ex
+                .patterns
+                .iter()
+                .any(|(_, gs, _)| gs.iter().any(|&g| chosen[g] > 0))
+            && !ex.skeleton.iter().any(|(s, _)| {
+                let (needs, sp3) = &problem.skeleton_needs[*s];
+                *sp3 || needs.iter().any(|&g| chosen[g] > 0)
+            })
+    });
+    let Some(bi) = pending else {
+        // Every band explained: now the requirements of the chosen groups.
+        let unmet = (0..chosen.len()).find(|&g| {
+            chosen[g] > 0
+                && !problem.groups[g].group.requires_any.is_empty()
+                && !problem.requires[g].iter().any(|&j| chosen[j] > 0)
+        });
+        return match unmet {
+            None => true,
+            Some(g) => problem.requires[g].clone().into_iter().any(|j| {
+                if !allowed[j] || clash(j, chosen) {
+                    return false;
+                }
+                chosen[j] += 1;
+                let ok = search(problem, allowed, chosen, depth + 1);
+                chosen[j] -= 1;
+                ok
+            }),
+        };
+    };
+    let ex = &problem.explainers[bi];
+    let mut options: Vec<usize> = ex.groups.iter().map(|(g, _, _)| *g).collect();
+    for (_, gs, _) in &ex.patterns {
+        options.extend(gs.iter().copied());
+    }
+    for (s, _) in &ex.skeleton {
+        options.extend(problem.skeleton_needs[*s].0.iter().copied());
+    }
+    options.sort_unstable();
+    options.dedup();
+    for g in options {
+        if !allowed[g] || clash(g, chosen) {
+            continue;
+        }
+        chosen[g] += 1;
+        let ok = search(problem, allowed, chosen, depth + 1);
+        chosen[g] -= 1;
+        if ok {
+            return true;
+        }
+    }
+    false
+}
+
+/// The deletion filter: a minimal inconsistent subset of the case's evidence, or `None`
+/// when the whole evidence is consistent.
+pub fn minimal_conflict(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+) -> Option<Vec<EvidenceItem>> {
+    let items = all_items(case);
+    if consistent(case, catalogue, options, &BTreeSet::new()) {
+        return None;
+    }
+    let mut keep: Vec<EvidenceItem> = items.clone();
+    for item in items {
+        let trial: Vec<EvidenceItem> = keep.iter().copied().filter(|i| *i != item).collect();
+        let set_aside: BTreeSet<EvidenceItem> = all_items(case)
+            .into_iter()
+            .filter(|i| !trial.contains(i))
+            .collect();
+        if !consistent(case, catalogue, options, &set_aside) {
+            keep = trial;
+        }
+    }
+    Some(keep)
+}
+
+/// Words for an item, with its place.
+pub fn describe_item(case: &Case, item: EvidenceItem) -> String {
+    match item {
+        EvidenceItem::Formula => case.formula.as_ref().map_or_else(
+            || "formula".into(),
+            |f| {
+                let dbe = f
+                    .composition
+                    .dbe()
+                    .map(|d| format!(", DBE {d}"))
+                    .unwrap_or_default();
+                format!("formula {}{dbe} ({})", f.composition, f.place.display())
+            },
+        ),
+        EvidenceItem::Band(i) => case.ir.as_ref().and_then(|ir| ir.bands.get(i)).map_or_else(
+            || format!("ir.bands[{i}]"),
+            |b| {
+                let shape = b.band.shape.map(|s| format!(" {s}")).unwrap_or_default();
+                format!(
+                    "band at {:.0} cm⁻¹, {}{shape} ({}, {})",
+                    b.band.at,
+                    b.band.strength,
+                    b.place.key_path,
+                    b.place.display()
+                )
+            },
+        ),
+        EvidenceItem::MolecularIon => case
+            .ms
+            .as_ref()
+            .and_then(|m| {
+                m.molecular_ion.as_ref().map(|(mz, p)| {
+                    format!(
+                        "molecular ion m/z {mz} as {} ({})",
+                        m.ion.word(),
+                        p.display()
+                    )
+                })
+            })
+            .unwrap_or_else(|| "molecular ion".into()),
+        EvidenceItem::MPlus2 => case
+            .ms
+            .as_ref()
+            .and_then(|m| {
+                m.m_plus_2
+                    .as_ref()
+                    .map(|(v, p)| format!("M+2 at {v}% of M ({})", p.display()))
+            })
+            .unwrap_or_else(|| "M+2".into()),
+    }
+}
+
+/// The usual causes worth checking for a conflict of these items.
+pub fn suggested_causes(case: &Case, items: &[EvidenceItem]) -> Vec<String> {
+    let mut out = Vec::new();
+    let bands: Vec<&crate::case::ObservedBand> = items
+        .iter()
+        .filter_map(|i| match i {
+            EvidenceItem::Band(b) => case.ir.as_ref().and_then(|ir| ir.bands.get(*b)),
+            _ => None,
+        })
+        .collect();
+    let has_formula = items.contains(&EvidenceItem::Formula);
+    let has_ms = items
+        .iter()
+        .any(|i| matches!(i, EvidenceItem::MolecularIon | EvidenceItem::MPlus2));
+    if has_formula {
+        out.push(
+            "wrong formula: re-check the elemental analysis or the molecular-ion assignment"
+                .to_owned(),
+        );
+    }
+    if bands.iter().any(|b| {
+        (b.band.at >= 3200.0 && b.band.at <= 3600.0) || (b.band.at >= 1600.0 && b.band.at <= 1660.0)
+    }) {
+        out.push(
+            "wet sample: water absorbs near 3400 (broad) and 1640 cm⁻¹; dry the sample or the KBr"
+                .to_owned(),
+        );
+    }
+    if !bands.is_empty() {
+        out.push("mixture: bands of a second compound, a solvent or a reagent residue".to_owned());
+        out.push(
+            "miscalibrated wavenumber axis: check against a polystyrene film reference".to_owned(),
+        );
+    }
+    if has_ms {
+        out.push(
+            "wrong ion type or mass calibration: check the adduct assignment and the lock mass"
+                .to_owned(),
+        );
+    }
+    out
+}

@@ -1,0 +1,85 @@
+//! The per-candidate verdict: a composition from the enumeration is checked against the
+//! relations, the band explanation and the bond conditions (presence was settled per
+//! group before enumeration, or is re-checked here when excluded groups are let in to
+//! find near misses).
+
+use super::constraints::{band_explanation, bonds, relations};
+use super::model::Problem;
+
+/// One reason a combination fails.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Failure {
+    /// A group's demanded band (or `one_of` set) is missing.
+    MissingBand {
+        /// Concrete group index.
+        group: usize,
+        /// Rule indices of the set.
+        rules: Vec<usize>,
+    },
+    /// A relation is violated.
+    Relation(String),
+    /// An active band (index) is unexplained.
+    Unexplained(usize),
+    /// The bond conditions fail.
+    Bonds(String),
+}
+
+/// Checks a combination; with `all` false, stops at the first failure.
+pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: bool) -> Vec<Failure> {
+    let mut out = Vec::new();
+    let present: Vec<usize> = (0..counts.len()).filter(|&g| counts[g] > 0).collect();
+    for &gi in &present {
+        {
+            for rules in &problem.groups[gi].presence.missing {
+                out.push(Failure::MissingBand {
+                    group: gi,
+                    rules: rules.clone(),
+                });
+                if !all {
+                    return out;
+                }
+            }
+        }
+    }
+    for r in relations::check(problem, counts, &present) {
+        out.push(Failure::Relation(r));
+        if !all {
+            return out;
+        }
+    }
+    let (unexplained, needs) = band_explanation::check(problem, counts, skeleton_c);
+    for b in unexplained {
+        out.push(Failure::Unexplained(b));
+        if !all {
+            return out;
+        }
+    }
+    if let Err(reason) = bonds::check(problem, counts, &present, skeleton_c, &needs) {
+        out.push(Failure::Bonds(reason));
+    }
+    out
+}
+
+/// Words for a failure.
+pub fn describe(problem: &Problem<'_>, failure: &Failure) -> String {
+    match failure {
+        Failure::MissingBand { group, rules } => {
+            let g = problem.groups[*group].group;
+            let rule = &g.bands[rules[0]];
+            format!(
+                "{}: {}",
+                g.id,
+                super::constraints::diagnostic_bands::describe_missing(
+                    rule,
+                    problem.technique,
+                    problem.tolerance
+                )
+            )
+        }
+        Failure::Relation(r) => r.clone(),
+        Failure::Unexplained(b) => {
+            band_explanation::describe_unexplained(&problem.bands[*b].1.band)
+        }
+        Failure::Bonds(r) => format!("bonds: {r}"),
+    }
+}

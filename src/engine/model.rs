@@ -1,0 +1,354 @@
+//! The prepared problem: the case's active evidence and the catalogue's concrete groups
+//! turned into indexed, precomputed tables that the enumeration and the per-candidate
+//! checks read without searching.
+//!
+//! Variables are the counts of concrete groups (groups without subtypes, `ring`
+//! included). Everything per band and per group that does not depend on the other groups
+//! of a candidate is computed here once.
+
+use super::constraints::{band_explanation, diagnostic_bands};
+use super::SolveOptions;
+use crate::case::{Case, ObservedBand};
+use crate::chem::Composition;
+use crate::rules::{Catalogue, Group, Technique};
+use std::collections::BTreeSet;
+
+/// One item of evidence that a conflict search can set aside.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum EvidenceItem {
+    /// The stated molecular formula (composition and DBE).
+    Formula,
+    /// The observed band at this index of `ir.bands`.
+    Band(usize),
+    /// The stated molecular ion.
+    MolecularIon,
+    /// The stated M+2 percentage.
+    MPlus2,
+}
+
+/// Most concrete groups a catalogue may have for the engine (bit sets are fixed-size).
+pub const MAX_CONCRETE_GROUPS: usize = 512;
+
+/// A set of concrete group indices (a fixed-size bit set, cheap to copy and intersect).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct GroupSet([u64; MAX_CONCRETE_GROUPS / 64]);
+
+impl GroupSet {
+    /// Adds group `i`.
+    pub fn insert(&mut self, i: usize) {
+        self.0[i / 64] |= 1 << (i % 64);
+    }
+
+    /// Removes group `i`.
+    pub fn remove(&mut self, i: usize) {
+        self.0[i / 64] &= !(1 << (i % 64));
+    }
+
+    /// True when the sets share a group.
+    pub fn intersects(&self, other: &GroupSet) -> bool {
+        self.0.iter().zip(&other.0).any(|(a, b)| a & b != 0)
+    }
+
+    /// The set of `items`.
+    pub fn of(items: impl IntoIterator<Item = usize>) -> GroupSet {
+        let mut s = GroupSet::default();
+        for i in items {
+            s.insert(i);
+        }
+        s
+    }
+}
+
+/// A concrete group with its numbers pulled out.
+#[derive(Clone, Debug)]
+pub struct GroupData<'c> {
+    /// The catalogue entry.
+    pub group: &'c Group,
+    /// Index of the group in `Catalogue::groups`.
+    pub catalogue_idx: usize,
+    /// `id` and ancestors.
+    pub lineage: Vec<String>,
+    /// Carbon atoms held.
+    pub c: u32,
+    /// Fixed hydrogens held.
+    pub h: u32,
+    /// Heteroatoms held, by element index of `Problem::elements`.
+    pub hetero: Vec<(usize, u32)>,
+    /// True when the group holds an element the formula lacks (or an unknown one).
+    pub foreign_element: Option<String>,
+    /// True when the group holds at least one atom (a node of the molecular graph).
+    pub has_atoms: bool,
+    /// True when the group holds a carbon in a saturated environment with H (dbe 0,
+    /// carbon and fixed hydrogen present): it provides sp3 C–H like the skeleton.
+    pub sp3_ch: bool,
+    /// Presence verdict from the observed bands.
+    pub presence: diagnostic_bands::Presence,
+}
+
+/// The prepared problem.
+#[derive(Clone, Debug)]
+pub struct Problem<'c> {
+    /// The catalogue.
+    pub catalogue: &'c Catalogue,
+    /// Tolerance in cm⁻¹.
+    pub tolerance: f64,
+    /// Technique.
+    pub technique: Option<Technique>,
+    /// Measured window.
+    pub window: (f64, f64),
+    /// Formula when active.
+    pub formula: Option<Composition>,
+    /// Heteroatom element symbols of the formula and of the groups.
+    pub elements: Vec<String>,
+    /// Heteroatom counts of the formula by element index.
+    pub formula_hetero: Vec<u32>,
+    /// Carbon count of the formula.
+    pub formula_c: u32,
+    /// Hydrogen count of the formula.
+    pub formula_h: u32,
+    /// DBE of the formula when it is a whole non-negative number.
+    pub formula_dbe: Option<u32>,
+    /// Active observed bands and their index in `ir.bands`.
+    pub bands: Vec<(usize, &'c ObservedBand)>,
+    /// True when the case has IR evidence (an `ir:` block), active or not.
+    pub has_ir: bool,
+    /// Concrete groups in catalogue order.
+    pub groups: Vec<GroupData<'c>>,
+    /// Per active band: how it can be explained.
+    pub explainers: Vec<band_explanation::BandExplainers>,
+    /// Per concrete group: concrete groups it cannot share a candidate with.
+    pub excludes: Vec<Vec<usize>>,
+    /// Per concrete group: the sets (by `requires_any`) of concrete groups of which one
+    /// must be present; empty when the group requires nothing.
+    pub requires: Vec<Vec<usize>>,
+    /// Per skeleton rule: concrete groups that satisfy `needs_any`, and whether
+    /// `sp3_carbon` is among its needs.
+    pub skeleton_needs: Vec<(Vec<usize>, bool)>,
+    /// Per concrete group: `excludes` as a set.
+    pub exclude_sets: Vec<GroupSet>,
+    /// Per concrete group: `requires` as a set.
+    pub require_sets: Vec<GroupSet>,
+    /// Per active band: when the band is demanded and nothing but groups can explain it
+    /// (no artefact, no sp3 skeleton rule), the groups that can (directly, through a
+    /// pattern, or as the needs of a skeleton rule); the enumeration prunes with it.
+    pub band_needs: Vec<Option<GroupSet>>,
+}
+
+impl<'c> Problem<'c> {
+    /// Prepares `case` with every evidence item except those in `set_aside`.
+    pub fn new(
+        case: &'c Case,
+        catalogue: &'c Catalogue,
+        options: &SolveOptions,
+        set_aside: &BTreeSet<EvidenceItem>,
+    ) -> Problem<'c> {
+        let formula = case
+            .formula
+            .as_ref()
+            .filter(|_| !set_aside.contains(&EvidenceItem::Formula))
+            .map(|f| f.composition.clone());
+        let technique = case.ir.as_ref().and_then(|i| i.technique);
+        let window = case
+            .ir
+            .as_ref()
+            .map_or_else(|| crate::case::default_window(None), |i| i.window);
+        let bands: Vec<(usize, &ObservedBand)> = case
+            .ir
+            .iter()
+            .flat_map(|ir| ir.bands.iter().enumerate())
+            .filter(|(i, _)| !set_aside.contains(&EvidenceItem::Band(*i)))
+            .collect();
+        let band_refs: Vec<&ObservedBand> = bands.iter().map(|(_, b)| *b).collect();
+        let set_aside_bands: Vec<&ObservedBand> = case
+            .ir
+            .iter()
+            .flat_map(|ir| ir.bands.iter().enumerate())
+            .filter(|(i, _)| set_aside.contains(&EvidenceItem::Band(*i)))
+            .map(|(_, b)| b)
+            .collect();
+
+        let mut elements: Vec<String> = Vec::new();
+        if let Some(f) = &formula {
+            for (s, _) in f.iter() {
+                if s != "C" && s != "H" && !elements.iter().any(|e| e == s) {
+                    elements.push(s.to_owned());
+                }
+            }
+        }
+        let formula_hetero: Vec<u32> = elements
+            .iter()
+            .map(|e| formula.as_ref().map_or(0, |f| f.count(e)))
+            .collect();
+        let formula_dbe = formula
+            .as_ref()
+            .and_then(super::constraints::dbe::whole_dbe);
+
+        // Beyond MAX_CONCRETE_GROUPS the bit sets cannot count; the shipped catalogue holds
+        // well under a hundred, and `rules check` keeps a lab's own catalogue in view.
+        let concrete: Vec<(usize, &Group)> = catalogue
+            .groups
+            .iter()
+            .enumerate()
+            .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
+            .take(MAX_CONCRETE_GROUPS)
+            .collect();
+        let groups: Vec<GroupData> = concrete
+            .iter()
+            .map(|(catalogue_idx, g)| {
+                let mut hetero = Vec::new();
+                let mut foreign_element = None;
+                for (s, n) in g.atoms.iter() {
+                    if s == "C" || s == "H" {
+                        continue;
+                    }
+                    match elements.iter().position(|e| e == s) {
+                        Some(i) => hetero.push((i, n)),
+                        // Without a formula no element is foreign.
+                        None if formula.is_some() => foreign_element = Some(s.to_owned()),
+                        None => {}
+                    }
+                }
+                let presence = if case.ir.is_none() {
+                    diagnostic_bands::Presence::default()
+                } else {
+                    diagnostic_bands::presence(
+                        &g.bands,
+                        &band_refs,
+                        &set_aside_bands,
+                        catalogue,
+                        technique,
+                        window,
+                        options.tolerance_cm1,
+                    )
+                };
+                GroupData {
+                    group: g,
+                    catalogue_idx: *catalogue_idx,
+                    lineage: catalogue.lineage(&g.id),
+                    c: g.atoms.count("C"),
+                    h: g.atoms.count("H"),
+                    hetero,
+                    foreign_element,
+                    has_atoms: g.atoms.n_atoms() > 0,
+                    sp3_ch: g.dbe == 0 && g.atoms.count("C") > 0 && g.atoms.count("H") > 0,
+                    presence,
+                }
+            })
+            .collect();
+        let holds =
+            |idx: usize, ids: &[String]| groups[idx].lineage.iter().any(|l| ids.contains(l));
+        let excludes: Vec<Vec<usize>> = (0..groups.len())
+            .map(|i| {
+                (0..groups.len())
+                    .filter(|&j| {
+                        let gi = groups[i].group;
+                        let gj = groups[j].group;
+                        holds(j, &gi.excludes) || holds(i, &gj.excludes)
+                    })
+                    .collect()
+            })
+            .collect();
+        let requires: Vec<Vec<usize>> = (0..groups.len())
+            .map(|i| {
+                let wanted = &groups[i].group.requires_any;
+                if wanted.is_empty() {
+                    Vec::new()
+                } else {
+                    (0..groups.len())
+                        .filter(|&j| j != i && holds(j, wanted))
+                        .collect()
+                }
+            })
+            .collect();
+        let skeleton_needs: Vec<(Vec<usize>, bool)> = catalogue
+            .skeleton
+            .iter()
+            .map(|s| {
+                let sp3 = s.needs_any.iter().any(|n| n == "sp3_carbon");
+                let list = (0..groups.len())
+                    .filter(|&j| holds(j, &s.needs_any))
+                    .collect();
+                (list, sp3)
+            })
+            .collect();
+        let positions: Vec<f64> = bands.iter().map(|(_, b)| b.band.at).collect();
+        let explainers: Vec<band_explanation::BandExplainers> = bands
+            .iter()
+            .map(|(_, b)| {
+                band_explanation::explainers_of(
+                    &b.band,
+                    &positions,
+                    catalogue,
+                    &groups,
+                    technique,
+                    options.tolerance_cm1,
+                )
+            })
+            .collect();
+        let exclude_sets = excludes
+            .iter()
+            .map(|e| GroupSet::of(e.iter().copied()))
+            .collect();
+        let require_sets = requires
+            .iter()
+            .map(|r| GroupSet::of(r.iter().copied()))
+            .collect();
+        let band_needs = explainers
+            .iter()
+            .map(|ex: &band_explanation::BandExplainers| {
+                let free = !ex.artefacts.is_empty()
+                    || ex.skeleton.iter().any(|(si, _)| skeleton_needs[*si].1);
+                (ex.demanded && !free).then(|| {
+                    let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
+                    for (_, gs, _) in &ex.patterns {
+                        gs.iter().for_each(|&g| set.insert(g));
+                    }
+                    for (si, _) in &ex.skeleton {
+                        skeleton_needs[*si].0.iter().for_each(|&g| set.insert(g));
+                    }
+                    set
+                })
+            })
+            .collect();
+        Problem {
+            catalogue,
+            tolerance: options.tolerance_cm1,
+            technique,
+            window,
+            formula_c: formula.as_ref().map_or(0, |f| f.count("C")),
+            formula_h: formula.as_ref().map_or(0, |f| f.count("H")),
+            formula,
+            elements,
+            formula_hetero,
+            formula_dbe,
+            bands,
+            has_ir: case.ir.is_some(),
+            groups,
+            explainers,
+            excludes,
+            requires,
+            skeleton_needs,
+            exclude_sets,
+            require_sets,
+            band_needs,
+        }
+    }
+
+    /// Concrete groups allowed by the observed bands (no demanded band missing) and by
+    /// the formula's elements.
+    pub fn allowed_groups(&self) -> Vec<usize> {
+        (0..self.groups.len())
+            .filter(|&i| {
+                self.groups[i].presence.missing.is_empty()
+                    && self.groups[i].foreign_element.is_none()
+            })
+            .collect()
+    }
+
+    /// Concrete groups the formula's elements allow, whatever the bands say.
+    pub fn composable_groups(&self) -> Vec<usize> {
+        (0..self.groups.len())
+            .filter(|&i| self.groups[i].foreign_element.is_none())
+            .collect()
+    }
+}

@@ -1,0 +1,169 @@
+//! The engine's result: serialisable view types that renderers (text, JSON, reports)
+//! consume. Field names are part of the `solve --json` contract (DESIGN.md).
+
+use serde::Serialize;
+use std::collections::BTreeMap;
+
+/// Everything `solve` concluded about one case.
+#[derive(Clone, Debug, Serialize)]
+pub struct Outcome {
+    /// Case identifier.
+    pub case: Option<String>,
+    /// Formula in Hill order.
+    pub formula: Option<String>,
+    /// DBE of the formula.
+    pub dbe: Option<f64>,
+    /// Technique word, when stated.
+    pub technique: Option<String>,
+    /// Tolerance used, cm⁻¹.
+    pub tolerance_cm1: f64,
+    /// Candidates best first (at most `max_candidates`).
+    pub candidates: Vec<Candidate>,
+    /// How many consistent combinations were found in all.
+    pub n_consistent: usize,
+    /// True when the enumeration limit stopped the search (more may exist).
+    pub enumeration_truncated: bool,
+    /// True when fewer candidates are shown than were found.
+    pub list_truncated: bool,
+    /// Groups ruled out and why.
+    pub ruled_out: Vec<RuledOut>,
+    /// Combinations that failed on exactly one point.
+    pub near_misses: Vec<NearMiss>,
+    /// Minimal sets of evidence that cannot hold together (empty when candidates exist).
+    pub conflicts: Vec<Conflict>,
+    /// Observations that would tell the top candidates apart.
+    pub discriminating_checks: Vec<DiscriminatingCheck>,
+    /// Formula-level checks made (MS agreement), in words.
+    pub evidence_checks: Vec<EvidenceCheck>,
+    /// The cautions that go with every result.
+    pub cautions: Vec<String>,
+    /// Digest of the rules catalogue used.
+    pub rules_digest: String,
+}
+
+/// One consistent combination.
+#[derive(Clone, Debug, Serialize)]
+pub struct Candidate {
+    /// 1-based rank.
+    pub rank: usize,
+    /// Concrete group counts.
+    pub groups: BTreeMap<String, u32>,
+    /// Counts rolled up to every ancestor family (required ids included).
+    pub families: BTreeMap<String, u32>,
+    /// Evidence score (see `score`).
+    pub score: f64,
+    /// The score's terms.
+    pub score_terms: Vec<ScoreTerm>,
+    /// Skeleton (sp3) carbons.
+    pub skeleton_carbons: u32,
+    /// "DBE 5 = aromatic_ring 4 + ketone 1".
+    pub dbe_accounting: String,
+    /// Per element, where the atoms went.
+    pub atom_accounting: Vec<String>,
+    /// Observed band → what explains it.
+    pub bands: Vec<BandAssignment>,
+    /// Evidence in favour, in words.
+    pub supporting: Vec<String>,
+    /// Evidence against (that did not rule it out), in words.
+    pub weakening: Vec<String>,
+}
+
+/// One term of a score.
+#[derive(Clone, Debug, Serialize)]
+pub struct ScoreTerm {
+    /// What it is for.
+    pub what: String,
+    /// Its value.
+    pub value: f64,
+}
+
+/// One observed band and its explanations in a candidate.
+#[derive(Clone, Debug, Serialize)]
+pub struct BandAssignment {
+    /// Position, cm⁻¹.
+    pub at: f64,
+    /// Strength word.
+    pub strength: String,
+    /// Shape word.
+    pub shape: Option<String>,
+    /// Where it was written (`file:line:col`).
+    pub place: String,
+    /// Explanations, best first; empty when unexplained.
+    pub explained_by: Vec<Explanation>,
+    /// True when the band had to be explained (strong or medium, ≥ 1500 cm⁻¹).
+    pub demanded: bool,
+}
+
+/// One explanation of a band.
+#[derive(Clone, Debug, Serialize)]
+pub struct Explanation {
+    /// `group`, `skeleton`, `pattern` or `artefact`.
+    pub kind: String,
+    /// Group, skeleton, pattern or artefact id.
+    pub id: String,
+    /// The rule's label.
+    pub rule: String,
+    /// `file:line` of the rule.
+    pub defined_at: String,
+    /// Match quality in [0, 1].
+    pub quality: f64,
+}
+
+/// A group that no candidate holds, and why.
+#[derive(Clone, Debug, Serialize)]
+pub struct RuledOut {
+    /// Group id (a concrete group, or a family whose every member is ruled out).
+    pub group: String,
+    /// True for a family entry.
+    pub family: bool,
+    /// Why, in words.
+    pub reason: String,
+    /// The rule behind the decision (`id: label (file:line)`), when one rule decided.
+    pub rule: Option<String>,
+    /// The evidence behind the decision.
+    pub evidence: Vec<String>,
+}
+
+/// A combination that failed on one point only.
+#[derive(Clone, Debug, Serialize)]
+pub struct NearMiss {
+    /// Concrete group counts.
+    pub groups: BTreeMap<String, u32>,
+    /// What it lacked.
+    pub lacked: Vec<String>,
+}
+
+/// A minimal set of evidence items that cannot hold together.
+#[derive(Clone, Debug, Serialize)]
+pub struct Conflict {
+    /// The items, in words with their places.
+    pub items: Vec<String>,
+    /// Why they cannot hold together.
+    pub explanation: Vec<String>,
+    /// Usual causes to check.
+    pub suggested_causes: Vec<String>,
+}
+
+/// An observation that would separate two candidates.
+#[derive(Clone, Debug, Serialize)]
+pub struct DiscriminatingCheck {
+    /// Ranks compared.
+    pub between: [usize; 2],
+    /// What to look for.
+    pub observation: String,
+    /// Rank whose group predicts it.
+    pub favours: usize,
+    /// Kind: `ir`, `ms`, `wet_test`, `nmr`.
+    pub kind: String,
+}
+
+/// A formula-level check (MS agreement).
+#[derive(Clone, Debug, Serialize)]
+pub struct EvidenceCheck {
+    /// The item.
+    pub item: String,
+    /// Whether it agrees.
+    pub agrees: bool,
+    /// Words.
+    pub detail: String,
+}

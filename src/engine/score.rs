@@ -1,0 +1,225 @@
+//! The evidence score that ranks consistent candidates. Every term is reported with the
+//! candidate so a reader can recompute it by hand.
+//!
+//! ```text
+//! score = Σ_groups present (once per distinct group):
+//!           + 1.0 × q   per diagnostic band rule satisfied (q = match quality in [0, 1])
+//!           + 0.5 × q   per supporting band rule satisfied
+//!           − 1.0       per demanded band allowed absent (symmetry) and not seen
+//!           − 0.3       per supporting band expected strong, inside the window, not seen
+//!           + 0.5       per MS clue (ion or loss) matched by a stated fragment
+//!       + Σ_bands explained: 0.2 × best q among the candidate's explanations
+//!       − Σ_bands unexplained: 0.5 weak ≥ 1500 cm⁻¹; 0.3 strong, 0.15 medium,
+//!                              0.05 weak below 1500 cm⁻¹
+//!       − 0.25 × (group instances − 1)          (parsimony; `ring` counts)
+//! q = 0.5·position + 0.3·strength + 0.2·shape   (see constraints::diagnostic_bands::quality)
+//! ```
+//! Ties: fewer group instances first, then the group ids in catalogue order.
+
+use super::constraints::band_explanation::{has_sp3_group, skeleton_applies};
+use super::constraints::ms::matched_clues;
+use super::model::Problem;
+use super::outcome::ScoreTerm;
+use crate::case::MsEvidence;
+use crate::ir::Strength;
+
+/// Weight of a satisfied diagnostic rule.
+pub const W_DIAGNOSTIC: f64 = 1.0;
+/// Weight of a satisfied supporting rule.
+pub const W_SUPPORTING: f64 = 0.5;
+/// Penalty for a symmetric-absence exception.
+pub const P_ABSENT_EXCEPTION: f64 = 1.0;
+/// Penalty for a missing strong supporting band.
+pub const P_MISSING_SUPPORT: f64 = 0.3;
+/// Reward per matched MS clue.
+pub const W_MS_CLUE: f64 = 0.5;
+/// Weight of each explained band's best quality.
+pub const W_EXPLAINED: f64 = 0.2;
+/// Parsimony penalty per group instance beyond the first.
+pub const P_PER_EXTRA_INSTANCE: f64 = 0.25;
+
+/// Penalty for an unexplained band (never called for a demanded band: those rule out).
+pub fn unexplained_penalty(at: f64, strength: Strength) -> f64 {
+    if at >= crate::ir::band::FINGERPRINT_BELOW_CM1 {
+        match strength {
+            Strength::Weak => 0.5,
+            _ => 0.0,
+        }
+    } else {
+        match strength {
+            Strength::Strong => 0.3,
+            Strength::Medium => 0.15,
+            Strength::Weak => 0.05,
+        }
+    }
+}
+
+/// Best explanation quality of active band `bi` in the candidate, if any.
+pub fn best_explanation(
+    problem: &Problem<'_>,
+    bi: usize,
+    counts: &[u32],
+    skeleton_c: u32,
+    sp3_group: bool,
+) -> Option<f64> {
+    let ex = &problem.explainers[bi];
+    let mut best: Option<f64> = None;
+    let mut take = |q: f64| best = Some(best.map_or(q, |b: f64| b.max(q)));
+    ex.artefacts.iter().for_each(|(_, q)| take(*q));
+    ex.groups
+        .iter()
+        .filter(|(g, _, _)| counts[*g] > 0)
+        .for_each(|(_, _, q)| take(*q));
+    ex.patterns
+        .iter()
+        .filter(|(_, gs, _)| gs.iter().any(|&g| counts[g] > 0))
+        .for_each(|(_, _, q)| take(*q));
+    ex.skeleton
+        .iter()
+        .filter(|(s, _)| skeleton_applies(problem, *s, counts, skeleton_c, sp3_group))
+        .for_each(|(_, q)| take(*q));
+    best
+}
+
+/// The score terms a group contributes whatever else the candidate holds (bands seen,
+/// absences, MS clues), each rounded to 3 decimals.
+pub fn group_terms(
+    problem: &Problem<'_>,
+    gi: usize,
+    ms: Option<&MsEvidence>,
+    molecular_nominal: Option<f64>,
+) -> Vec<ScoreTerm> {
+    let mut terms = Vec::new();
+    let g = &problem.groups[gi];
+    let mut bands = 0.0;
+    for m in &g.presence.matched {
+        let rule = &g.group.bands[m.rule_idx];
+        let w = match rule.role {
+            crate::rules::BandRole::Diagnostic => W_DIAGNOSTIC,
+            crate::rules::BandRole::Supporting => W_SUPPORTING,
+        };
+        bands += w * m.quality;
+    }
+    if bands != 0.0 {
+        terms.push(ScoreTerm {
+            what: format!("{}: bands seen", g.group.id),
+            value: bands,
+        });
+    }
+    let absent = g.presence.absent_exceptions.len() as f64;
+    if absent > 0.0 {
+        terms.push(ScoreTerm {
+            what: format!("{}: band allowed absent, not seen", g.group.id),
+            value: -P_ABSENT_EXCEPTION * absent,
+        });
+    }
+    let missing = g.presence.missing_support.len() as f64;
+    if missing > 0.0 {
+        terms.push(ScoreTerm {
+            what: format!("{}: strong supporting band not seen", g.group.id),
+            value: -P_MISSING_SUPPORT * missing,
+        });
+    }
+    if let Some(ms) = ms {
+        let clues = matched_clues(g.group, ms, molecular_nominal).len() as f64;
+        if clues > 0.0 {
+            terms.push(ScoreTerm {
+                what: format!("{}: MS clues matched", g.group.id),
+                value: W_MS_CLUE * clues,
+            });
+        }
+    }
+    for t in &mut terms {
+        t.value = round3(t.value);
+    }
+    terms
+}
+
+fn round3(x: f64) -> f64 {
+    (x * 1000.0).round() / 1000.0
+}
+
+/// Per-group score parts, computed once per solve: the sum of [`group_terms`].
+pub fn group_parts(
+    problem: &Problem<'_>,
+    ms: Option<&MsEvidence>,
+    molecular_nominal: Option<f64>,
+) -> Vec<f64> {
+    (0..problem.groups.len())
+        .map(|g| {
+            group_terms(problem, g, ms, molecular_nominal)
+                .iter()
+                .map(|t| t.value)
+                .sum()
+        })
+        .collect()
+}
+
+/// The terms that depend on the whole candidate: bands explained, bands unexplained,
+/// parsimony (each rounded to 3 decimals).
+pub fn candidate_terms(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Vec<ScoreTerm> {
+    let sp3_group = has_sp3_group(problem, counts);
+    let mut terms = Vec::new();
+    let mut explained = 0.0;
+    let mut unexplained = 0.0;
+    for (bi, (_, b)) in problem.bands.iter().enumerate() {
+        match best_explanation(problem, bi, counts, skeleton_c, sp3_group) {
+            Some(q) => explained += W_EXPLAINED * q,
+            None => unexplained += unexplained_penalty(b.band.at, b.band.strength),
+        }
+    }
+    if explained != 0.0 {
+        terms.push(ScoreTerm {
+            what: "bands explained".into(),
+            value: round3(explained),
+        });
+    }
+    if unexplained != 0.0 {
+        terms.push(ScoreTerm {
+            what: "bands unexplained".into(),
+            value: round3(-unexplained),
+        });
+    }
+    let instances: u32 = counts.iter().sum();
+    if instances > 1 {
+        terms.push(ScoreTerm {
+            what: "parsimony".into(),
+            value: round3(-P_PER_EXTRA_INSTANCE * f64::from(instances - 1)),
+        });
+    }
+    terms
+}
+
+/// The score of a consistent candidate: Σ group parts of its groups + its candidate
+/// terms, rounded to 2 decimals. `parts` comes from [`group_parts`].
+pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, parts: &[f64]) -> f64 {
+    let groups: f64 = counts
+        .iter()
+        .zip(parts)
+        .filter(|(n, _)| **n > 0)
+        .map(|(_, p)| *p)
+        .sum();
+    let rest: f64 = candidate_terms(problem, counts, skeleton_c)
+        .iter()
+        .map(|t| t.value)
+        .sum();
+    ((groups + rest) * 100.0).round() / 100.0
+}
+
+/// Every term of a candidate's score, for display.
+pub fn terms(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    ms: Option<&MsEvidence>,
+    molecular_nominal: Option<f64>,
+) -> Vec<ScoreTerm> {
+    let mut out: Vec<ScoreTerm> = counts
+        .iter()
+        .enumerate()
+        .filter(|(_, n)| **n > 0)
+        .flat_map(|(g, _)| group_terms(problem, g, ms, molecular_nominal))
+        .collect();
+    out.extend(candidate_terms(problem, counts, skeleton_c));
+    out
+}
