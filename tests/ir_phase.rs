@@ -218,3 +218,30 @@ fn read_as_condensed_a_vapour_spectrum_shows_why_the_phase_matters() {
     assert_eq!(near[0].kind, BandKind::Contour);
     assert!((near[0].at - 1738.0).abs() <= 2.0);
 }
+
+#[test]
+fn a_strong_water_vapour_forest_earns_a_note() {
+    // Forest lines at 30 % of the strongest band (a poor background): at 8 cm-1 some blend
+    // into band-like maxima, so the picker says so instead of staying silent.
+    let tea = &COMPOUNDS[7];
+    let text = compounds::vapour_text_with(tea, 8.0, 108, 0.3, 1.3);
+    let picked = pick(&text, SamplePhase::Vapour);
+    assert!(
+        picked
+            .notes
+            .iter()
+            .any(|n| n.contains("water-vapour lines are strong")),
+        "{:#?}",
+        picked.notes
+    );
+    // CO2 taller than every band of the compound does not set the strength scale.
+    let c_h = picked
+        .bands
+        .iter()
+        .find(|b| (b.at - 2980.0).abs() <= 10.0)
+        .expect("C-H stretch");
+    assert_eq!(c_h.strength, Strength::Strong, "{}", listing(&picked));
+    // A fair background gives no such note.
+    let fair = pick(&compounds::vapour_text(tea, 8.0, 108), SamplePhase::Vapour);
+    assert!(!fair.notes.iter().any(|n| n.contains("lines are strong")));
+}

@@ -565,6 +565,17 @@ pub fn pick_bands_noted(
         .map(|b| b.height)
         .fold(0.0f64, f64::max);
     let scale = if own_max > 0.0 { own_max } else { max_height };
+    let tallest_line = bands
+        .iter()
+        .filter(|b| b.kind == BandKind::LineForest)
+        .map(|b| b.height)
+        .fold(0.0f64, f64::max);
+    if scale > 0.0 && tallest_line >= STRONG_FOREST_FRACTION * scale {
+        notes.push(format!(
+            "vapour phase: water-vapour lines are strong in this spectrum (the tallest {:.0} % of the strongest band); blended lines may pass for bands in 3500-3950 and 1300-2000 cm-1: compare with the plotted spectrum",
+            100.0 * tallest_line / scale
+        ));
+    }
     for b in &mut bands {
         b.relative_height = if scale > 0.0 { b.height / scale } else { 0.0 };
         b.strength = if b.kind.is_artefact_likely() {
@@ -611,6 +622,13 @@ pub const FOREST_MIN_LINES: usize = 8;
 /// them. The median, not a higher quantile, because the sample's own narrow branches in
 /// the window (a handful among dozens of lines) must not raise the bar.
 pub const FOREST_STANDOUT: f64 = 4.0;
+
+/// Water lines this tall against the strongest band of the sample earn a note: at 8 cm⁻¹
+/// resolution such lines blend into maxima 20–40 cm⁻¹ wide that pass for bands (seen on
+/// the invented spectra of `tests/ir_phase.rs` with the forest at 30 % of the strongest
+/// band), so the analyst must look at the plotted spectrum. Lines up to about a tenth of
+/// the strongest band (a fair ratio) stay below it.
+pub const STRONG_FOREST_FRACTION: f64 = 0.2;
 
 /// P–R separation range of a contour, cm⁻¹. The Gerhard–Dennison estimate
 /// Δν(PR) ≈ 2.36·√(B·T) (B in cm⁻¹, T in K; Gerhard & Dennison, Phys. Rev. 43 (1933) 197,

@@ -406,17 +406,24 @@ pub fn condensed_text(c: &Compound, seed: u64) -> String {
 }
 
 /// The vapour-phase spectrum as two-column %T text at `resolution` cm⁻¹ (4 or 8): strongest
-/// band A ≈ 0.5, water-vapour line forest up to 8 % of it (a fair background ratio), CO2 doublet taller than the
-/// compound's C–H bands (35 %), sloping baseline, noise σ 0.0015 A, spacing resolution / 2.
+/// band A ≈ 0.5, water-vapour line forest up to 8 % of it (a fair background ratio), CO2
+/// doublet taller than the compound's C–H bands (35 %), sloping baseline, noise σ
+/// 0.0015 A, spacing resolution / 2.
 pub fn vapour_text(c: &Compound, resolution: f64, seed: u64) -> String {
+    vapour_text_with(c, resolution, seed, 0.08, 0.35)
+}
+
+/// [`vapour_text`] with the water-vapour forest's tallest line and the CO2 doublet's
+/// height chosen, as fractions of the strongest band (a poor background).
+pub fn vapour_text_with(c: &Compound, resolution: f64, seed: u64, forest: f64, co2: f64) -> String {
     let scale = 0.5;
     let mut bands = draw(c.vapour, scale, resolution);
     bands.extend(synth::line_forest(
-        0.08 * scale,
+        forest * scale,
         1.3 * resolution,
         seed ^ 0x5eed,
     ));
-    bands.extend(synth::co2(0.35 * scale, 8.0 + resolution));
+    bands.extend(synth::co2(co2 * scale, 8.0 + resolution));
     let s = synth::synthesize(
         &bands,
         450.0,
