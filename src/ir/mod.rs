@@ -11,7 +11,8 @@
 //!    ([`preprocess::transmittance_to_absorbance`]); baseline by asymmetric least squares
 //!    ([`preprocess::als_baseline`]).
 //! 3. **Pick** — [`pick::pick_bands`]: prominent maxima, FWHM, broad/sharp, strength
-//!    classes, shoulders. A JCAMP-DX peak table skips steps 2–3 except the conversion to
+//!    classes, shoulders; for a vapour ([`SamplePhase`]) P/R branch contours merged and
+//!    water-vapour lines marked; CO2 marked in either phase. A JCAMP-DX peak table skips steps 2–3 except the conversion to
 //!    absorbance: its peaks are the bands.
 //! 4. **Filter** — region and minimum strength from [`PickOptions`]; strength stays
 //!    relative to the strongest band of the whole spectrum.

@@ -9,8 +9,12 @@
 //! * a band needs prominence ≥ [`NOISE_PROMINENCE`]·σ and ≥ [`RELATIVE_PROMINENCE`] of
 //!   the tallest maximum;
 //! * broad when FWHM ≥ [`BROAD_FWHM_CM1`];
-//! * strong when its height is ≥ [`STRONG_FRACTION`] of the tallest band, medium when
-//!   ≥ [`MEDIUM_FRACTION`], weak below.
+//! * strong when its height is ≥ [`STRONG_FRACTION`] of the tallest band of the sample,
+//!   medium when ≥ [`MEDIUM_FRACTION`], weak below;
+//! * vapour phase ([`SamplePhase::Vapour`]): P/R(/Q) branch maxima merged into one
+//!   [`BandKind::Contour`], water-vapour lines marked [`BandKind::LineForest`]; in both
+//!   phases CO2 marked [`BandKind::Co2`]. Line-forest and CO2 bands are always weak and
+//!   left out of the strength scale.
 
 use super::band::{Shape, Strength};
 use super::preprocess::savgol;
