@@ -245,3 +245,43 @@ fn a_strong_water_vapour_forest_earns_a_note() {
     let fair = pick(&compounds::vapour_text(tea, 8.0, 108), SamplePhase::Vapour);
     assert!(!fair.notes.iter().any(|n| n.contains("lines are strong")));
 }
+
+#[test]
+fn the_bands_command_picks_a_vapour_when_asked() {
+    let dir = tempfile::tempdir().expect("temporary directory");
+    let path = dir.path().join("acetone-vapour.csv");
+    std::fs::write(&path, compounds::vapour_text(&COMPOUNDS[0], 4.0, 101)).expect("write");
+    let run = |phase: &str| {
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_quiddity"))
+            .args(["bands", "--json", "--phase", phase])
+            .arg(&path)
+            .output()
+            .expect("runs");
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let json: serde_json::Value = serde_json::from_slice(&out.stdout).expect("JSON");
+        json["bands"]
+            .as_array()
+            .expect("bands")
+            .iter()
+            .map(|b| b["kind"].as_str().expect("kind").to_owned())
+            .collect::<Vec<_>>()
+    };
+    let vapour = run("vapour");
+    for kind in ["contour", "line-forest", "co2"] {
+        assert!(vapour.iter().any(|k| k == kind), "{kind}: {vapour:?}");
+    }
+    let condensed = run("condensed");
+    assert!(!condensed
+        .iter()
+        .any(|k| k == "contour" || k == "line-forest"));
+    let bad = std::process::Command::new(env!("CARGO_BIN_EXE_quiddity"))
+        .args(["bands", "--phase", "plasma"])
+        .arg(&path)
+        .output()
+        .expect("runs");
+    assert_eq!(bad.status.code(), Some(2));
+}

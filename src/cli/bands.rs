@@ -255,6 +255,14 @@ mod tests {
     use super::*;
 
     #[test]
+    fn phases_parse_with_their_synonyms() {
+        assert_eq!(parse_phase("vapour"), Ok(SamplePhase::Vapour));
+        assert_eq!(parse_phase("gas"), Ok(SamplePhase::Vapour));
+        assert_eq!(parse_phase("condensed"), Ok(SamplePhase::Condensed));
+        assert!(parse_phase("liquid").is_err());
+    }
+
+    #[test]
     fn regions_parse_in_either_order() {
         assert_eq!(parse_region("1500-4000"), Ok((1500.0, 4000.0)));
         assert_eq!(parse_region("4000-1500"), Ok((1500.0, 4000.0)));
