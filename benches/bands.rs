@@ -62,6 +62,32 @@ fn bench(c: &mut Criterion) {
                 .len()
         })
     });
+    // The same trace picked as a vapour (forest search, contour merging, CO2) and an
+    // invented vapour spectrum with contours, a water-vapour line forest and CO2.
+    let mut vapour = options.pick;
+    vapour.phase = quiddity::ir::SamplePhase::Vapour;
+    c.bench_function("pick only 7001 points (vapour phase)", |b| {
+        b.iter(|| {
+            quiddity::ir::pick::pick_bands(black_box(&prepared.x), &prepared.y, &vapour)
+                .0
+                .len()
+        })
+    });
+    let mut bands = quiddity::ir::synth::contour(1740.0, 0.5, 20.0, 12.0, 0.0, 5.0);
+    bands.extend(quiddity::ir::synth::contour(
+        1215.0, 0.4, 20.0, 12.0, 0.8, 5.0,
+    ));
+    bands.push(SynthBand::gaussian(2970.0, 30.0, 0.3));
+    bands.extend(quiddity::ir::synth::line_forest(0.04, 5.2, 7));
+    bands.extend(quiddity::ir::synth::co2(0.15, 12.0));
+    let gas = synthesize(&bands, 500.0, 4000.0, 0.5, 0.02, 1e-5, 0.03, 0.0015, 3);
+    c.bench_function("pick only 7001 points (invented vapour spectrum)", |b| {
+        b.iter(|| {
+            quiddity::ir::pick::pick_bands(black_box(&gas.x), &gas.y, &vapour)
+                .0
+                .len()
+        })
+    });
     for (name, form) in [("difdup", JcampForm::DifDup), ("affn", JcampForm::Affn)] {
         let text = spectrum(form);
         c.bench_function(&format!("read+pick 7001 points ({name})"), |b| {

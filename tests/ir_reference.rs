@@ -123,6 +123,7 @@ fn prominences_and_widths_match_scipy_on_a_noise_free_spectrum() {
     let params = PickParams {
         smoothing_points: Some(0),
         shoulders: false,
+        ..PickParams::default()
     };
     let (bands, _) = pick_bands(&x, &y, &params);
     let rows = table("peaks_reference.tsv");

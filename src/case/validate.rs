@@ -223,6 +223,7 @@ fn pick_spectrum(
     ctx: &mut Ctx<'_>,
     written: &str,
     files: &[ReferencedFile],
+    technique: Option<Technique>,
 ) -> Option<(SpectrumSource, Vec<ObservedBand>)> {
     let path = KeyPath::key("ir").with_key("spectrum");
     let Some(file) = files.iter().find(|f| f.written == written) else {
@@ -236,7 +237,13 @@ fn pick_spectrum(
         );
         return None;
     };
-    match crate::ir::bands_from_file_contents(&file.bytes, &file.origin, &PickOptions::default()) {
+    // A gas-phase case is picked as a vapour spectrum (P/R contours merged, water-vapour
+    // lines and CO2 kept weak); every other technique is a condensed phase.
+    let mut options = PickOptions::default();
+    if technique == Some(Technique::Gas) {
+        options.pick.phase = crate::ir::SamplePhase::Vapour;
+    }
+    match crate::ir::bands_from_file_contents(&file.bytes, &file.origin, &options) {
         Ok(picked) => {
             let bands = picked
                 .bands()
@@ -367,7 +374,7 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
     let picked = raw
         .spectrum
         .as_ref()
-        .and_then(|written| pick_spectrum(ctx, written, files));
+        .and_then(|written| pick_spectrum(ctx, written, files, technique));
     let (lo, hi) = BAND_LIMITS_CM1;
     let mut bands = Vec::new();
     for (i, b) in raw.bands.iter().flatten().enumerate() {

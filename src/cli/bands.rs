@@ -4,7 +4,8 @@
 use super::{io_failure, print_json, CommandResult, Status};
 use crate::diag::Diagnostic;
 use crate::ir::{
-    bands_from_file_contents, BandKind, Ordinate, PickOptions, PickedSpectrum, Strength, XUnits,
+    bands_from_file_contents, BandKind, Ordinate, PickOptions, PickedSpectrum, SamplePhase,
+    Strength, XUnits,
 };
 use clap::Args;
 use serde::Serialize;
@@ -34,6 +35,18 @@ pub struct BandsArgs {
     /// Keep the baseline as it is (no asymmetric least squares correction).
     #[arg(long)]
     no_baseline: bool,
+    /// Physical state of the sample: condensed (film, ATR, KBr, mull, solution; default)
+    /// or vapour (gas cell, GC-IR: P/R branches merged, water-vapour lines marked).
+    #[arg(long, value_name = "PHASE", default_value = "condensed", value_parser = parse_phase)]
+    phase: SamplePhase,
+}
+
+fn parse_phase(word: &str) -> Result<SamplePhase, String> {
+    match word {
+        "condensed" => Ok(SamplePhase::Condensed),
+        "vapour" | "vapor" | "gas" => Ok(SamplePhase::Vapour),
+        _ => Err(format!("{word:?}: expected condensed or vapour")),
+    }
 }
 
 fn parse_strength(word: &str) -> Result<Strength, String> {
@@ -124,6 +137,7 @@ pub fn run(args: &BandsArgs, out: &mut dyn Write) -> CommandResult {
     };
     options.read.x_units = args.x_units;
     options.read.ordinate = args.y_units;
+    options.pick.phase = args.phase;
     let picked = bands_from_file_contents(&bytes, &origin, &options)?;
     if args.json {
         let view = BandsView {
@@ -224,6 +238,9 @@ fn write_text(out: &mut dyn Write, origin: &str, picked: &PickedSpectrum) -> std
                 match b.kind {
                     BandKind::Peak => "peak",
                     BandKind::Shoulder => "shoulder",
+                    BandKind::Contour => "contour",
+                    BandKind::LineForest => "line-forest",
+                    BandKind::Co2 => "co2",
                 },
             )?;
         }
@@ -236,6 +253,14 @@ fn write_text(out: &mut dyn Write, origin: &str, picked: &PickedSpectrum) -> std
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn phases_parse_with_their_synonyms() {
+        assert_eq!(parse_phase("vapour"), Ok(SamplePhase::Vapour));
+        assert_eq!(parse_phase("gas"), Ok(SamplePhase::Vapour));
+        assert_eq!(parse_phase("condensed"), Ok(SamplePhase::Condensed));
+        assert!(parse_phase("liquid").is_err());
+    }
 
     #[test]
     fn regions_parse_in_either_order() {

@@ -11,7 +11,8 @@
 //!    ([`preprocess::transmittance_to_absorbance`]); baseline by asymmetric least squares
 //!    ([`preprocess::als_baseline`]).
 //! 3. **Pick** — [`pick::pick_bands`]: prominent maxima, FWHM, broad/sharp, strength
-//!    classes, shoulders. A JCAMP-DX peak table skips steps 2–3 except the conversion to
+//!    classes, shoulders; for a vapour ([`SamplePhase`]) P/R branch contours merged and
+//!    water-vapour lines marked; CO2 marked in either phase. A JCAMP-DX peak table skips steps 2–3 except the conversion to
 //!    absorbance: its peaks are the bands.
 //! 4. **Filter** — region and minimum strength from [`PickOptions`]; strength stays
 //!    relative to the strongest band of the whole spectrum.
@@ -25,7 +26,7 @@ pub mod spectrum;
 pub mod synth;
 
 pub use band::{Band, Shape, Strength};
-pub use pick::{BandKind, PickParams, PickStats, PickedBand};
+pub use pick::{BandKind, PickParams, PickStats, PickedBand, SamplePhase};
 pub use spectrum::{
     HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits,
 };
@@ -207,7 +208,9 @@ pub fn bands_from_file_contents(
     let (mut bands, stats) = match &read.data {
         SpectrumData::Trace(trace) => {
             let prepared = prepare_trace(trace, options.correct_baseline, &mut notes);
-            let (bands, stats) = pick::pick_bands(&prepared.x, &prepared.y, &options.pick);
+            let (bands, stats, pick_notes) =
+                pick::pick_bands_noted(&prepared.x, &prepared.y, &options.pick);
+            notes.extend(pick_notes);
             (bands, Some(stats))
         }
         SpectrumData::PeakTable(table) => {

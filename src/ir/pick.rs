@@ -9,8 +9,12 @@
 //! * a band needs prominence ≥ [`NOISE_PROMINENCE`]·σ and ≥ [`RELATIVE_PROMINENCE`] of
 //!   the tallest maximum;
 //! * broad when FWHM ≥ [`BROAD_FWHM_CM1`];
-//! * strong when its height is ≥ [`STRONG_FRACTION`] of the tallest band, medium when
-//!   ≥ [`MEDIUM_FRACTION`], weak below.
+//! * strong when its height is ≥ [`STRONG_FRACTION`] of the tallest band of the sample,
+//!   medium when ≥ [`MEDIUM_FRACTION`], weak below;
+//! * vapour phase ([`SamplePhase::Vapour`]): P/R(/Q) branch maxima merged into one
+//!   [`BandKind::Contour`], water-vapour lines marked [`BandKind::LineForest`]; in both
+//!   phases CO2 marked [`BandKind::Co2`]. Line-forest and CO2 bands are always weak and
+//!   left out of the strength scale.
 
 use super::band::{Shape, Strength};
 use super::preprocess::savgol;
@@ -55,13 +59,44 @@ pub const SHOULDER_DEPTH_FRACTION: f64 = 0.05;
 
 /// How a band was found.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "lowercase")]
+#[serde(rename_all = "kebab-case")]
 pub enum BandKind {
     /// A local maximum of the trace.
     Peak,
     /// A shoulder: no maximum of its own, a minimum of the second derivative on the flank
     /// of a strong band.
     Shoulder,
+    /// Vapour phase: the P and R branch maxima (and the Q branch between them, when
+    /// present) of one rotation–vibration band, merged into one band at the band centre.
+    Contour,
+    /// Vapour phase: one narrow line of a forest of rotation lines (water vapour) in
+    /// 3500–3950 or 1300–2000 cm⁻¹; always weak and left out of the strength scale.
+    LineForest,
+    /// Atmospheric CO2 near 2350 or 667 cm⁻¹ (an imperfect background); always weak and
+    /// left out of the strength scale.
+    Co2,
+}
+
+impl BandKind {
+    /// True for the kinds that are most likely not the sample's own bands (water-vapour
+    /// lines, CO2): kept in the list for the analyst to see, never stronger than weak.
+    pub fn is_artefact_likely(self) -> bool {
+        matches!(self, BandKind::LineForest | BandKind::Co2)
+    }
+}
+
+/// The physical state of the sample, which changes what a band looks like: condensed
+/// (film, ATR, KBr, mull, solution) bands are smooth profiles; vapour (gas cell, GC-IR)
+/// bands are rotation–vibration contours with P, Q and R branches, and water-vapour lines
+/// are not ratioed away as cleanly.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum SamplePhase {
+    /// Film, ATR, KBr, mull, solution (the default).
+    #[default]
+    Condensed,
+    /// Gas cell or GC-IR light pipe.
+    Vapour,
 }
 
 /// A picked band with its measurements.
@@ -95,6 +130,9 @@ pub struct PickParams {
     pub smoothing_points: Option<usize>,
     /// Look for shoulders on strong bands.
     pub shoulders: bool,
+    /// Physical state of the sample (vapour-phase contours and line forests; see
+    /// [`SamplePhase`]).
+    pub phase: SamplePhase,
 }
 
 impl Default for PickParams {
@@ -102,6 +140,7 @@ impl Default for PickParams {
         PickParams {
             smoothing_points: None,
             shoulders: true,
+            phase: SamplePhase::Condensed,
         }
     }
 }
@@ -317,8 +356,14 @@ fn top_parabola(x: &[f64], y: &[f64], i: usize, m: &Maximum, level: f64) -> Opti
 }
 
 /// Picks bands of the absorbance trace `y` on the evenly spaced ascending grid `x`
-/// (baseline already removed). Bands come out in decreasing wavenumber, as analysts list them.
-pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>, PickStats) {
+/// (baseline already removed). Bands come out in decreasing wavenumber, as analysts list them,
+/// with notes on what the phase-specific steps did (contours merged, line forests and CO2
+/// marked).
+pub fn pick_bands_noted(
+    x: &[f64],
+    y: &[f64],
+    params: &PickParams,
+) -> (Vec<PickedBand>, PickStats, Vec<String>) {
     let n = y.len();
     let spacing = if n >= 2 {
         (x[n - 1] - x[0]) / (n - 1) as f64
@@ -332,7 +377,7 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         spacing_cm1: spacing,
     };
     if n < 5 || spacing <= 0.0 {
-        return (Vec::new(), stats);
+        return (Vec::new(), stats, Vec::new());
     }
     let window = match params.smoothing_points {
         Some(k) => odd_window(k),
@@ -346,7 +391,7 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
     stats.smoothing_points = window;
     let tallest = smooth.iter().copied().fold(0.0f64, f64::max);
     if tallest <= 0.0 {
-        return (Vec::new(), stats);
+        return (Vec::new(), stats, Vec::new());
     }
     let min_prominence = (NOISE_PROMINENCE * noise).max(RELATIVE_PROMINENCE * tallest);
     let maxima: Vec<Maximum> = maxima_with_prominence(&smooth, min_prominence)
@@ -505,14 +550,373 @@ pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>
         }
     }
 
+    let mut notes = Vec::new();
+    if params.phase == SamplePhase::Vapour {
+        // Contours first, so that a Q branch or a branch narrowed by its neighbours is not
+        // taken for a water line; then the lines left over.
+        let forests = find_forests(&bands, spacing);
+        merge_contours(x, &smooth, &mut bands, &forests, &mut notes);
+        mark_line_forests(&mut bands, &forests, &mut notes);
+    }
+    mark_co2(&mut bands, params.phase, &mut notes);
+
+    // The strength scale is the tallest band that is the sample's own: a CO2 doublet or a
+    // water line taller than every band of the compound (a poor background) must not make
+    // the compound's bands all weak.
+    let own_max = bands
+        .iter()
+        .filter(|b| !b.kind.is_artefact_likely())
+        .map(|b| b.height)
+        .fold(0.0f64, f64::max);
+    let scale = if own_max > 0.0 { own_max } else { max_height };
+    let tallest_line = bands
+        .iter()
+        .filter(|b| b.kind == BandKind::LineForest)
+        .map(|b| b.height)
+        .fold(0.0f64, f64::max);
+    if scale > 0.0 && tallest_line >= STRONG_FOREST_FRACTION * scale {
+        notes.push(format!(
+            "vapour phase: water-vapour lines are strong in this spectrum (the tallest {:.0} % of the strongest band); blended lines may pass for bands in 3500-3950 and 1300-2000 cm-1: compare with the plotted spectrum",
+            100.0 * tallest_line / scale
+        ));
+    }
     for b in &mut bands {
-        b.relative_height = if max_height > 0.0 {
-            b.height / max_height
+        b.relative_height = if scale > 0.0 { b.height / scale } else { 0.0 };
+        b.strength = if b.kind.is_artefact_likely() {
+            Strength::Weak
         } else {
-            0.0
+            classify_strength(b.relative_height)
         };
-        b.strength = classify_strength(b.relative_height);
     }
     bands.sort_by(|a, b| b.at.total_cmp(&a.at));
+    (bands, stats, notes)
+}
+
+/// Picks bands like [`pick_bands_noted`], without the notes.
+pub fn pick_bands(x: &[f64], y: &[f64], params: &PickParams) -> (Vec<PickedBand>, PickStats) {
+    let (bands, stats, _) = pick_bands_noted(x, y, params);
     (bands, stats)
+}
+
+/// Wavenumber windows where water vapour shows its rotation–vibration lines: the O–H
+/// stretches (ν1, ν3) 3500–3950 cm⁻¹ and the H–O–H bend (ν2) 1300–2000 cm⁻¹ (common
+/// practice; the same windows as the water-vapour artefacts of `rules/artefacts.yaml`,
+/// the low one widened to 2000 because bend lines reach about 1980).
+pub const FOREST_WINDOWS_CM1: [(f64, f64); 2] = [(1300.0, 2000.0), (3500.0, 3950.0)];
+
+/// A line of a forest is at most this wide (FWHM, cm⁻¹), or 3 point spacings when that is
+/// more. Water-vapour lines are far narrower than any spectrometer's resolution, so they
+/// appear with the instrument's line width: about 1.2–1.5 × the nominal resolution after
+/// apodisation, i.e. 5–6 cm⁻¹ at 4 cm⁻¹ and 10–12 cm⁻¹ at 8 cm⁻¹ resolution (common
+/// practice), a little more where two lines blend. A P or R branch of an organic
+/// molecule's band spans about 10–20 cm⁻¹, so some branches pass this test too: they are
+/// merged into contours first and saved by [`FOREST_STANDOUT`].
+pub const FOREST_LINE_FWHM_CM1: f64 = 14.0;
+
+/// A window holds a forest when at least this many narrow maxima lie in it: water vapour
+/// gives dozens of lines in each window even after a fair background ratio, while one
+/// vapour-phase band gives at most three maxima (P, Q, R) and two neighbouring bands six.
+pub const FOREST_MIN_LINES: usize = 8;
+
+/// A narrow line more prominent than this multiple of the median prominence of the
+/// window's narrow lines stands out of the forest and is read as a band of the sample (a Q
+/// branch, a free O–H). Residual water lines after a background ratio are of comparable
+/// size: the picked ones (the top one to two decades of a line list) mostly lie within
+/// 4 × their median, whereas a sample band that happens to be narrow usually dominates
+/// them. The median, not a higher quantile, because the sample's own narrow branches in
+/// the window (a handful among dozens of lines) must not raise the bar.
+pub const FOREST_STANDOUT: f64 = 4.0;
+
+/// Water lines this tall against the strongest band of the sample earn a note: at 8 cm⁻¹
+/// resolution such lines blend into maxima 20–40 cm⁻¹ wide that pass for bands (seen on
+/// the invented spectra of `tests/ir_phase.rs` with the forest at 30 % of the strongest
+/// band), so the analyst must look at the plotted spectrum. Lines up to about a tenth of
+/// the strongest band (a fair ratio) stay below it.
+pub const STRONG_FOREST_FRACTION: f64 = 0.2;
+
+/// P–R separation range of a contour, cm⁻¹. The Gerhard–Dennison estimate
+/// Δν(PR) ≈ 2.36·√(B·T) (B in cm⁻¹, T in K; Gerhard & Dennison, Phys. Rev. 43 (1933) 197,
+/// from memory) gives about 9 cm⁻¹ for B = 0.05 cm⁻¹ at room temperature and about
+/// 30 cm⁻¹ for B = 0.3 cm⁻¹ in a GC-IR light pipe near 530 K; small organic molecules
+/// (acetonitrile, acetone, ethanol, ethyl acetate) lie between.
+pub const CONTOUR_MIN_SEPARATION_CM1: f64 = 8.0;
+
+/// See [`CONTOUR_MIN_SEPARATION_CM1`].
+pub const CONTOUR_MAX_SEPARATION_CM1: f64 = 35.0;
+
+/// The weaker of the P and R maxima is at least this fraction of the stronger: the two
+/// branches of one band hold similar intensity (R somewhat stronger at high temperature),
+/// while two different bands that close are usually of unequal height.
+pub const CONTOUR_HEIGHT_RATIO: f64 = 0.4;
+
+/// The trace between the branches stays at least this fraction of the lower maximum: the
+/// branches of one band overlap (the dip typically reaches 25–70 % of the maxima; two
+/// Gaussian branches of 10.8 cm⁻¹ FWHM 22 cm⁻¹ apart, a small molecule at 4 cm⁻¹
+/// resolution, still keep 11 %), while two separate narrow lines 8–35 cm⁻¹ apart fall
+/// nearly to the baseline between them. Overlapping
+/// water lines that pass this test are caught by the forest test instead.
+pub const CONTOUR_VALLEY_FRACTION: f64 = 0.1;
+
+/// A CO2 band lies in 2330–2370 cm⁻¹ (asymmetric stretch, P and R maxima near 2360 and
+/// 2340, centre 2349; common practice) and is at most this wide (FWHM, cm⁻¹; the merged
+/// P/R envelope measures about 40–50 cm⁻¹ at 8 cm⁻¹ resolution). Organic
+/// groups absorbing there are rare (P–H near 2280–2440 is the one to keep in mind) and
+/// isocyanates (2240–2290) and nitriles (2210–2260) lie below the window.
+pub const CO2_WINDOW_CM1: (f64, f64) = (2330.0, 2370.0);
+
+/// See [`CO2_WINDOW_CM1`].
+pub const CO2_MAX_FWHM_CM1: f64 = 60.0;
+
+/// The CO2 bend (Q branch at 667 cm⁻¹, common practice), flagged in the vapour phase
+/// only when the stretch was: C–Cl stretches also lie near 650–750 cm⁻¹.
+pub const CO2_BEND_WINDOW_CM1: (f64, f64) = (660.0, 675.0);
+
+fn in_window(at: f64, (lo, hi): (f64, f64)) -> bool {
+    at >= lo && at <= hi
+}
+
+/// A water-vapour line forest found in one of [`FOREST_WINDOWS_CM1`].
+#[derive(Clone, Copy, Debug)]
+struct Forest {
+    window: (f64, f64),
+    /// Median prominence of the window's narrow lines.
+    median: f64,
+    /// Widest FWHM a line may have, cm⁻¹.
+    max_width: f64,
+}
+
+impl Forest {
+    /// True when a band of this position, width and prominence reads as one of its lines.
+    fn holds(&self, at: f64, fwhm: Option<f64>, prominence: f64) -> bool {
+        in_window(at, self.window)
+            && fwhm.is_some_and(|w| w <= self.max_width)
+            && prominence <= FOREST_STANDOUT * self.median
+    }
+}
+
+/// Finds the water-vapour line forests: a window holds one when at least
+/// [`FOREST_MIN_LINES`] narrow maxima lie in it. Statistics are taken over the whole window
+/// so that the sparse edges of a forest are recognised too.
+fn find_forests(bands: &[PickedBand], spacing: f64) -> Vec<Forest> {
+    let max_width = FOREST_LINE_FWHM_CM1.max(3.0 * spacing);
+    let mut forests = Vec::new();
+    for window in FOREST_WINDOWS_CM1 {
+        let mut prominences: Vec<f64> = bands
+            .iter()
+            .filter(|b| {
+                b.kind == BandKind::Peak
+                    && in_window(b.at, window)
+                    && b.fwhm.is_some_and(|w| w <= max_width)
+            })
+            .map(|b| b.prominence)
+            .collect();
+        if prominences.len() < FOREST_MIN_LINES {
+            continue;
+        }
+        prominences.sort_by(f64::total_cmp);
+        forests.push(Forest {
+            window,
+            median: prominences[prominences.len() / 2],
+            max_width,
+        });
+    }
+    forests
+}
+
+/// Marks the maxima that read as lines of a forest ([`BandKind::LineForest`]).
+fn mark_line_forests(bands: &mut [PickedBand], forests: &[Forest], notes: &mut Vec<String>) {
+    for forest in forests {
+        let mut marked = 0;
+        for b in bands.iter_mut() {
+            if matches!(b.kind, BandKind::Peak | BandKind::LineForest)
+                && forest.holds(b.at, b.fwhm, b.prominence)
+            {
+                b.kind = BandKind::LineForest;
+                marked += 1;
+            }
+        }
+        notes.push(format!(
+            "vapour phase: {marked} narrow line(s) in {:.0}-{:.0} cm-1 read as a water-vapour line forest; kept in the list as weak (kind line-forest) and left out of the strength scale",
+            forest.window.0, forest.window.1
+        ));
+    }
+}
+
+/// Lowest value of `smooth` between wavenumbers `a` < `b`.
+fn valley(x: &[f64], smooth: &[f64], a: f64, b: f64) -> f64 {
+    let spacing = (x[x.len() - 1] - x[0]) / (x.len() - 1) as f64;
+    let index = |at: f64| (((at - x[0]) / spacing).round().max(0.0) as usize).min(x.len() - 1);
+    let (ia, ib) = (index(a), index(b));
+    smooth[ia.min(ib)..=ia.max(ib)]
+        .iter()
+        .copied()
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// True when maxima `p` < `r` can be the P and R branches of one band.
+fn branch_pair(x: &[f64], smooth: &[f64], p: &PickedBand, r: &PickedBand) -> bool {
+    let separation = r.at - p.at;
+    let (low, high) = (p.height.min(r.height), p.height.max(r.height));
+    (CONTOUR_MIN_SEPARATION_CM1..=CONTOUR_MAX_SEPARATION_CM1).contains(&separation)
+        && low >= CONTOUR_HEIGHT_RATIO * high
+        && valley(x, smooth, p.at, r.at) >= CONTOUR_VALLEY_FRACTION * low
+        && p.shape != Some(Shape::Broad)
+        && r.shape != Some(Shape::Broad)
+}
+
+/// Merges the P and R maxima (with a Q between them) of each vapour-phase band into one
+/// [`BandKind::Contour`] at the band centre: the Q branch when there is one, else the
+/// midpoint of P and R. Its height is the tallest branch; its width runs from P's low
+/// half-height point to R's high one.
+/// Two or three narrow lines of a forest window that pass for branches but do not stand out
+/// of the forest are overlapping water lines: they are marked as forest lines instead.
+fn merge_contours(
+    x: &[f64],
+    smooth: &[f64],
+    bands: &mut Vec<PickedBand>,
+    forests: &[Forest],
+    notes: &mut Vec<String>,
+) {
+    let mut peaks: Vec<PickedBand> = Vec::new();
+    let mut rest: Vec<PickedBand> = Vec::new();
+    for b in bands.drain(..) {
+        if b.kind == BandKind::Peak {
+            peaks.push(b);
+        } else {
+            rest.push(b);
+        }
+    }
+    peaks.sort_by(|a, b| a.at.total_cmp(&b.at));
+    let mut out: Vec<PickedBand> = Vec::new();
+    let mut merged_words = Vec::new();
+    let mut i = 0;
+    while i < peaks.len() {
+        let triplet = i + 2 < peaks.len() && {
+            let (p, q, r) = (&peaks[i], &peaks[i + 1], &peaks[i + 2]);
+            let span = r.at - p.at;
+            let (low, high) = (p.height.min(r.height), p.height.max(r.height));
+            (CONTOUR_MIN_SEPARATION_CM1..=CONTOUR_MAX_SEPARATION_CM1).contains(&span)
+                && (q.at - 0.5 * (p.at + r.at)).abs() <= 0.25 * span
+                && low >= CONTOUR_HEIGHT_RATIO * high
+                && valley(x, smooth, p.at, q.at) >= CONTOUR_VALLEY_FRACTION * p.height.min(q.height)
+                && valley(x, smooth, q.at, r.at) >= CONTOUR_VALLEY_FRACTION * q.height.min(r.height)
+                && [p, q, r].iter().all(|b| b.shape != Some(Shape::Broad))
+        };
+        let pair =
+            !triplet && i + 1 < peaks.len() && branch_pair(x, smooth, &peaks[i], &peaks[i + 1]);
+        let members = if triplet {
+            3
+        } else if pair {
+            2
+        } else {
+            1
+        };
+        if members == 1 {
+            out.push(peaks[i].clone());
+            i += 1;
+            continue;
+        }
+        let group = &peaks[i..i + members];
+        // Overlapping water lines: every member in a forest window, none standing out of
+        // the forest by its height, at least one as narrow as a line (the others may have
+        // been measured wider against their neighbours).
+        let forest_group = forests.iter().any(|f| {
+            group
+                .iter()
+                .all(|b| in_window(b.at, f.window) && b.height <= FOREST_STANDOUT * f.median)
+                && group
+                    .iter()
+                    .any(|b| b.fwhm.is_some_and(|w| w <= f.max_width))
+        });
+        if forest_group {
+            for b in group {
+                let mut line = b.clone();
+                line.kind = BandKind::LineForest;
+                out.push(line);
+            }
+            i += members;
+            continue;
+        }
+        let (p, r) = (&group[0], &group[members - 1]);
+        let centre = if triplet {
+            group[1].at
+        } else {
+            0.5 * (p.at + r.at)
+        };
+        let tallest = group
+            .iter()
+            .max_by(|a, b| a.height.total_cmp(&b.height))
+            .expect("a contour has members");
+        let width = (r.at + r.fwhm.unwrap_or(0.0) / 2.0) - (p.at - p.fwhm.unwrap_or(0.0) / 2.0);
+        merged_words.push(format!(
+            "{} -> {centre:.0}",
+            group
+                .iter()
+                .map(|b| format!("{:.0}", b.at))
+                .collect::<Vec<_>>()
+                .join("+")
+        ));
+        out.push(PickedBand {
+            at: centre,
+            height: tallest.height,
+            relative_height: 0.0,
+            prominence: tallest.prominence,
+            fwhm: Some(width),
+            strength: Strength::Weak,
+            shape: Some(classify_shape(width)),
+            kind: BandKind::Contour,
+        });
+        i += members;
+    }
+    // A shoulder inside a contour is one of its branches, not a band of its own.
+    rest.retain(|s| {
+        s.kind != BandKind::Shoulder
+            || !out.iter().any(|c| {
+                c.kind == BandKind::Contour && (s.at - c.at).abs() <= c.fwhm.unwrap_or(0.0) / 2.0
+            })
+    });
+    if !merged_words.is_empty() {
+        notes.push(format!(
+            "vapour phase: P/R branch maxima (with a Q branch when present) merged into one band each: {}",
+            merged_words.join(", ")
+        ));
+    }
+    out.extend(rest);
+    *bands = out;
+}
+
+/// Marks atmospheric CO2 ([`BandKind::Co2`]): narrow maxima in [`CO2_WINDOW_CM1`], and in
+/// the vapour phase the bend near 667 cm⁻¹ when the stretch was found.
+fn mark_co2(bands: &mut [PickedBand], phase: SamplePhase, notes: &mut Vec<String>) {
+    let mut found = Vec::new();
+    for b in bands.iter_mut() {
+        if matches!(b.kind, BandKind::Peak | BandKind::Contour)
+            && in_window(b.at, CO2_WINDOW_CM1)
+            && b.fwhm.is_none_or(|w| w <= CO2_MAX_FWHM_CM1)
+        {
+            b.kind = BandKind::Co2;
+            found.push(b.at);
+        }
+    }
+    if phase == SamplePhase::Vapour && !found.is_empty() {
+        for b in bands.iter_mut() {
+            if matches!(b.kind, BandKind::Peak | BandKind::Contour)
+                && in_window(b.at, CO2_BEND_WINDOW_CM1)
+                && b.fwhm.is_none_or(|w| w <= 20.0)
+            {
+                b.kind = BandKind::Co2;
+                found.push(b.at);
+            }
+        }
+    }
+    if !found.is_empty() {
+        notes.push(format!(
+            "atmospheric CO2 likely at {}: kept in the list as weak (kind co2) and left out of the strength scale",
+            found
+                .iter()
+                .map(|at| format!("{at:.0}"))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ));
+    }
 }

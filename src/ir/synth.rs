@@ -141,3 +141,71 @@ pub fn synthesize(
         .collect();
     SynthSpectrum { x, y }
 }
+
+/// An invented vapour-phase rotation–vibration contour centred on `centre`: P and R
+/// branches (Gaussian, FWHM `branch_fwhm`) at `centre ∓ separation / 2`, and a Q branch
+/// (Lorentzian, FWHM `q_fwhm`) at `centre` of `q_fraction` times the branch height.
+/// Heights are scaled so that the contour's tallest point is `height`.
+pub fn contour(
+    centre: f64,
+    height: f64,
+    separation: f64,
+    branch_fwhm: f64,
+    q_fraction: f64,
+    q_fwhm: f64,
+) -> Vec<SynthBand> {
+    let mut bands = vec![
+        SynthBand::gaussian(centre - separation / 2.0, branch_fwhm, 1.0),
+        SynthBand::gaussian(centre + separation / 2.0, branch_fwhm, 1.0),
+    ];
+    if q_fraction > 0.0 {
+        bands.push(SynthBand::lorentzian(centre, q_fwhm, q_fraction));
+    }
+    let top = (0..=400)
+        .map(|i| centre - separation + i as f64 * separation / 200.0)
+        .map(|x| bands.iter().map(|b| b.at(x)).sum::<f64>())
+        .fold(0.0f64, f64::max);
+    for b in &mut bands {
+        b.height *= height / top;
+    }
+    bands
+}
+
+/// An invented forest of narrow lines like those of water vapour: irregularly spaced
+/// (6–16 cm⁻¹ apart) Lorentzian lines of FWHM `line_fwhm` in 1350–1950 and 3550–3950
+/// cm⁻¹, heights spread over 1.5 decades below `max_height`. Positions and heights are
+/// pseudo-random from `seed`, not the molecule's real line list.
+pub fn line_forest(max_height: f64, line_fwhm: f64, seed: u64) -> Vec<SynthBand> {
+    let mut rng = Noise::new(seed);
+    let mut out = Vec::new();
+    for (lo, hi) in [(1350.0, 1950.0), (3550.0, 3950.0)] {
+        let mut at = lo + 10.0 * rng.uniform();
+        while at < hi {
+            let h = max_height * 10f64.powf(-1.5 * rng.uniform());
+            out.push(SynthBand::lorentzian(at, line_fwhm, h));
+            at += 6.0 + 10.0 * rng.uniform();
+        }
+    }
+    out
+}
+
+/// Invented atmospheric CO2 left by an imperfect background: the asymmetric-stretch P and
+/// R maxima near 2338 and 2360 cm⁻¹ (Gaussian, FWHM `branch_fwhm`) of height `height`,
+/// and the bend's sharp Q branch at 667 cm⁻¹ at half that height.
+pub fn co2(height: f64, branch_fwhm: f64) -> Vec<SynthBand> {
+    vec![
+        SynthBand::gaussian(2338.0, branch_fwhm, height),
+        SynthBand::gaussian(2360.0, branch_fwhm, height * 0.9),
+        SynthBand::lorentzian(667.0, 3.0, height * 0.5),
+    ]
+}
+
+/// Two-column text (wavenumber, percent transmittance) of an absorbance spectrum, highest
+/// wavenumber first as spectrometers write it, with a header line naming the units.
+pub fn transmittance_text(spectrum: &SynthSpectrum) -> String {
+    let mut out = String::from("wavenumber (cm-1),transmittance (%)\n");
+    for (x, a) in spectrum.x.iter().zip(&spectrum.y).rev() {
+        out.push_str(&format!("{x:.2},{:.5}\n", 100.0 * 10f64.powf(-a)));
+    }
+    out
+}
