@@ -3,10 +3,10 @@
 
 use super::model::*;
 use super::raw::*;
-use super::yaml::{locate, locate_value, KeyPath};
 use crate::diag::{closest_match, Diagnostic, Position};
 use crate::ir::{Band, PickOptions, Shape, Strength};
 use crate::rules::Technique;
+use crate::yaml::{locate, locate_value, KeyPath};
 
 /// Lowest and highest wavenumber a mid-IR band may have, cm⁻¹ (DESIGN.md, case files).
 pub const BAND_LIMITS_CM1: (f64, f64) = (400.0, 4000.0);

@@ -26,11 +26,11 @@ use super::raw::{
     RawArtefact, RawBand, RawGroup, RawMsClue, RawPattern, RawRange, RawSkeleton,
     RawTechniqueEffect, SECTIONS,
 };
-use super::yaml::{self, Node, NodeKind, Step};
 use super::REQUIRED_GROUP_IDS;
 use crate::chem::composition::standard_valence;
 use crate::chem::Composition;
 use crate::diag::{closest_match, Diagnostic, Position};
+use crate::yaml::{self, Node, NodeKind, Step};
 use petgraph::graph::{DiGraph, NodeIndex};
 use serde::de::DeserializeOwned;
 use sha2::{Digest, Sha256};

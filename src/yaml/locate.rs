@@ -1,23 +1,12 @@
-//! The one place that touches `serde_yaml` (the crate is archived; keeping it here makes a
-//! later swap cheap), plus a small locator that finds the line and column of a key path in
-//! YAML text, so that checks made after deserialising can still point at the input.
+//! A locator that finds the line and column of a key path in YAML text, so that checks
+//! made after deserialising a case can still point at the input.
 //!
 //! The locator understands what case files use: block mappings, block sequences (`- `),
 //! and one-line flow mappings and sequences (`{ at: 1686, strength: strong }`,
 //! `[[105, 100], [77, 62]]`). When it cannot follow a path to the end it returns the
 //! deepest place it reached, so a diagnostic always lands near its cause.
 
-use crate::diag::{closest_match, Diagnostic};
-use serde::de::DeserializeOwned;
-
-/// One step of a key path: a mapping key or a sequence index.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub enum Step {
-    /// A mapping key.
-    Key(String),
-    /// A 0-based sequence index.
-    Index(usize),
-}
+use super::Step;
 
 /// A key path such as `ir.bands[2].at`, kept as steps and printable.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
@@ -55,50 +44,6 @@ impl std::fmt::Display for KeyPath {
         }
         Ok(())
     }
-}
-
-/// Deserialises `src` into `T`; a failure becomes one diagnostic with its place, the key
-/// path serde_yaml reports, and a "did you mean" hint for unknown fields.
-pub fn from_str<T: DeserializeOwned>(src: &str, origin: &str) -> Result<T, Box<Diagnostic>> {
-    serde_yaml::from_str::<T>(src).map_err(|e| Box::new(translate_error(&e, src, origin)))
-}
-
-fn translate_error(e: &serde_yaml::Error, src: &str, origin: &str) -> Diagnostic {
-    let full = e.to_string();
-    // serde_yaml appends " at line L column C"; the place is shown separately.
-    let without_place = match full.rfind(" at line ") {
-        Some(i) => full[..i].to_owned(),
-        None => full,
-    };
-    // A leading `path: ` names the key path inside the document.
-    let (key_path, message) = match without_place.split_once(": ") {
-        Some((path, rest)) if !path.contains(' ') && !path.is_empty() => {
-            (Some(path.to_owned()), rest.to_owned())
-        }
-        _ => (None, without_place),
-    };
-    let message = message.replace('`', "\"");
-    let mut d = Diagnostic::error(origin, message.clone());
-    if let Some(location) = e.location() {
-        d = d.at_offset(src, location.index());
-    }
-    if let Some(path) = key_path {
-        d = d.with_key_path(path);
-    }
-    if let Some(help) = unknown_field_hint(&message) {
-        d = d.with_help(help);
-    }
-    d
-}
-
-/// From `unknown field "strenght", expected one of "at", "strength"`, the hint
-/// `did you mean "strength"?`.
-fn unknown_field_hint(message: &str) -> Option<String> {
-    let rest = message.strip_prefix("unknown field \"")?;
-    let (field, rest) = rest.split_once('"')?;
-    let expected: Vec<&str> = rest.split('"').skip(1).step_by(2).collect();
-    let best = closest_match(field, expected.iter().copied())?;
-    Some(format!("did you mean \"{best}\"?"))
 }
 
 /// Byte offset of the place `path` names in `src` (the key, or the start of the item),
