@@ -860,7 +860,7 @@ fn unknown_field(message: &str) -> Option<String> {
     rest.split_once('"').map(|(word, _)| word.to_owned())
 }
 
-/// Parses serde_yaml's path text (`bands[0].range`) into steps.
+/// Parses the YAML reader's path text (`bands[0].range`) into steps.
 fn parse_path(text: &str) -> Vec<Step> {
     let mut steps = Vec::new();
     for part in text.split('.') {
