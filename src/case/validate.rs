@@ -277,10 +277,11 @@ fn validate_ms(ctx: &mut Ctx<'_>, raw: &RawMs) -> MsEvidence {
     let base = KeyPath::key("ms");
     let ion = match &raw.ion {
         None => IonType::RadicalCation,
-        Some(word) => match IonType::ALL.iter().find(|(_, w)| w == word) {
-            Some((t, _)) => *t,
+        // Case files take the canonical spelling only, so that they read the same everywhere.
+        Some(word) => match IonType::ALL.into_iter().find(|t| t.canonical() == word) {
+            Some(t) => t,
             None => {
-                let words: Vec<&str> = IonType::ALL.iter().map(|(_, w)| *w).collect();
+                let words: Vec<&str> = IonType::ALL.iter().map(|t| t.canonical()).collect();
                 ctx.bad_word(&base.with_key("ion"), "ion type", word, &words);
                 IonType::RadicalCation
             }
