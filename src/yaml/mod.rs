@@ -131,6 +131,26 @@ fn split_serde_message(raw: &str) -> (Option<String>, String) {
     (path, message.replace('`', "\""))
 }
 
+/// Parses the key-path text `serde_yaml` reports (`bands[0].range`) into steps.
+pub(crate) fn parse_path(text: &str) -> Vec<Step> {
+    let mut steps = Vec::new();
+    for part in text.split('.') {
+        let (key, indices) = match part.find('[') {
+            Some(i) => (&part[..i], &part[i..]),
+            None => (part, ""),
+        };
+        if !key.is_empty() {
+            steps.push(Step::Key(key.to_owned()));
+        }
+        for index in indices.split('[').filter(|s| !s.is_empty()) {
+            if let Ok(i) = index.trim_end_matches(']').parse() {
+                steps.push(Step::Index(i));
+            }
+        }
+    }
+    steps
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
