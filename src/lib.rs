@@ -16,3 +16,4 @@ pub mod ms;
 pub mod report;
 pub mod rules;
 pub mod structure;
+pub mod yaml;

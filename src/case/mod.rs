@@ -8,7 +8,6 @@ pub mod model;
 pub mod paths;
 pub mod raw;
 mod validate;
-pub mod yaml;
 
 pub use model::*;
 pub use raw::{
@@ -23,7 +22,7 @@ use crate::diag::Diagnostic;
 /// Parses case-file text into its raw form; a YAML or schema error (unknown key, wrong
 /// type) is one diagnostic with its place.
 pub fn parse_raw(src: &str, origin: &str) -> Result<RawCase, Box<Diagnostic>> {
-    yaml::from_str::<RawCase>(src, origin)
+    crate::yaml::from_str::<RawCase>(src, origin)
 }
 
 /// Parses and validates case-file text: the case when it is usable, and every problem

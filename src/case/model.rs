@@ -181,48 +181,9 @@ pub fn default_window(technique: Option<Technique>) -> (f64, f64) {
     }
 }
 
-/// Ion type of the stated molecular ion.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, serde::Serialize)]
-pub enum IonType {
-    /// Radical cation from electron ionisation, `M+.`.
-    #[serde(rename = "M+.")]
-    RadicalCation,
-    /// Protonated molecule, `[M+H]+`.
-    #[serde(rename = "[M+H]+")]
-    Protonated,
-    /// Sodium adduct, `[M+Na]+`.
-    #[serde(rename = "[M+Na]+")]
-    SodiumAdduct,
-    /// Potassium adduct, `[M+K]+`.
-    #[serde(rename = "[M+K]+")]
-    PotassiumAdduct,
-    /// Ammonium adduct, `[M+NH4]+`.
-    #[serde(rename = "[M+NH4]+")]
-    AmmoniumAdduct,
-    /// Deprotonated molecule, `[M-H]-`.
-    #[serde(rename = "[M-H]-")]
-    Deprotonated,
-}
-
-impl IonType {
-    /// Every ion type with its case-file word.
-    pub const ALL: [(IonType, &'static str); 6] = [
-        (IonType::RadicalCation, "M+."),
-        (IonType::Protonated, "[M+H]+"),
-        (IonType::SodiumAdduct, "[M+Na]+"),
-        (IonType::PotassiumAdduct, "[M+K]+"),
-        (IonType::AmmoniumAdduct, "[M+NH4]+"),
-        (IonType::Deprotonated, "[M-H]-"),
-    ];
-
-    /// The case-file word.
-    pub fn word(self) -> &'static str {
-        IonType::ALL
-            .iter()
-            .find(|(t, _)| *t == self)
-            .map_or("?", |(_, w)| w)
-    }
-}
+/// Ion type of the stated molecular ion: the one `ms` defines (case-file words are its
+/// canonical spellings).
+pub use crate::ms::IonType;
 
 /// The mass-spectrum evidence of a case.
 #[derive(Clone, Debug, PartialEq)]

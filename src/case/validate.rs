@@ -3,10 +3,10 @@
 
 use super::model::*;
 use super::raw::*;
-use super::yaml::{locate, locate_value, KeyPath};
 use crate::diag::{closest_match, Diagnostic, Position};
 use crate::ir::{Band, PickOptions, Shape, Strength};
 use crate::rules::Technique;
+use crate::yaml::{locate, locate_value, KeyPath};
 
 /// Lowest and highest wavenumber a mid-IR band may have, cm⁻¹ (DESIGN.md, case files).
 pub const BAND_LIMITS_CM1: (f64, f64) = (400.0, 4000.0);
@@ -284,10 +284,11 @@ fn validate_ms(ctx: &mut Ctx<'_>, raw: &RawMs) -> MsEvidence {
     let base = KeyPath::key("ms");
     let ion = match &raw.ion {
         None => IonType::RadicalCation,
-        Some(word) => match IonType::ALL.iter().find(|(_, w)| w == word) {
-            Some((t, _)) => *t,
+        // Case files take the canonical spelling only, so that they read the same everywhere.
+        Some(word) => match IonType::ALL.into_iter().find(|t| t.canonical() == word) {
+            Some(t) => t,
             None => {
-                let words: Vec<&str> = IonType::ALL.iter().map(|(_, w)| *w).collect();
+                let words: Vec<&str> = IonType::ALL.iter().map(|t| t.canonical()).collect();
                 ctx.bad_word(&base.with_key("ion"), "ion type", word, &words);
                 IonType::RadicalCation
             }

@@ -5,13 +5,13 @@
 use super::Failure;
 use crate::case::digest::sha256_hex;
 use crate::case::paths::{check_written_path, is_inside};
-use crate::case::yaml::{locate_value, KeyPath};
 use crate::case::{self, Case, ReferencedFile};
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
 use crate::report::view::{InputFile, QUIDDITY_VERSION};
 use crate::report::{self, Format, Provenance};
 use crate::rules::Catalogue;
+use crate::yaml::{locate_value, KeyPath};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 

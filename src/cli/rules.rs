@@ -106,7 +106,7 @@ pub fn run(args: &RulesArgs, out: &mut dyn Write) -> CommandResult {
 }
 
 /// The `(name, text)` files of a catalogue directory: every `*.yaml` directly inside it.
-fn read_dir(dir: &Path) -> Result<Vec<(String, String)>, Failure> {
+fn read_rules_files(dir: &Path) -> Result<Vec<(String, String)>, Failure> {
     let origin = dir.display().to_string();
     let entries = std::fs::read_dir(dir)
         .map_err(|e| Diagnostic::error(&origin, format!("cannot read rules directory: {e}")))?;
@@ -134,20 +134,25 @@ fn read_dir(dir: &Path) -> Result<Vec<(String, String)>, Failure> {
     Ok(files)
 }
 
+/// Loads the catalogue from every `*.yaml` of a `--rules DIR` directory (the one reader of
+/// such a directory, shared by every command): the catalogue, every problem with its
+/// origin turned into the file's real path, and the number of files read. An unreadable
+/// directory or one without rules files is exit 2.
+pub(crate) fn load_rules_dir(dir: &Path) -> Result<(Catalogue, Vec<Diagnostic>, usize), Failure> {
+    let files = read_rules_files(dir)?;
+    let (catalogue, mut diagnostics) = load(files.iter().map(|(n, t)| (n.as_str(), t.as_str())));
+    for d in &mut diagnostics {
+        if !d.origin.starts_with('<') {
+            d.origin = dir.join(&d.origin).display().to_string();
+        }
+    }
+    Ok((catalogue, diagnostics, files.len()))
+}
+
 /// Loads the catalogue from `dir` or the built-in files, with diagnostics naming real paths.
 fn load_from(dir: Option<&Path>) -> Result<(Catalogue, Vec<Diagnostic>, usize), Failure> {
     match dir {
-        Some(dir) => {
-            let files = read_dir(dir)?;
-            let (catalogue, mut diagnostics) =
-                load(files.iter().map(|(n, t)| (n.as_str(), t.as_str())));
-            for d in &mut diagnostics {
-                if !d.origin.starts_with('<') {
-                    d.origin = dir.join(&d.origin).display().to_string();
-                }
-            }
-            Ok((catalogue, diagnostics, files.len()))
-        }
+        Some(dir) => load_rules_dir(dir),
         None => {
             let (catalogue, mut diagnostics) = load(EMBEDDED_FILES.iter().copied());
             for d in &mut diagnostics {

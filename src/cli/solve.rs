@@ -132,33 +132,11 @@ pub(crate) fn load_catalogue(dir: Option<&Path>) -> Result<Catalogue, Failure> {
     let Some(dir) = dir else {
         return crate::rules::embedded_catalogue().map_err(Failure::from);
     };
-    let origin = dir.display().to_string();
-    let entries = std::fs::read_dir(dir)
-        .map_err(|e| Diagnostic::error(&origin, format!("cannot read rules directory: {e}")))?;
-    let mut files = Vec::new();
-    for entry in entries.flatten() {
-        let name = entry.file_name().to_string_lossy().into_owned();
-        if name.ends_with(".yaml") {
-            let text = std::fs::read_to_string(entry.path()).map_err(|e| {
-                Diagnostic::error(
-                    entry.path().display().to_string(),
-                    format!("cannot read rules file: {e}"),
-                )
-            })?;
-            files.push((name, text));
-        }
+    let (catalogue, diagnostics, _) = super::rules::load_rules_dir(dir)?;
+    if diagnostics.iter().any(Diagnostic::is_error) {
+        return Err(diagnostics.into());
     }
-    if files.is_empty() {
-        return Err(Diagnostic::error(origin, "no rules files (*.yaml) in this directory").into());
-    }
-    crate::rules::load_checked(files.iter().map(|(n, t)| (n.as_str(), t.as_str()))).map_err(
-        |mut ds| {
-            for d in &mut ds {
-                d.origin = dir.join(&d.origin).display().to_string();
-            }
-            Failure::from(ds)
-        },
-    )
+    Ok(catalogue)
 }
 
 /// How many candidates get their full explanation in the text output.

@@ -211,7 +211,7 @@ pub fn describe_item(case: &Case, item: EvidenceItem) -> String {
                 m.molecular_ion.as_ref().map(|(mz, p)| {
                     format!(
                         "molecular ion m/z {mz} as {} ({})",
-                        m.ion.word(),
+                        m.ion.canonical(),
                         p.display()
                     )
                 })

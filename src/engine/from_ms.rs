@@ -8,7 +8,7 @@
 //! settled silently by the mass search.
 
 use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
-use crate::case::{Case, IonType as CaseIonType, StatedFormula};
+use crate::case::{Case, StatedFormula};
 use crate::chem::Formula;
 use crate::ms::{self, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance};
 use crate::rules::Catalogue;
@@ -33,7 +33,7 @@ pub fn mass_query(case: &Case) -> Option<MassQuery> {
     } else {
         MeasuredMz::Accurate(*mz)
     };
-    let mut query = MassQuery::new(measured, ion_type(ms_e.ion));
+    let mut query = MassQuery::new(measured, ms_e.ion);
     query.tolerance = Tolerance::Ppm(ms_e.ppm);
     if ms_e.m_plus_1.is_some() || ms_e.m_plus_2.is_some() {
         query.isotopes = Some(MeasuredIsotopes {
@@ -43,18 +43,6 @@ pub fn mass_query(case: &Case) -> Option<MassQuery> {
         });
     }
     Some(query)
-}
-
-/// The `ms` ion type that a case's ion type names.
-fn ion_type(ion: CaseIonType) -> ms::IonType {
-    match ion {
-        CaseIonType::RadicalCation => ms::IonType::RadicalCation,
-        CaseIonType::Protonated => ms::IonType::Protonated,
-        CaseIonType::SodiumAdduct => ms::IonType::Sodiated,
-        CaseIonType::PotassiumAdduct => ms::IonType::Potassiated,
-        CaseIonType::AmmoniumAdduct => ms::IonType::Ammoniated,
-        CaseIonType::Deprotonated => ms::IonType::Deprotonated,
-    }
 }
 
 /// Solves `case` (which states no formula) over the formulas that `query` allows (the

@@ -26,19 +26,27 @@ use crate::diag::{closest_match, Diagnostic};
 use std::fmt;
 
 /// The ion type of a molecular ion peak.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+///
+/// Serialised as its canonical spelling, the word case files and reports use.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
 pub enum IonType {
     /// M+. — the radical cation of electron ionisation.
+    #[serde(rename = "M+.")]
     RadicalCation,
     /// [M+H]+ — protonated molecule.
+    #[serde(rename = "[M+H]+")]
     Protonated,
     /// [M+Na]+ — sodium adduct.
+    #[serde(rename = "[M+Na]+")]
     Sodiated,
     /// [M+K]+ — potassium adduct.
+    #[serde(rename = "[M+K]+")]
     Potassiated,
     /// [M+NH4]+ — ammonium adduct.
+    #[serde(rename = "[M+NH4]+")]
     Ammoniated,
     /// [M-H]- — deprotonated molecule.
+    #[serde(rename = "[M-H]-")]
     Deprotonated,
 }
 

@@ -272,7 +272,7 @@ pub fn build(
         if let Some((mz, _)) = &m.molecular_ion {
             ms.push(format!(
                 "molecular ion m/z {mz} as {} (tolerance {} ppm when accurate)",
-                m.ion.word(),
+                m.ion.canonical(),
                 m.ppm
             ));
         }

@@ -26,11 +26,11 @@ use super::raw::{
     RawArtefact, RawBand, RawGroup, RawMsClue, RawPattern, RawRange, RawSkeleton,
     RawTechniqueEffect, SECTIONS,
 };
-use super::yaml::{self, Node, NodeKind, Step};
 use super::REQUIRED_GROUP_IDS;
 use crate::chem::composition::standard_valence;
 use crate::chem::Composition;
 use crate::diag::{closest_match, Diagnostic, Position};
+use crate::yaml::{self, KeyPath, Node, NodeKind, Step};
 use petgraph::graph::{DiGraph, NodeIndex};
 use serde::de::DeserializeOwned;
 use sha2::{Digest, Sha256};
@@ -151,23 +151,6 @@ impl Place {
     }
 }
 
-/// Renders a key path as `groups[3].bands[0].range`.
-fn path_text(path: &[Step]) -> String {
-    let mut out = String::new();
-    for step in path {
-        match step {
-            Step::Key(k) => {
-                if !out.is_empty() {
-                    out.push('.');
-                }
-                out.push_str(k);
-            }
-            Step::Index(i) => out.push_str(&format!("[{i}]")),
-        }
-    }
-    out
-}
-
 /// Every id defined anywhere, with what defines it and where (for duplicates).
 struct IdDef {
     place: Place,
@@ -194,7 +177,7 @@ impl<'a> Loader<'a> {
         if place.path.is_empty() {
             d
         } else {
-            d.with_key_path(path_text(&place.path))
+            d.with_key_path(KeyPath(place.path.clone()).to_string())
         }
     }
 
@@ -320,14 +303,18 @@ impl<'a> Loader<'a> {
             Err(e) => {
                 // Rebuild the full key path; an unknown key is located in the tree itself,
                 // so the caret sits on the misspelt key rather than on its mapping.
-                let mut inner = e.inner_path.as_deref().map(parse_path).unwrap_or_default();
+                let mut inner = e
+                    .inner_path
+                    .as_deref()
+                    .map(yaml::parse_path)
+                    .unwrap_or_default();
                 let unknown_key = unknown_field(&e.message);
                 if let Some(key) = &unknown_key {
                     inner.push(Step::Key(key.clone()));
                 }
                 let mut full = place.path.clone();
                 full.extend(inner.iter().cloned());
-                let key_path = path_text(&full);
+                let key_path = KeyPath(full).to_string();
                 let position = match (&unknown_key, e.position) {
                     (Some(_), _) | (None, None) => file.position(yaml::offset_of(node, &inner)),
                     (None, Some(p)) => p,
@@ -858,26 +845,6 @@ impl<'a> Loader<'a> {
 fn unknown_field(message: &str) -> Option<String> {
     let rest = message.strip_prefix("unknown field \"")?;
     rest.split_once('"').map(|(word, _)| word.to_owned())
-}
-
-/// Parses serde_yaml's path text (`bands[0].range`) into steps.
-fn parse_path(text: &str) -> Vec<Step> {
-    let mut steps = Vec::new();
-    for part in text.split('.') {
-        let (key, indices) = match part.find('[') {
-            Some(i) => (&part[..i], &part[i..]),
-            None => (part, ""),
-        };
-        if !key.is_empty() {
-            steps.push(Step::Key(key.to_owned()));
-        }
-        for index in indices.split('[').filter(|s| !s.is_empty()) {
-            if let Ok(i) = index.trim_end_matches(']').parse() {
-                steps.push(Step::Index(i));
-            }
-        }
-    }
-    steps
 }
 
 /// The closest candidate to `word`: by edit distance, else a candidate with the same

@@ -9,7 +9,6 @@ pub mod load;
 pub mod lookup;
 pub mod model;
 pub mod raw;
-mod yaml;
 
 pub use embedded::{embedded_catalogue, EMBEDDED_FILES};
 pub use load::{digest, load, load_checked, MAX_WAVENUMBER, MIN_WAVENUMBER, SP3_CARBON};

@@ -17,9 +17,9 @@ fn adduct(ion: IonType) -> (Option<&'static str>, i32, i32) {
     match ion {
         IonType::RadicalCation => (None, 0, 1),
         IonType::Protonated => (Some("H"), 1, 1),
-        IonType::SodiumAdduct => (Some("Na"), 1, 1),
-        IonType::PotassiumAdduct => (Some("K"), 1, 1),
-        IonType::AmmoniumAdduct => (Some("NH4"), 1, 1),
+        IonType::Sodiated => (Some("Na"), 1, 1),
+        IonType::Potassiated => (Some("K"), 1, 1),
+        IonType::Ammoniated => (Some("NH4"), 1, 1),
         IonType::Deprotonated => (Some("H"), -1, -1),
     }
 }
@@ -56,10 +56,10 @@ pub fn check_molecular_ion(formula: &Formula, ms: &MsEvidence, observed: f64) ->
     let Some((mz, nominal)) = ion_mz(formula, ms.ion) else {
         return MsCheck {
             agrees: false,
-            detail: format!("the formula cannot form the ion {}", ms.ion.word()),
+            detail: format!("the formula cannot form the ion {}", ms.ion.canonical()),
         };
     };
-    let ion = ms.ion.word();
+    let ion = ms.ion.canonical();
     if observed.fract() != 0.0 {
         let ppm = (observed - mz) / mz * 1e6;
         MsCheck {

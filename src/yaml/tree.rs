@@ -1,16 +1,8 @@
-//! The only place the rules loader touches YAML libraries.
-//!
-//! Two readers, each for what it does best:
-//! - a *marked tree* built from `yaml_rust2`'s event parser, which knows the byte offset of
-//!   every key and value, so that semantic problems (an inverted range, an unknown id) can
-//!   be reported at `file:line:column`;
-//! - `serde_yaml`, which turns one list item's text into a raw serde struct with
-//!   `deny_unknown_fields` and says where it failed.
-//!
-//! `serde_yaml` is archived; keeping it behind [`deserialize_item`] makes a later swap cheap.
+//! A *marked tree* built from `yaml_rust2`'s event parser: it knows the byte offset of
+//! every key and value, so that semantic problems (an inverted range, an unknown id) can be
+//! reported at `file:line:column`.
 
-use crate::diag::Position;
-use serde::de::DeserializeOwned;
+use super::{lower_first, Step};
 use yaml_rust2::parser::{Event, MarkedEventReceiver, Parser};
 use yaml_rust2::scanner::Marker;
 
@@ -75,15 +67,6 @@ impl Node {
     pub fn is_null(&self) -> bool {
         matches!(&self.kind, NodeKind::Scalar(s) if s.is_empty() || s == "~" || s == "null")
     }
-}
-
-/// A step of a key path inside a file.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub(crate) enum Step {
-    /// A mapping key.
-    Key(String),
-    /// A sequence index.
-    Index(usize),
 }
 
 /// The byte offset best describing `path` under `root`: the key of the last mapping step
@@ -257,77 +240,6 @@ fn trim_item_ends(text: &str, items: &mut [Node]) {
     }
 }
 
-/// Lower-cases the first letter of a library message, per the diagnostics convention.
-fn lower_first(message: &str) -> String {
-    let mut chars = message.chars();
-    match chars.next() {
-        Some(c) => c.to_lowercase().chain(chars).collect(),
-        None => String::new(),
-    }
-}
-
-/// A failure to turn one item's text into its raw type.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub(crate) struct ItemError {
-    /// 0-based place in the whole file, when known.
-    pub position: Option<Position>,
-    /// Key path inside the item as `serde_yaml` names it (e.g. `bands[0].range`), if any.
-    pub inner_path: Option<String>,
-    /// Lower-case message without position or path.
-    pub message: String,
-}
-
-/// Deserializes the list item `node` of `text` into `T`.
-///
-/// The item's text is cut out of the file and re-indented so that it is a YAML document on
-/// its own; error positions are mapped back into the whole file. Doing this per item lets
-/// the loader report a problem in every item, not just the first of the file.
-pub(crate) fn deserialize_item<T: DeserializeOwned>(
-    text: &str,
-    node: &Node,
-) -> Result<T, ItemError> {
-    let start = node.offset;
-    let end = node.end.min(text.len()).max(start);
-    let line_start = text[..start].rfind('\n').map_or(0, |i| i + 1);
-    // Replace everything on the first line before the item (e.g. `  - `) by spaces, so
-    // that every line keeps its column.
-    let pad: String = text[line_start..start]
-        .chars()
-        .map(|c| if c == '\t' { '\t' } else { ' ' })
-        .collect();
-    let snippet = format!("{pad}{}", &text[start..end]);
-    serde_yaml::from_str::<T>(&snippet).map_err(|e| {
-        // serde_yaml reports 1-based line and column; the snippet keeps the file's columns
-        // (the pad has as many characters as it replaces) and starts on the item's line.
-        let first_line = text[..line_start].matches('\n').count();
-        let position = e.location().map(|l| Position {
-            line: first_line + l.line().saturating_sub(1),
-            column: l.column().saturating_sub(1),
-        });
-        let (inner_path, message) = split_serde_message(&e.to_string());
-        ItemError {
-            position,
-            inner_path,
-            message,
-        }
-    })
-}
-
-/// Splits a `serde_yaml` message `path: message at line L column C` into its path and a
-/// lower-case message without the position.
-fn split_serde_message(raw: &str) -> (Option<String>, String) {
-    let without_position = match raw.rfind(" at line ") {
-        Some(i) => &raw[..i],
-        None => raw,
-    };
-    // serde_yaml prefixes the path inside the document when it is not the root.
-    let (path, message) = match without_position.split_once(": ") {
-        Some((p, m)) if !p.contains(' ') && !p.is_empty() && p != "." => (Some(p.to_owned()), m),
-        _ => (None, without_position),
-    };
-    (path, lower_first(message).replace('`', "\""))
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -363,24 +275,5 @@ mod tests {
         let err = parse_tree(text).unwrap_err();
         assert!(err.offset.is_some());
         assert!(!err.message.is_empty());
-    }
-
-    #[test]
-    fn item_errors_point_into_the_whole_file() {
-        #[derive(serde::Deserialize, Debug)]
-        #[serde(deny_unknown_fields)]
-        #[allow(dead_code)]
-        struct Item {
-            id: String,
-            n: u32,
-        }
-        let text = "items:\n  - id: a\n    n: 1\n  - id: b\n    nn: 2\n";
-        let root = parse_tree(text).unwrap().unwrap();
-        let items = root.get("items").unwrap().value.items();
-        assert!(deserialize_item::<Item>(text, &items[0]).is_ok());
-        let err = deserialize_item::<Item>(text, &items[1]).unwrap_err();
-        let p = err.position.unwrap();
-        assert_eq!(p, Position { line: 4, column: 4 }, "{err:?}");
-        assert!(err.message.starts_with("unknown field \"nn\""), "{err:?}");
     }
 }
