@@ -43,25 +43,7 @@ fn solve_record_review_then_tamper() {
     let dir = demo_copy();
     let case = "cases/lab-0111-spectrum-ketone.yaml";
     let before = std::fs::read(dir.path().join(case)).unwrap();
-    let o = quiddity(
-        &[
-            "solve",
-            case,
-            "--report",
-            "out/r.html",
-            "--report",
-            "out/r.json",
-            "--record",
-        ],
-        dir.path(),
-    );
-    assert_eq!(
-        o.status.code(),
-        Some(2),
-        "the out/ directory does not exist yet: {}",
-        stderr(&o)
-    );
-    std::fs::create_dir_all(dir.path().join("out")).unwrap();
+    // out/ does not exist yet: the report writer makes it.
     let o = quiddity(
         &[
             "solve",
@@ -163,4 +145,21 @@ fn new_case_writes_a_template_that_solves_and_never_overwrites() {
     let o = quiddity(&["new-case", "c.yaml"], dir.path());
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("the file exists; refusing to overwrite it"));
+}
+
+#[test]
+fn a_report_into_a_folder_that_does_not_exist_yet_is_written() {
+    let dir = demo_copy();
+    let o = quiddity(
+        &[
+            "solve",
+            "cases/lab-0111-spectrum-ketone.yaml",
+            "--report",
+            "out/r.html",
+        ],
+        dir.path(),
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let page = std::fs::read_to_string(dir.path().join("out/r.html")).unwrap();
+    assert!(page.contains("<svg"), "the page holds its plot");
 }

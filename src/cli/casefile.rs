@@ -272,6 +272,8 @@ pub fn write_atomic(path: &Path, bytes: &[u8], overwrite: bool) -> std::io::Resu
     let n = COUNTER.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
     let tmp = dir.join(format!(".{name}.tmp-{}-{n}", std::process::id()));
     let result = (|| {
+        // `--report out/r.html` names a folder that need not exist yet.
+        std::fs::create_dir_all(&dir)?;
         let mut f = std::fs::File::create(&tmp)?;
         f.write_all(bytes)?;
         f.sync_all()?;
