@@ -9,6 +9,7 @@ use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
 use crate::report::record::Record;
+use crate::report::view::groups_text;
 use crate::rules::Catalogue;
 use clap::Args;
 use std::io::Write;
@@ -347,21 +348,4 @@ pub fn render_text(o: &Outcome) -> String {
     s.push_str(&o.cautions.join("; "));
     s.push_str(".\n");
     s
-}
-
-fn groups_text(groups: &std::collections::BTreeMap<String, u32>) -> String {
-    if groups.is_empty() {
-        return "(hydrocarbon skeleton only)".into();
-    }
-    groups
-        .iter()
-        .map(|(k, v)| {
-            if *v > 1 {
-                format!("{v} × {k}")
-            } else {
-                k.clone()
-            }
-        })
-        .collect::<Vec<_>>()
-        .join(" + ")
 }

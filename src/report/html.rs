@@ -173,21 +173,7 @@ pub fn render(v: &ReportView) -> String {
     if v.candidates.is_empty() {
         s.push_str("<p>No consistent candidate (see the conflicts below).</p>\n");
     } else {
-        let _ = writeln!(
-            s,
-            "<p>{} consistent combination(s){}{}.</p>",
-            v.n_consistent,
-            if v.list_truncated {
-                format!(", the first {} listed", v.candidates.len())
-            } else {
-                String::new()
-            },
-            if v.enumeration_truncated {
-                "; the enumeration limit was reached, more may exist"
-            } else {
-                ""
-            }
-        );
+        let _ = writeln!(s, "<p>{}.</p>", v.count_sentence());
         s.push_str("<table class=\"candidates\">\n<tr><th>rank</th><th>score</th><th>groups</th><th>DBE</th><th>atoms</th><th>for / against</th></tr>\n");
         for c in &v.candidates {
             let notes: Vec<String> = c

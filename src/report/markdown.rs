@@ -108,20 +108,7 @@ pub fn render(v: &ReportView) -> String {
     if v.candidates.is_empty() {
         push("No consistent candidate (see the conflicts below).".into());
     } else {
-        push(format!(
-            "{} consistent combination(s){}{}.\n",
-            v.n_consistent,
-            if v.list_truncated {
-                format!(", the first {} listed", v.candidates.len())
-            } else {
-                String::new()
-            },
-            if v.enumeration_truncated {
-                "; the enumeration limit was reached, more may exist"
-            } else {
-                ""
-            }
-        ));
+        push(format!("{}.\n", v.count_sentence()));
         push("| rank | score | groups | DBE | atoms |\n|---:|---:|---|---|---|".into());
         for c in &v.candidates {
             push(format!(

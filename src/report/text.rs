@@ -148,23 +148,7 @@ pub fn render(v: &ReportView) -> String {
             "  no consistent candidate (see the conflicts below)",
         );
     } else {
-        line(
-            &mut s,
-            format!(
-                "  {} consistent combination(s){}{}",
-                v.n_consistent,
-                if v.list_truncated {
-                    format!(", the first {} listed", v.candidates.len())
-                } else {
-                    String::new()
-                },
-                if v.enumeration_truncated {
-                    "; the enumeration limit was reached, more may exist"
-                } else {
-                    ""
-                }
-            ),
-        );
+        line(&mut s, format!("  {}", v.count_sentence()));
         line(&mut s, format!("  {:>4}  {:>7}  groups", "rank", "score"));
         for c in &v.candidates {
             line(

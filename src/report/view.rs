@@ -92,6 +92,21 @@ pub struct ReportView {
     pub plot: Option<PlotTrace>,
 }
 
+impl ReportView {
+    /// "N consistent combination(s)", with the listing and enumeration limits when they
+    /// applied; the one wording every renderer uses.
+    pub fn count_sentence(&self) -> String {
+        let mut out = format!("{} consistent combination(s)", self.n_consistent);
+        if self.list_truncated {
+            out.push_str(&format!(", the first {} listed", self.candidates.len()));
+        }
+        if self.enumeration_truncated {
+            out.push_str("; the enumeration limit was reached, more may exist");
+        }
+        out
+    }
+}
+
 /// The analyst's conclusion in the report.
 #[derive(Clone, Debug, Serialize)]
 pub struct ConclusionView {
