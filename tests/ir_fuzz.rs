@@ -1,6 +1,6 @@
 //! A deterministic mutation fuzzer for the JCAMP-DX reader (the stable toolchain has no
-//! cargo-fuzz). Seeds are the demo spectra, files of the JCAMP-DX test suite and small
-//! hand-made files; each execution applies 1–8 random mutations (flip, insert, delete,
+//! cargo-fuzz). Seeds are the demo spectra, files of the JCAMP-DX test suite, instrument
+//! exports (tests/fixtures/ir/exports/) and small hand-made files; each execution applies 1–8 random mutations (flip, insert, delete,
 //! duplicate a span, splice a JCAMP-DX token, truncate) and runs the whole pipeline. Any
 //! panic fails the test.
 //!
@@ -50,6 +50,9 @@ const TOKENS: &[&str] = &[
     "1E-320",
     "##DATA TYPE=LINK",
     "##BLOCKS=2",
+    "\u{1a}",
+    "##$AUDIT TRAIL=",
+    "##DELTAX=-4.0",
 ];
 
 fn seeds() -> Vec<Vec<u8>> {
@@ -60,6 +63,8 @@ fn seeds() -> Vec<Vec<u8>> {
         "tests/fixtures/ir/jcamp-testsuite/ir-transmittance-difdup.jcm",
         "tests/fixtures/ir/jcamp-testsuite/ir-transmittance-pac.dx",
         "tests/fixtures/ir/jcamp-testsuite/ir-polyethylene-difdup.dx",
+        "tests/fixtures/ir/exports/link-deltax-sign.jdx",
+        "tests/fixtures/ir/exports/neo-pentane-audit-trail.jdx",
     ] {
         out.push(std::fs::read(format!("{root}/{path}")).unwrap());
     }

@@ -185,7 +185,8 @@ fn suite_nmr_file_decodes_the_same_in_affn_pac_sqz_and_close_in_difdup() {
 /// An NMR-only file is not read as an infrared spectrum.
 #[test]
 fn an_nmr_file_is_refused_as_infrared() {
-    let err = read_infrared(&suite_file("nmr-sqz.dx"), &ReadOptions::default()).unwrap_err();
+    let errors = read_infrared(&suite_file("nmr-sqz.dx"), &ReadOptions::default()).unwrap_err();
+    let err = &errors[0];
     assert!(
         matches!(err.kind, JcampErrorKind::NoInfraredBlock { .. }),
         "{err:?}"
@@ -197,10 +198,11 @@ fn an_nmr_file_is_refused_as_infrared() {
 #[test]
 fn suite_polyethylene_file_fails_its_last_y_check_on_line_107() {
     let src = suite_file("ir-polyethylene-difdup.dx");
-    let err = read_infrared(&src, &ReadOptions::default()).unwrap_err();
-    assert_eq!(err.line + 1, 107);
+    let errors = read_infrared(&src, &ReadOptions::default()).unwrap_err();
+    assert_eq!(errors.len(), 1);
+    assert_eq!(errors[0].line + 1, 107);
     assert_eq!(
-        err.kind,
+        errors[0].kind,
         JcampErrorKind::DifCheck {
             expected: 26506.0,
             found: 0.0
@@ -274,8 +276,16 @@ fn bad_files_name_their_line_and_what_was_expected() {
          "error: bad.jdx:9:1: ##FIRSTX= is missing; expected it with ##XYDATA=(X++(Y..Y))"),
         ("bad header number", GOOD.replace("##YFACTOR", "").replace("##NPOINTS=10", "##NPOINTS=ten"),
          "error: bad.jdx:9:1: ##NPOINTS= is \"ten\"; expected a number"),
-        ("text before title", format!("hello\n{GOOD}"),
-         "error: bad.jdx:1:1: expected ##TITLE= to start a JCAMP-DX block, found \"hello\""),
+        // Text before the first ##TITLE= is now skipped with a note (instrument exports open
+        // with an audit trail); a file without any ##TITLE= is still refused.
+        ("audit trail and no title", format!("$$ exported\n##$AUDIT TRAIL=x\n{}", GOOD.replace("##TITLE=t\n", "")),
+         "error: bad.jdx:2:1: no ##TITLE= in the file; expected ##TITLE= to start a JCAMP-DX block, found \"##$AUDIT TRAIL=x\" first"),
+        ("no title, records only", GOOD.replace("##TITLE=t\n", ""),
+         "error: bad.jdx:1:1: no ##TITLE= in the file; expected ##TITLE= to start a JCAMP-DX block, found \"##JCAMP-DX=4.24\" first"),
+        ("DOS end-of-file byte inside the text", GOOD.replace("1005 6", "1005 \u{1a}6"),
+         "error: bad.jdx:12:6: binary data (byte 0x1a); expected a text spectrum file"),
+        ("DELTAX sign and size wrong", GOOD.replace("##DELTAX=1", "##DELTAX=-2"),
+         "error: bad.jdx:8:1: DELTAX=-2 disagrees with (LASTX-FIRSTX)/(NPOINTS-1) = 1; expected agreement within 1 %"),
     ];
     let mut failures = Vec::new();
     for (name, src, expected) in &cases {
@@ -476,4 +486,169 @@ fn huge_dup_counts_are_refused_before_they_exhaust_memory() {
     let many = format!("1005 6{}", "Z99999".repeat(200));
     let src = GOOD.replace("1005 6 7 8 9 10", &many);
     assert!(first_error(src.as_bytes()).contains("ordinates in all"));
+}
+
+// --- Instrument exports: real measured files with one documented change -----------------
+// tests/fixtures/ir/exports/ holds real measured spectra from tests/fixtures/ir/measured-gas/
+// (PyPI package `jcamp` 1.3.2, see tests/fixtures/ir/SOURCES.md) with the one change an
+// instrument export makes; the bands read from the altered file must be those of the original.
+
+const MEASURED: &str = concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/tests/fixtures/ir/measured-gas"
+);
+const EXPORTS: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/fixtures/ir/exports");
+
+fn bytes_of(folder: &str, name: &str) -> Vec<u8> {
+    std::fs::read(format!("{folder}/{name}")).expect("fixture present")
+}
+
+fn picked(bytes: &[u8], origin: &str) -> quiddity::ir::PickedSpectrum {
+    bands_from_file_contents(bytes, origin, &PickOptions::default())
+        .unwrap_or_else(|e| panic!("{origin}: {e:?}"))
+}
+
+/// The altered file reads to the same bands (positions, heights, widths, classes) as the
+/// original, and one of its notes contains every piece of `note_parts`.
+fn assert_same_bands_with_note(original: &[u8], altered: &[u8], origin: &str, note_parts: &[&str]) {
+    let want = picked(original, "original.jdx");
+    let got = picked(altered, origin);
+    assert!(
+        want.bands.len() >= 5,
+        "the original gives too few bands to compare"
+    );
+    assert_eq!(got.bands, want.bands, "{origin}");
+    assert!(
+        got.notes
+            .iter()
+            .any(|n| note_parts.iter().all(|part| n.contains(part))),
+        "{origin}: no note with {note_parts:?} in {:?}",
+        got.notes
+    );
+}
+
+#[test]
+fn a_trailing_dos_end_of_file_byte_is_ignored_with_a_note() {
+    let original = bytes_of(MEASURED, "neo-pentane.jdx");
+    let altered = bytes_of(EXPORTS, "neo-pentane-dos-eof.jdx");
+    assert_eq!(
+        altered,
+        [original.as_slice(), b"\x1a"].concat(),
+        "fixture as documented"
+    );
+    assert_same_bands_with_note(
+        &original,
+        &altered,
+        "neo-pentane-dos-eof.jdx",
+        &["1 DOS end-of-file byte", "0x1A", "line 111"],
+    );
+    // A run of them, mixed with line ends, after the last ##END=.
+    let run = [original.as_slice(), b"\x1a\r\n\x1a\x1a\n"].concat();
+    assert_same_bands_with_note(&original, &run, "run.jdx", &["3 DOS end-of-file byte"]);
+}
+
+#[test]
+fn an_audit_trail_before_the_title_is_skipped_with_a_note_naming_its_lines() {
+    let original = bytes_of(MEASURED, "neo-pentane.jdx");
+    let altered = bytes_of(EXPORTS, "neo-pentane-audit-trail.jdx");
+    assert!(
+        altered.starts_with(b"##$AUDIT TRAIL="),
+        "fixture as documented"
+    );
+    assert!(altered.ends_with(&original), "fixture as documented");
+    assert_same_bands_with_note(
+        &original,
+        &altered,
+        "neo-pentane-audit-trail.jdx",
+        &[
+            "skipped lines 1-3",
+            "first ##TITLE= (line 4)",
+            "AUDIT TRAIL",
+        ],
+    );
+}
+
+/// FIRSTX and LASTX fix the direction of the abscissa; DELTAX only checks the spacing
+/// (JCAMP-DX 4.24, McDonald & Wilks 1988: X of point i from FIRSTX, LASTX and NPOINTS;
+/// from memory). A DELTAX of the right size and the wrong sign is read with a note.
+#[test]
+fn a_deltax_of_the_wrong_sign_is_read_in_the_direction_of_firstx_and_lastx() {
+    let original = bytes_of(MEASURED, "neo-pentane.jdx");
+    let linked = bytes_of(EXPORTS, "link-deltax-sign.jdx");
+    assert_same_bands_with_note(
+        &original,
+        &linked,
+        "link-deltax-sign.jdx",
+        &["DELTAX=-4 on line 21", "FIRSTX=550 -> LASTX=3846"],
+    );
+    let got = picked(&linked, "link-deltax-sign.jdx");
+    assert!(
+        got.notes
+            .iter()
+            .any(|n| n.contains("3 blocks") && n.contains("read block 2 (\"neo-pentane\", line 5)")),
+        "{:?}",
+        got.notes
+    );
+    // The same change in a file of one block.
+    let text = String::from_utf8(original.clone()).unwrap();
+    let single = text.replace("##DELTAX=4.0\n", "##DELTAX=-4.0\n");
+    assert_ne!(single, text);
+    assert_same_bands_with_note(
+        &original,
+        single.as_bytes(),
+        "single.jdx",
+        &["DELTAX=-4 on line 17"],
+    );
+}
+
+#[test]
+fn an_unreadable_block_is_reported_with_its_line_and_title_and_the_next_one_read() {
+    let butene = bytes_of(MEASURED, "1-butene.jdx");
+    let linked = bytes_of(EXPORTS, "link-first-block-cut.jdx");
+    assert_same_bands_with_note(
+        &butene,
+        &linked,
+        "link-first-block-cut.jdx",
+        &[
+            "block 2 (\"neo-pentane\", line 5) skipped",
+            "line 112: NPOINTS=825 but 820 ordinates",
+        ],
+    );
+}
+
+#[test]
+fn when_every_infrared_block_fails_each_blocks_problem_is_listed() {
+    let linked = String::from_utf8(bytes_of(EXPORTS, "link-first-block-cut.jdx")).unwrap();
+    // Cut 1-butene's last data line too: no readable infrared block remains.
+    let last_line = "3930.0 40 8 45 28 35 47 64 41 23 37\n";
+    let both_cut = linked.replacen(last_line, "", 1);
+    assert_ne!(
+        both_cut, linked,
+        "1-butene's last data line is {last_line:?}"
+    );
+    let errors = bands_from_file_contents(both_cut.as_bytes(), "cut.jdx", &PickOptions::default())
+        .unwrap_err();
+    let lines: Vec<String> = errors.iter().map(ToString::to_string).collect();
+    assert_eq!(lines.len(), 3, "{lines:#?}");
+    assert_eq!(lines[0], "error: cut.jdx:5:1: none of the 2 infrared blocks could be read (each block's problem follows); expected at least one readable block");
+    assert_eq!(lines[1], "error: cut.jdx:112:1: block 2 \"neo-pentane\" (opened on line 5): NPOINTS=825 but 820 ordinates were found; expected them to agree");
+    assert!(
+        lines[2].starts_with("error: cut.jdx:225:1: block 3 \"1-Butene\" (opened on line 114): NPOINTS=880 but 870 ordinates"),
+        "{}",
+        lines[2]
+    );
+}
+
+#[test]
+fn records_before_the_title_are_skipped_and_a_single_line_is_named() {
+    let picked = picked(format!("hello\n{GOOD}").as_bytes(), "good.jdx");
+    assert_eq!(picked.header.n_points, 10);
+    assert!(
+        picked
+            .notes
+            .iter()
+            .any(|n| n == "skipped line 1 before the first ##TITLE= (line 2), starting \"hello\""),
+        "{:?}",
+        picked.notes
+    );
 }

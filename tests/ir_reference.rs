@@ -60,9 +60,9 @@ fn jcamp_suite_files_decode_as_the_jcamp_package_reads_them() {
                         .contains("Last value of previous line is 26506.0 but first value is 0.0"),
                     "{complaints}"
                 );
-                let err = read_infrared(&src, &ReadOptions::default()).unwrap_err();
+                let errors = read_infrared(&src, &ReadOptions::default()).unwrap_err();
                 assert_eq!(
-                    err.kind,
+                    errors[0].kind,
                     JcampErrorKind::DifCheck {
                         expected: 26506.0,
                         found: 0.0

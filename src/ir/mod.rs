@@ -129,15 +129,25 @@ pub fn read_spectrum(
     origin: &str,
     options: &ReadOptions,
 ) -> Result<ReadSpectrum, Vec<Diagnostic>> {
-    let src = jcamp::decode_text(bytes).map_err(|e| vec![e.to_diagnostic("", origin)])?;
-    match detect_kind(src) {
-        FileKind::Jcamp => {
-            jcamp::read_infrared(src, options).map_err(|e| vec![e.to_diagnostic(src, origin)])
-        }
+    let decoded = jcamp::decode_text(bytes).map_err(|e| vec![e.to_diagnostic("", origin)])?;
+    let src = decoded.text;
+    let mut read = match detect_kind(src) {
+        FileKind::Jcamp => jcamp::read_infrared(src, options).map_err(|errors| {
+            errors
+                .iter()
+                .map(|e| e.to_diagnostic(src, origin))
+                .collect::<Vec<_>>()
+        })?,
         FileKind::Columns => {
-            columns::read_columns(src, options).map_err(|e| vec![e.to_diagnostic(src, origin)])
+            columns::read_columns(src, options).map_err(|e| vec![e.to_diagnostic(src, origin)])?
         }
+    };
+    if !decoded.notes.is_empty() {
+        let mut notes = decoded.notes;
+        notes.append(&mut read.notes);
+        read.notes = notes;
     }
+    Ok(read)
 }
 
 /// An evenly spaced, ascending absorbance trace ready for picking, with notes.

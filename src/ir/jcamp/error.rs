@@ -39,6 +39,31 @@ pub enum JcampErrorKind {
         /// The start of the offending line.
         found: String,
     },
+    /// A file with no `##TITLE=` record at all.
+    #[error("no ##TITLE= in the file; expected ##TITLE= to start a JCAMP-DX block, found {found:?} first")]
+    NoTitle {
+        /// The start of the first line that is not blank or a comment.
+        found: String,
+    },
+    /// Several infrared blocks, none of which could be read; the errors that follow it
+    /// name each block's problem.
+    #[error("none of the {tried} infrared blocks could be read (each block's problem follows); expected at least one readable block")]
+    NoReadableBlock {
+        /// How many infrared blocks were tried.
+        tried: usize,
+    },
+    /// The problem of one block in a file of several, naming the block.
+    #[error("block {index} {title:?} (opened on line {opened_line}): {inner}")]
+    InBlock {
+        /// 1-based position of the block in the file.
+        index: usize,
+        /// Title of the block.
+        title: String,
+        /// 1-based line of its `##TITLE=` (for people).
+        opened_line: usize,
+        /// What went wrong inside it.
+        inner: Box<JcampErrorKind>,
+    },
     /// A `##` line without `=`.
     #[error("labelled data record without '='; expected ##LABEL=value")]
     MissingEquals,

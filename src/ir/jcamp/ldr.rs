@@ -105,8 +105,14 @@ pub fn strip_comment(line: &str) -> &str {
 /// ```
 /// Text before the first `##` that is not blank or a comment is an error.
 pub fn split_records(src: &str) -> Result<Vec<Ldr>, JcampError> {
+    split_records_from(src, 0)
+}
+
+/// Splits `src` into records as [`split_records`] does, starting at the 0-based line
+/// `first_line` (the lines before it are not looked at; line numbers stay those of `src`).
+pub fn split_records_from(src: &str, first_line: usize) -> Result<Vec<Ldr>, JcampError> {
     let mut records: Vec<Ldr> = Vec::new();
-    for (line_idx, raw_line) in src.split('\n').enumerate() {
+    for (line_idx, raw_line) in src.split('\n').enumerate().skip(first_line) {
         let line = raw_line.strip_suffix('\r').unwrap_or(raw_line);
         let trimmed_start = line.trim_start();
         if let Some(rest) = trimmed_start.strip_prefix("##") {
@@ -146,9 +152,62 @@ pub fn split_records(src: &str) -> Result<Vec<Ldr>, JcampError> {
         }
     }
     if records.is_empty() {
-        return Err(JcampError::on_line(0, JcampErrorKind::EmptyFile));
+        return Err(JcampError::on_line(first_line, JcampErrorKind::EmptyFile));
     }
     Ok(records)
+}
+
+/// Where the first block starts and what comes before it.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Preamble {
+    /// 0-based line of the first `##TITLE=`.
+    pub title_line: usize,
+    /// 0-based lines before it that hold more than blanks and `$$` comments (records
+    /// such as an audit trail, or free text), in order.
+    pub skipped_lines: Vec<usize>,
+    /// The start of the first skipped line (up to 40 characters).
+    pub first_skipped: Option<String>,
+}
+
+/// True when `line` is a `##TITLE=` record (label compared as labels are).
+fn is_title_record(line: &str) -> bool {
+    line.trim_start()
+        .strip_prefix("##")
+        .and_then(|rest| rest.find('=').map(|eq| normalise_label(rest[..eq].trim())))
+        .is_some_and(|label| label == "TITLE")
+}
+
+/// Finds the first `##TITLE=` and the meaningful lines before it.
+///
+/// Grammar: `file = preamble 1*block` with `preamble = *line` — any lines before the first
+/// `##TITLE=` (an audit trail, other `##` records, free text). A file with no `##TITLE=`
+/// is an error naming its first meaningful line (or an empty file).
+pub fn find_preamble(src: &str) -> Result<Preamble, JcampError> {
+    let mut skipped_lines = Vec::new();
+    let mut first_skipped = None;
+    for (line_idx, raw_line) in src.split('\n').enumerate() {
+        let line = raw_line.strip_suffix('\r').unwrap_or(raw_line);
+        if is_title_record(line) {
+            return Ok(Preamble {
+                title_line: line_idx,
+                skipped_lines,
+                first_skipped,
+            });
+        }
+        let content = strip_comment(line).trim();
+        if !content.is_empty() {
+            if first_skipped.is_none() {
+                first_skipped = Some(content.chars().take(40).collect());
+            }
+            skipped_lines.push(line_idx);
+        }
+    }
+    match (skipped_lines.first(), first_skipped) {
+        (Some(&line), Some(found)) => {
+            Err(JcampError::on_line(line, JcampErrorKind::NoTitle { found }))
+        }
+        _ => Err(JcampError::on_line(0, JcampErrorKind::EmptyFile)),
+    }
 }
 
 /// Groups records into blocks, in the order their `##END=` closes them (inner blocks of a

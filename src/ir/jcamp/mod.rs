@@ -8,7 +8,13 @@
 //! # The subset read
 //!
 //! ```text
-//! file         = *( blank | "$$" comment ) 1*block
+//! file-bytes   = file [ eof-run ]
+//! eof-run      = 1*( 0x1A | blank | eol )      ; holding at least one 0x1A (DOS end of
+//!                                               ; file): set aside with a note
+//! file         = preamble 1*block
+//! preamble     = *line                          ; anything before the first "##TITLE="
+//!                  ; (an audit trail, other records, text): skipped with a note naming
+//!                  ; its lines; a file with no "##TITLE=" at all is an error
 //! block        = "##TITLE=" text eol *ldr *block "##END=" [text] eol
 //!                  ; blocks nest one level inside a LINK block (##BLOCKS=n, ##DATA TYPE=LINK)
 //! ldr          = "##" label "=" value *continuation-line
@@ -44,13 +50,19 @@
 //!   (non-monotonic X is an error).
 //! * **Counts.** NPOINTS, when given, must equal the number of ordinates decoded.
 //!   DELTAX, when given, must match (LASTX − FIRSTX)/(NPOINTS − 1) within 1 % (files round
-//!   it). The X of point i is FIRSTX + i·(LASTX − FIRSTX)/(NPOINTS − 1).
+//!   it). The X of point i is FIRSTX + i·(LASTX − FIRSTX)/(NPOINTS − 1): FIRSTX and LASTX
+//!   fix the direction, so a DELTAX of the right size and the wrong sign is read with a
+//!   note (the line abscissae are still checked against FIRSTX → LASTX).
 //! * **Units.** XUNITS 1/CM is kept; MICROMETERS is converted (wavenumber = 10⁴/µm).
 //!   YUNITS TRANSMITTANCE is read as percent when its largest value exceeds 1.5, else as a
 //!   fraction; ABSORBANCE as is; other units are read as maxima-up with a note.
-//! * **Blocks.** The first block whose DATA TYPE says infrared (or that has no DATA TYPE)
-//!   and holds data is read; when the file has more blocks, a note says which was taken.
-//! * **Input.** NUL bytes, control characters and invalid UTF-8 are refused as binary;
+//! * **Blocks.** The blocks that hold data and whose DATA TYPE says infrared are tried in
+//!   file order, then those with no DATA TYPE; the first that reads is taken, and a note
+//!   says which when the file has more blocks. A block whose data or units cannot be read
+//!   is skipped with a note naming its line, title and problem; only when no infrared block
+//!   reads is the file refused, with every block's problem listed.
+//! * **Input.** A trailing run of DOS end-of-file bytes (0x1A) is ignored with a note;
+//!   elsewhere NUL bytes, control characters and invalid UTF-8 are refused as binary;
 //!   a file that ends inside a block is truncated; `?`, `NaN` and `inf` are not numbers.
 //!   No input makes the reader panic (a property test and a mutation fuzzer check it).
 
@@ -118,12 +130,27 @@ pub struct BlockData {
     pub notes: Vec<String>,
 }
 
+/// The text of a spectrum file and what was set aside to get it.
+#[derive(Clone, Debug, PartialEq)]
+pub struct DecodedText<'a> {
+    /// The text, without a trailing run of DOS end-of-file bytes.
+    pub text: &'a str,
+    /// Notes on what was set aside (the end-of-file bytes), in order.
+    pub notes: Vec<String>,
+}
+
+/// The DOS end-of-file byte (Ctrl-Z) that some instrument software writes after the text.
+const DOS_EOF: u8 = 0x1a;
+
 /// Checks that `bytes` are text and returns them as `&str`.
 ///
-/// NUL bytes and control characters other than tab, carriage return, line feed and form
-/// feed mean binary input; invalid UTF-8 is refused too. The error names the line and
-/// column of the first offending byte.
-pub fn decode_text(bytes: &[u8]) -> Result<&str, JcampError> {
+/// Grammar: `file-bytes = text [ eof-run ]` with `eof-run = 1*( 0x1A | blank | eol )`
+/// holding at least one 0x1A: a trailing run of DOS end-of-file bytes (possibly after the
+/// last `##END=`, mixed with line ends) is set aside with a note naming its line.
+/// Elsewhere, NUL bytes and control characters other than tab, carriage return, line feed
+/// and form feed mean binary input; invalid UTF-8 is refused too. The error names the line
+/// and column of the first offending byte.
+pub fn decode_text(bytes: &[u8]) -> Result<DecodedText<'_>, JcampError> {
     let place = |offset: usize| -> (usize, usize) {
         let before = &bytes[..offset];
         let line = before.iter().filter(|&&b| b == b'\n').count();
@@ -136,7 +163,25 @@ pub fn decode_text(bytes: &[u8]) -> Result<&str, JcampError> {
             .count();
         (line, column)
     };
-    if let Some(offset) = bytes
+    let mut notes = Vec::new();
+    let tail_start = bytes
+        .iter()
+        .rposition(|&b| !matches!(b, DOS_EOF | b' ' | b'\t' | b'\r' | b'\n'))
+        .map_or(0, |i| i + 1);
+    let body = match bytes[tail_start..].iter().position(|&b| b == DOS_EOF) {
+        Some(first_eof) => {
+            let cut = tail_start + first_eof;
+            let count = bytes[cut..].iter().filter(|&&b| b == DOS_EOF).count();
+            let (line, _) = place(cut);
+            notes.push(format!(
+                "ignored {count} DOS end-of-file byte(s) (0x1A) at the end of the file, from line {}",
+                line + 1
+            ));
+            &bytes[..cut]
+        }
+        None => bytes,
+    };
+    if let Some(offset) = body
         .iter()
         .position(|&b| b < 0x20 && !matches!(b, b'\t' | b'\n' | b'\r' | 0x0c) || b == 0x7f)
     {
@@ -144,13 +189,11 @@ pub fn decode_text(bytes: &[u8]) -> Result<&str, JcampError> {
         return Err(JcampError::at(
             line,
             column,
-            JcampErrorKind::Binary {
-                byte: bytes[offset],
-            },
+            JcampErrorKind::Binary { byte: body[offset] },
         ));
     }
-    match std::str::from_utf8(bytes) {
-        Ok(text) => Ok(text),
+    match std::str::from_utf8(body) {
+        Ok(text) => Ok(DecodedText { text, notes }),
         Err(e) => {
             let (line, column) = place(e.valid_up_to());
             Err(JcampError::at(line, column, JcampErrorKind::InvalidUtf8))
@@ -158,9 +201,36 @@ pub fn decode_text(bytes: &[u8]) -> Result<&str, JcampError> {
     }
 }
 
-/// Reads the blocks of a JCAMP-DX text.
+/// Reads the blocks of a JCAMP-DX text (see [`read_blocks_noted`]; the notes are dropped).
 pub fn read_blocks(src: &str) -> Result<Vec<Block>, JcampError> {
-    ldr::split_blocks(ldr::split_records(src)?)
+    read_blocks_noted(src).map(|(blocks, _)| blocks)
+}
+
+/// Reads the blocks of a JCAMP-DX text, with a note when lines before the first
+/// `##TITLE=` were skipped.
+///
+/// Grammar: `file = preamble 1*block` — the preamble (an audit trail, other records, free
+/// text) is skipped with a note naming its lines; a file with no `##TITLE=` is an error.
+pub fn read_blocks_noted(src: &str) -> Result<(Vec<Block>, Vec<String>), JcampError> {
+    let preamble = ldr::find_preamble(src)?;
+    let mut notes = Vec::new();
+    if let (Some(first), Some(last), Some(found)) = (
+        preamble.skipped_lines.first(),
+        preamble.skipped_lines.last(),
+        &preamble.first_skipped,
+    ) {
+        let lines = if first == last {
+            format!("line {}", first + 1)
+        } else {
+            format!("lines {}-{}", first + 1, last + 1)
+        };
+        notes.push(format!(
+            "skipped {lines} before the first ##TITLE= (line {}), starting {found:?}",
+            preamble.title_line + 1
+        ));
+    }
+    let blocks = ldr::split_blocks(ldr::split_records_from(src, preamble.title_line)?)?;
+    Ok((blocks, notes))
 }
 
 /// Parses a header value as an AFFN number.
@@ -426,7 +496,16 @@ fn decode_xyy(
         ));
     }
     if let Some(declared) = header_number(block, "DELTAX")? {
-        if (declared - dx).abs() > 0.01 * dx.abs() {
+        // FIRSTX and LASTX fix the direction; DELTAX only checks the spacing. A DELTAX of
+        // the right size but the wrong sign is noted, not refused.
+        if declared.signum() != dx.signum() && (declared.abs() - dx.abs()).abs() <= 0.01 * dx.abs()
+        {
+            let line = block.get("DELTAX").map_or(record.line, |r| r.line);
+            notes.push(format!(
+                "DELTAX={declared} on line {} runs opposite to FIRSTX={firstx} -> LASTX={lastx}; the direction is taken from FIRSTX and LASTX",
+                line + 1
+            ));
+        } else if (declared - dx).abs() > 0.01 * dx.abs() {
             let line = block.get("DELTAX").map_or(record.line, |r| r.line);
             return Err(JcampError::on_line(
                 line,
@@ -578,15 +657,20 @@ fn is_infrared(data_type: &str) -> bool {
     t.contains("INFRARED") || t.split_whitespace().next() == Some("IR")
 }
 
-/// Reads the first infrared spectrum of a JCAMP-DX text: picks the block, decodes its
-/// data, converts X to wavenumbers and normalises the ordinates, and summarises the header.
+/// Reads the first readable infrared spectrum of a JCAMP-DX text: picks the block, decodes
+/// its data, converts X to wavenumbers and normalises the ordinates, and summarises the
+/// header.
 ///
-/// Grammar: `file = 1*block` with `block = "##TITLE=" ... "##END="` (see the module
-/// documentation); the block read is the first whose DATA TYPE contains INFRARED (or is
-/// IR…), else the first without a DATA TYPE, among blocks that hold data.
-pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, JcampError> {
-    let blocks = read_blocks(src)?;
-    let mut notes = Vec::new();
+/// Grammar: `file = preamble 1*block` with `block = "##TITLE=" ... "##END="` (see the
+/// module documentation). The blocks tried are those that hold data and whose DATA TYPE
+/// contains INFRARED (or is IR…), in file order, then those without a DATA TYPE. A block
+/// whose data or units cannot be read is skipped with a note naming its line and title,
+/// and the next is tried. Errors: one, when the file has a single infrared block (its
+/// own problem) or a problem of the whole file; when several infrared blocks all fail, a
+/// [`JcampErrorKind::NoReadableBlock`] followed by one [`JcampErrorKind::InBlock`] per
+/// block.
+pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, Vec<JcampError>> {
+    let (blocks, mut notes) = read_blocks_noted(src).map_err(|e| vec![e])?;
     let data_blocks: Vec<(usize, &Block)> = blocks
         .iter()
         .enumerate()
@@ -597,41 +681,103 @@ pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, J
             .iter()
             .find(|b| b.data_type().is_none_or(|t| t != "LINK"))
             .unwrap_or(&blocks[0]);
-        return Err(JcampError::on_line(
+        return Err(vec![JcampError::on_line(
             block.title_line,
             JcampErrorKind::EmptyBlock {
                 title: block.title.clone(),
             },
-        ));
+        )]);
     }
-    let chosen = data_blocks
+    let candidates: Vec<(usize, &Block)> = data_blocks
         .iter()
-        .find(|(_, b)| b.data_type().is_some_and(|t| is_infrared(&t)))
-        .or_else(|| data_blocks.iter().find(|(_, b)| b.data_type().is_none()));
-    let Some(&(index, block)) = chosen else {
+        .filter(|(_, b)| b.data_type().is_some_and(|t| is_infrared(&t)))
+        .chain(data_blocks.iter().filter(|(_, b)| b.data_type().is_none()))
+        .copied()
+        .collect();
+    if candidates.is_empty() {
         let mut found: Vec<String> = data_blocks
             .iter()
             .filter_map(|(_, b)| b.data_type())
             .collect();
         found.dedup();
-        return Err(JcampError::on_line(
+        return Err(vec![JcampError::on_line(
             data_blocks[0].1.title_line,
             JcampErrorKind::NoInfraredBlock {
                 found: found.join(", "),
             },
-        ));
-    };
+        )]);
+    }
+    let version = blocks[0]
+        .value("JCAMPDX")
+        .map(|v| v.split_whitespace().next().unwrap_or(v).to_owned());
+    let mut failures: Vec<(usize, &Block, JcampError)> = Vec::new();
+    for &(index, block) in &candidates {
+        match read_block(block, version.as_deref(), options) {
+            Ok(mut read) => {
+                for (failed_index, failed, error) in &failures {
+                    notes.push(format!(
+                        "block {} ({:?}, line {}) skipped: line {}: {}",
+                        failed_index + 1,
+                        failed.title,
+                        failed.title_line + 1,
+                        error.line + 1,
+                        error.kind
+                    ));
+                }
+                if blocks.len() > 1 {
+                    notes.push(format!(
+                        "the file holds {} blocks; read block {} ({:?}, line {}), the first {}infrared spectrum with data",
+                        blocks.len(),
+                        index + 1,
+                        block.title,
+                        block.title_line + 1,
+                        if failures.is_empty() { "" } else { "readable " }
+                    ));
+                }
+                notes.append(&mut read.notes);
+                read.notes = notes;
+                return Ok(read);
+            }
+            Err(error) => failures.push((index, block, error)),
+        }
+    }
+    if failures.len() == 1 {
+        return Err(failures.into_iter().map(|(_, _, e)| e).collect());
+    }
+    let mut errors = vec![JcampError::on_line(
+        candidates[0].1.title_line,
+        JcampErrorKind::NoReadableBlock {
+            tried: failures.len(),
+        },
+    )];
+    errors.extend(
+        failures
+            .into_iter()
+            .map(|(index, block, error)| JcampError {
+                line: error.line,
+                column: error.column,
+                kind: JcampErrorKind::InBlock {
+                    index: index + 1,
+                    title: block.title.clone(),
+                    opened_line: block.title_line + 1,
+                    inner: Box::new(error.kind),
+                },
+            }),
+    );
+    Err(errors)
+}
+
+/// Reads one block as an infrared spectrum: data, units, ordinates, header summary.
+/// `version` is the JCAMP-DX version of the file's first block (a LINK block gives it for
+/// all).
+fn read_block(
+    block: &Block,
+    version: Option<&str>,
+    options: &ReadOptions,
+) -> Result<ReadSpectrum, JcampError> {
+    let mut notes = Vec::new();
     if block.data_type().is_none() {
         notes.push("the block gives no DATA TYPE; read as an infrared spectrum".to_owned());
-    }
-    if blocks.len() > 1 {
-        notes.push(format!(
-            "the file holds {} blocks; read block {} ({:?}, line {}), the first infrared spectrum with data",
-            blocks.len(),
-            index + 1,
-            block.title,
-            block.title_line + 1
-        ));
     }
     let data = decode_block(block)?;
     notes.extend(data.notes.iter().cloned());
@@ -743,10 +889,11 @@ pub fn read_infrared(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, J
         .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
             (lo.min(v), hi.max(v))
         });
-    let version = blocks[0]
-        .value("JCAMPDX")
-        .or_else(|| block.value("JCAMPDX"))
-        .map(|v| v.split_whitespace().next().unwrap_or(v).to_owned());
+    let version = version.map(str::to_owned).or_else(|| {
+        block
+            .value("JCAMPDX")
+            .map(|v| v.split_whitespace().next().unwrap_or(v).to_owned())
+    });
     let fields = block
         .records
         .iter()
