@@ -7,6 +7,7 @@ mod formula;
 pub mod model;
 pub mod paths;
 pub mod raw;
+pub mod solvents;
 mod validate;
 
 pub use model::*;

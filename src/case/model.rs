@@ -62,6 +62,11 @@ pub struct IrEvidence {
     /// Measured window `(low, high)` in cm⁻¹: a band rule lying partly outside it is not
     /// demanded. Default by technique (see [`default_window`]).
     pub window: (f64, f64),
+    /// Regions inside the window where nothing can be observed (the solvent's opaque
+    /// regions and any stated ones): a band rule reaching into one is not demanded.
+    pub opaque: Vec<(f64, f64)>,
+    /// The solvent word, when the case names one.
+    pub solvent: Option<String>,
     /// The spectrum file the bands were picked from, when the case names one.
     pub spectrum: Option<SpectrumSource>,
 }

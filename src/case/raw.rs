@@ -101,6 +101,11 @@ pub struct RawIr {
     pub technique: Option<String>,
     /// Measured wavenumber window `[low, high]` in cm⁻¹ (defaults by technique).
     pub window: Option<(f64, f64)>,
+    /// Solvent of a solution spectrum (its opaque regions are not observable).
+    pub solvent: Option<String>,
+    /// Further regions `[[low, high], ...]` where nothing can be observed (cell windows,
+    /// a solvent not in the table).
+    pub opaque: Option<Vec<(f64, f64)>>,
 }
 
 /// One observed band as written.
@@ -113,6 +118,8 @@ pub struct RawBand {
     pub strength: String,
     /// `broad | sharp`.
     pub shape: Option<String>,
+    /// Full width at half height, cm⁻¹, when the analyst measured it.
+    pub width: Option<f64>,
 }
 
 /// Files a case refers to, relative paths as written (the CLI resolves them against the

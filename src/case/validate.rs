@@ -362,6 +362,10 @@ fn validate_ms(ctx: &mut Ctx<'_>, raw: &RawMs) -> MsEvidence {
     }
 }
 
+/// Widest full width at half height a case may state for one band, cm⁻¹ (the broadest
+/// hydrogen-bonded envelopes, carboxylic acid O–H, span about 800; common practice).
+pub const MAX_BAND_WIDTH_CM1: f64 = 1000.0;
+
 fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEvidence {
     let base = KeyPath::key("ir");
     let technique = raw.technique.as_ref().and_then(|word| {
@@ -404,12 +408,23 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
                 }
             },
         };
+        if let Some(w) = b.width {
+            if !(w.is_finite() && w > 0.0 && w <= MAX_BAND_WIDTH_CM1) {
+                ctx.error(
+                    &path.with_key("width"),
+                    format!("width {w} cm⁻¹ is not between 0 and {MAX_BAND_WIDTH_CM1} cm⁻¹"),
+                    None,
+                );
+                ok = false;
+            }
+        }
         if let (true, Some(strength), Some(shape)) = (ok, strength, shape) {
             bands.push(ObservedBand {
                 band: Band {
                     at: b.at,
                     strength,
                     shape,
+                    width: b.width,
                 },
                 place: ctx.place(&path),
             });
@@ -427,6 +442,29 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
             default_window(technique)
         }
     };
+    let mut opaque = Vec::new();
+    if let Some(word) = &raw.solvent {
+        match super::solvents::solvent(word) {
+            Some(s) => opaque.extend_from_slice(s.opaque),
+            None => {
+                let words: Vec<&str> = super::solvents::SOLVENTS.iter().map(|s| s.word).collect();
+                ctx.bad_word(&base.with_key("solvent"), "solvent", word, &words);
+            }
+        }
+    }
+    for (i, &(o_lo, o_hi)) in raw.opaque.iter().flatten().enumerate() {
+        if o_lo >= lo && o_hi <= hi && o_lo < o_hi {
+            opaque.push((o_lo, o_hi));
+        } else {
+            ctx.error(
+                &base.with_key("opaque").with_index(i),
+                format!(
+                    "opaque region [{o_lo}, {o_hi}] must be increasing and inside {lo}–{hi} cm⁻¹"
+                ),
+                None,
+            );
+        }
+    }
     if raw.bands.as_ref().is_none_or(Vec::is_empty) && raw.spectrum.is_none() {
         ctx.error(
             &base,
@@ -456,6 +494,8 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
         technique,
         bands,
         window,
+        opaque,
+        solvent: raw.solvent.clone(),
         spectrum,
     }
 }

@@ -262,6 +262,9 @@ pub fn render_text(o: &Outcome) -> String {
                     None => "unexplained (not demanded)".to_owned(),
                 };
                 s.push_str(&format!("      {obs:<20} {why}\n"));
+                if let Some(t) = &b.treatment {
+                    s.push_str(&format!("      {:<20}   ↳ {t}\n", ""));
+                }
             }
             for w in &c.weakening {
                 s.push_str(&format!("    against: {w}\n"));

@@ -57,10 +57,16 @@ pub fn candidate(
     for (bi, (_, ob)) in problem.bands.iter().enumerate() {
         let ex = &problem.explainers[bi];
         let mut list: Vec<Explanation> = Vec::new();
+        // Rules expecting a sharp band, by (kind, id, label), to say when a band labelled
+        // broad was taken as one of them.
+        let mut sharp_rules: Vec<(String, String)> = Vec::new();
         for (g, r, q) in &ex.groups {
             if counts[*g] > 0 {
                 let gd = problem.groups[*g].group;
                 let rule = &gd.bands[*r];
+                if rule.shape == crate::rules::ExpectedShape::Sharp {
+                    sharp_rules.push((gd.id.clone(), rule.label.clone()));
+                }
                 list.push(Explanation {
                     kind: "group".into(),
                     id: gd.id.clone(),
@@ -85,6 +91,13 @@ pub fn candidate(
         for (s, q) in &ex.skeleton {
             if band_explanation::skeleton_applies(problem, *s, counts, skeleton_c, sp3_group) {
                 let sr = &catalogue.skeleton[*s];
+                if sr.band.shape == crate::rules::ExpectedShape::Sharp
+                    || sr.band.shape == crate::rules::ExpectedShape::Any
+                {
+                    // Skeleton rules are C–H stretches and bends: sharp by nature
+                    // (common practice), whatever shape the rule leaves open.
+                    sharp_rules.push((sr.id.clone(), sr.band.label.clone()));
+                }
                 list.push(Explanation {
                     kind: "skeleton".into(),
                     id: sr.id.clone(),
@@ -106,6 +119,48 @@ pub fn candidate(
         }
         list.sort_by(|a, b| b.quality.total_cmp(&a.quality));
         if list.is_empty() {
+            if let Some(j) = ex.branch_of {
+                if let Some(q) =
+                    super::score::direct_explanation(problem, j, counts, skeleton_c, sp3_group)
+                {
+                    list.push(Explanation {
+                        kind: "branch".into(),
+                        id: "vapour_rotational_branch".into(),
+                        rule: format!(
+                            "rotational branch of the {:.0} cm⁻¹ band",
+                            problem.bands[j].1.band.at
+                        ),
+                        defined_at: "src/engine/constraints/band_explanation.rs".into(),
+                        quality: round3(band_explanation::BRANCH_QUALITY * q),
+                    });
+                }
+            }
+        }
+        let treatment = match list.first() {
+            // A branch whose neighbour is itself unexplained excuses nothing.
+            None => band_explanation::treatment_of_unexplained(&ob.band, ex, None),
+            Some(best) if best.kind == "branch" => band_explanation::treatment_of_unexplained(
+                &ob.band,
+                ex,
+                ex.branch_of.map(|j| &problem.bands[j].1.band),
+            ),
+            Some(best)
+                if diagnostic_bands::observed_shape(&ob.band) == Some(crate::ir::Shape::Broad)
+                    && sharp_rules.iter().any(|(id, _)| *id == best.id) =>
+            {
+                Some(format!(
+                    "{:.0}, labelled broad{}, taken as the {} envelope",
+                    ob.band.at,
+                    ob.band
+                        .width
+                        .map(|w| format!(" ({w:.0} cm⁻¹ wide)"))
+                        .unwrap_or_default(),
+                    best.rule
+                ))
+            }
+            Some(_) => None,
+        };
+        if list.is_empty() {
             weakening.push(format!(
                 "{} band at {:.0} cm⁻¹ unexplained",
                 ob.band.strength, ob.band.at
@@ -118,6 +173,7 @@ pub fn candidate(
             place: ob.place.display(),
             explained_by: list,
             demanded: ex.demanded,
+            treatment,
         });
     }
     let mut supporting = Vec::new();
@@ -169,6 +225,7 @@ pub fn candidate(
         rank,
         formula: None,
         groups: group_map(problem, counts),
+        alternatives: Vec::new(),
         families: family_map(problem, counts),
         score,
         score_terms,

@@ -115,9 +115,11 @@ fn pool(
 ) -> Outcome {
     let mut candidates = Vec::new();
     let mut n_consistent = 0;
+    let mut n_combinations = 0;
     let mut enumeration_truncated = false;
     for (lead_rank, outcome) in &solved {
         n_consistent += outcome.n_consistent;
+        n_combinations += outcome.n_combinations;
         enumeration_truncated |= outcome.enumeration_truncated;
         for c in &outcome.candidates {
             let mut c = c.clone();
@@ -147,6 +149,7 @@ fn pool(
     outcome.dbe = None;
     outcome.list_truncated = n_consistent > candidates.len();
     outcome.n_consistent = n_consistent;
+    outcome.n_combinations = n_combinations;
     outcome.enumeration_truncated = enumeration_truncated;
     outcome.candidates = candidates;
     outcome.formula_leads = leads;

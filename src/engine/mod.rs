@@ -7,6 +7,7 @@
 //! score and rank → explain candidates and ruled-out groups, find near misses → when
 //! nothing survives, find a minimal conflict → discriminating checks for the top ones.
 
+pub mod collapse;
 pub mod conflicts;
 pub mod constraints;
 pub mod discriminate;
@@ -160,7 +161,9 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
             .then_with(|| a.1.iter().sum::<u32>().cmp(&b.1.iter().sum::<u32>()))
             .then_with(|| b.1.cmp(&a.1))
     });
-    let n_consistent = scored.len();
+    let n_combinations = scored.len();
+    let classes = collapse::collapse(&problem, &scored, |(_, c, s)| (c.as_slice(), *s));
+    let n_consistent = classes.len();
     let mut in_some_candidate = vec![false; problem.groups.len()];
     for (_, counts, _) in &scored {
         for (i, &n) in counts.iter().enumerate() {
@@ -169,27 +172,33 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
             }
         }
     }
-    let ranked: Vec<(Vec<u32>, u32)> = scored
+    let ranked: Vec<(Vec<u32>, u32)> = classes
         .iter()
         .take(5)
-        .map(|(_, c, s)| (c.clone(), *s))
+        .map(|(best, _)| (scored[*best].1.clone(), scored[*best].2))
         .collect();
-    let candidates: Vec<Candidate> = scored
-        .into_iter()
+    let candidates: Vec<Candidate> = classes
+        .iter()
         .take(options.max_candidates)
         .enumerate()
-        .map(|(i, (s, counts, sk))| {
-            let terms = score::terms(&problem, &counts, sk, ms_e, molecular_nominal, &parts);
-            explain::candidate(
+        .map(|(i, (best, rest))| {
+            let (s, counts, sk) = &scored[*best];
+            let terms = score::terms(&problem, counts, *sk, ms_e, molecular_nominal, &parts);
+            let mut c = explain::candidate(
                 &problem,
-                &counts,
-                sk,
+                counts,
+                *sk,
                 i + 1,
-                s,
+                *s,
                 terms,
                 ms_e,
                 molecular_nominal,
-            )
+            );
+            c.alternatives = rest
+                .iter()
+                .map(|r| explain::group_map(&problem, &scored[*r].1))
+                .collect();
+            c
         })
         .collect();
 
@@ -244,6 +253,7 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         list_truncated: n_consistent > candidates.len(),
         candidates,
         n_consistent,
+        n_combinations,
         enumeration_truncated,
         ruled_out,
         near_misses,

@@ -217,7 +217,10 @@ impl<'c> Problem<'c> {
                         &set_aside_bands,
                         catalogue,
                         technique,
-                        window,
+                        diagnostic_bands::Observable {
+                            window,
+                            opaque: case.ir.as_ref().map_or(&[][..], |i| &i.opaque[..]),
+                        },
                         options.tolerance_cm1,
                     )
                 };
@@ -272,7 +275,7 @@ impl<'c> Problem<'c> {
             })
             .collect();
         let positions: Vec<f64> = bands.iter().map(|(_, b)| b.band.at).collect();
-        let explainers: Vec<band_explanation::BandExplainers> = bands
+        let mut explainers: Vec<band_explanation::BandExplainers> = bands
             .iter()
             .map(|(_, b)| {
                 band_explanation::explainers_of(
@@ -285,6 +288,10 @@ impl<'c> Problem<'c> {
                 )
             })
             .collect();
+        if technique == Some(Technique::Gas) {
+            let plain: Vec<&crate::ir::Band> = bands.iter().map(|(_, b)| &b.band).collect();
+            band_explanation::mark_branches(&plain, &mut explainers);
+        }
         let exclude_sets = excludes
             .iter()
             .map(|e| GroupSet::of(e.iter().copied()))

@@ -19,8 +19,11 @@ pub struct Outcome {
     pub tolerance_cm1: f64,
     /// Candidates best first (at most `max_candidates`).
     pub candidates: Vec<Candidate>,
-    /// How many consistent combinations were found in all.
+    /// How many consistent candidates were found in all (combinations that no band tells
+    /// apart counted once, see `engine::collapse`).
     pub n_consistent: usize,
+    /// How many consistent group combinations were found before collapsing.
+    pub n_combinations: usize,
     /// True when the enumeration limit stopped the search (more may exist).
     pub enumeration_truncated: bool,
     /// True when fewer candidates are shown than were found.
@@ -73,6 +76,10 @@ pub struct Candidate {
     pub formula: Option<String>,
     /// Concrete group counts.
     pub groups: BTreeMap<String, u32>,
+    /// Other splits of the same hydrocarbon unsaturation (rings, C=C, C≡C) that no
+    /// observed band tells from this one (see `engine::collapse`), best first.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub alternatives: Vec<BTreeMap<String, u32>>,
     /// Counts rolled up to every ancestor family (required ids included).
     pub families: BTreeMap<String, u32>,
     /// Evidence score (see `score`).
@@ -141,14 +148,20 @@ pub struct BandAssignment {
     pub place: String,
     /// Explanations, best first; empty when unexplained.
     pub explained_by: Vec<Explanation>,
-    /// True when the band had to be explained (strong or medium, ≥ 1500 cm⁻¹).
+    /// True when the band had to be explained (strong, ≥ 1500 cm⁻¹, covered by a rule,
+    /// no vapour branch).
     pub demanded: bool,
+    /// How a band that was excused or reshaped was taken, in words (a band labelled broad
+    /// taken as the C–H stretch envelope, a vapour branch, a medium band left unexplained).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub treatment: Option<String>,
 }
 
 /// One explanation of a band.
 #[derive(Clone, Debug, Serialize)]
 pub struct Explanation {
-    /// `group`, `skeleton`, `pattern` or `artefact`.
+    /// `group`, `skeleton`, `pattern`, `artefact` or `branch` (a vapour band taken as the
+    /// rotational branch of an explained neighbour).
     pub kind: String,
     /// Group, skeleton, pattern or artefact id.
     pub id: String,

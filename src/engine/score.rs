@@ -10,14 +10,17 @@
 //!           − 0.3       per supporting band expected strong, inside the window, not seen
 //!           + 0.5       per MS clue (ion or loss) matched by a stated fragment
 //!       + Σ_bands explained: 0.2 × best q among the candidate's explanations
-//!       − Σ_bands unexplained: 0.5 weak ≥ 1500 cm⁻¹; 0.3 strong, 0.15 medium,
-//!                              0.05 weak below 1500 cm⁻¹
+//!                            (a vapour band taken as the branch of an explained
+//!                            neighbour: q = 0.3 × the neighbour's q)
+//!       − Σ_bands unexplained: ≥ 1500 cm⁻¹ 1.0 strong (not covered by any rule),
+//!                              0.4 medium, 0.15 weak; below 1500 cm⁻¹ 0.3 strong,
+//!                              0.15 medium, 0.05 weak
 //!       − 0.25 × (group instances − 1)          (parsimony; `ring` counts)
 //! q = 0.5·position + 0.3·strength + 0.2·shape   (see constraints::diagnostic_bands::quality)
 //! ```
 //! Ties: fewer group instances first, then the group ids in catalogue order.
 
-use super::constraints::band_explanation::{has_sp3_group, skeleton_applies};
+use super::constraints::band_explanation::{has_sp3_group, skeleton_applies, BRANCH_QUALITY};
 use super::constraints::ms::matched_clues;
 use super::model::Problem;
 use super::outcome::ScoreTerm;
@@ -39,12 +42,15 @@ pub const W_EXPLAINED: f64 = 0.2;
 /// Parsimony penalty per group instance beyond the first.
 pub const P_PER_EXTRA_INSTANCE: f64 = 0.25;
 
-/// Penalty for an unexplained band (never called for a demanded band: those rule out).
+/// Penalty for an unexplained band (a demanded band never reaches it: it rules out). A
+/// medium band above 1500 cm⁻¹ costs more than a strong fingerprint band: the diagnostic
+/// region is where groups show themselves (DESIGN.md, evidence semantics 3 and 4).
 pub fn unexplained_penalty(at: f64, strength: Strength) -> f64 {
     if at >= crate::ir::band::FINGERPRINT_BELOW_CM1 {
         match strength {
-            Strength::Weak => 0.5,
-            _ => 0.0,
+            Strength::Strong => 1.0,
+            Strength::Medium => 0.4,
+            Strength::Weak => 0.15,
         }
     } else {
         match strength {
@@ -55,8 +61,23 @@ pub fn unexplained_penalty(at: f64, strength: Strength) -> f64 {
     }
 }
 
-/// Best explanation quality of active band `bi` in the candidate, if any.
+/// Best explanation quality of active band `bi` in the candidate, if any; a vapour band
+/// without a rule of its own counts through the neighbour it may be a branch of.
 pub fn best_explanation(
+    problem: &Problem<'_>,
+    bi: usize,
+    counts: &[u32],
+    skeleton_c: u32,
+    sp3_group: bool,
+) -> Option<f64> {
+    direct_explanation(problem, bi, counts, skeleton_c, sp3_group).or_else(|| {
+        let j = problem.explainers[bi].branch_of?;
+        direct_explanation(problem, j, counts, skeleton_c, sp3_group).map(|q| BRANCH_QUALITY * q)
+    })
+}
+
+/// Best quality among the rules of the candidate (and artefacts) that explain band `bi`.
+pub fn direct_explanation(
     problem: &Problem<'_>,
     bi: usize,
     counts: &[u32],

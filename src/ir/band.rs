@@ -84,12 +84,43 @@ pub struct Band {
     /// Width class, when the observer stated or measured it.
     #[serde(skip_serializing_if = "Option::is_none", default)]
     pub shape: Option<Shape>,
+    /// Full width at half height in cm⁻¹, when measured (a picked band) or stated (a case's
+    /// `width`). A measured width outranks the shape word, which is only a hint.
+    #[serde(skip_serializing_if = "Option::is_none", default)]
+    pub width: Option<f64>,
 }
 
 /// Lower edge of the diagnostic region; below it lies the fingerprint region (common practice).
 pub const FINGERPRINT_BELOW_CM1: f64 = 1500.0;
 
+/// Full width at half height from which a band reads as broad, cm⁻¹: condensed-phase
+/// C–H, C=O, C≡N and ring modes are about 5–40 cm⁻¹ wide, C–O stretches up to about 60;
+/// hydrogen-bonded O–H and N–H envelopes are about 100–500 (common practice).
+pub const BROAD_FROM_CM1: f64 = 75.0;
+
 impl Band {
+    /// A band with no stated shape or width.
+    pub fn new(at: f64, strength: Strength) -> Band {
+        Band {
+            at,
+            strength,
+            shape: None,
+            width: None,
+        }
+    }
+
+    /// The same band with a shape word.
+    pub fn with_shape(mut self, shape: Option<Shape>) -> Band {
+        self.shape = shape;
+        self
+    }
+
+    /// The same band with a width (cm⁻¹).
+    pub fn with_width(mut self, width: Option<f64>) -> Band {
+        self.width = width;
+        self
+    }
+
     /// True when the band lies in the diagnostic region (at or above 1500 cm⁻¹).
     pub fn in_diagnostic_region(&self) -> bool {
         self.at >= FINGERPRINT_BELOW_CM1

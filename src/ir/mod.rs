@@ -85,6 +85,7 @@ impl PickedSpectrum {
                 at: (b.at * 10.0).round() / 10.0,
                 strength: b.strength,
                 shape: b.shape,
+                width: b.fwhm.map(|w| (w * 10.0).round() / 10.0),
             })
             .collect()
     }

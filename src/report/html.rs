@@ -234,6 +234,15 @@ pub fn render(v: &ReportView) -> String {
             row(&mut s, &cells);
         }
         s.push_str("</table>\n");
+        if !v.band_table.treatments.is_empty() {
+            s.push_str(
+                "<p>How the leading candidate took bands it excused or reshaped:</p>\n<ul>\n",
+            );
+            for t in &v.band_table.treatments {
+                let _ = writeln!(s, "<li>{}</li>", escape(t));
+            }
+            s.push_str("</ul>\n");
+        }
     }
     if !v.ruled_out.is_empty() {
         s.push_str(

@@ -162,6 +162,12 @@ pub fn render(v: &ReportView) -> String {
             }
             push(l);
         }
+        if !v.band_table.treatments.is_empty() {
+            push("\nHow the leading candidate took bands it excused or reshaped:\n".into());
+            for t in &v.band_table.treatments {
+                push(format!("- {}", md(t)));
+            }
+        }
     }
     if !v.ruled_out.is_empty() {
         push("\n## Ruled out\n".into());

@@ -195,6 +195,15 @@ pub fn render(v: &ReportView) -> String {
             let _ = write!(l, "  from {}", row.place);
             line(&mut s, l.trim_end());
         }
+        if !v.band_table.treatments.is_empty() {
+            line(
+                &mut s,
+                "  how the leading candidate took bands it excused or reshaped:",
+            );
+            for t in &v.band_table.treatments {
+                line(&mut s, format!("    {}", flat(t)));
+            }
+        }
         if let Some(first) = v.band_table.rows.first() {
             if !first.cells.is_empty() {
                 line(

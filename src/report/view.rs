@@ -196,6 +196,9 @@ pub struct BandTable {
     pub ranks: Vec<usize>,
     /// One row per observed band, highest wavenumber first.
     pub rows: Vec<BandRow>,
+    /// How the leading candidate took the bands it excused or reshaped
+    /// (`2962 cm⁻¹: 2962, labelled broad, taken as the … envelope`).
+    pub treatments: Vec<String>,
 }
 
 /// One observed band and what explains it in each leading candidate.
@@ -455,7 +458,24 @@ fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
             })
             .collect(),
     };
-    BandTable { ranks, rows }
+    let treatments = leading
+        .first()
+        .map(|c| {
+            c.bands
+                .iter()
+                .filter_map(|b| {
+                    b.treatment
+                        .as_ref()
+                        .map(|t| format!("{:.0} cm⁻¹ ({} {}): {t}", b.at, b.strength, b.place))
+                })
+                .collect()
+        })
+        .unwrap_or_default();
+    BandTable {
+        ranks,
+        rows,
+        treatments,
+    }
 }
 
 /// Rounds to `decimals` places so that reports do not carry float noise.

@@ -678,6 +678,7 @@ mod tests {
             at,
             strength,
             shape: None,
+            width: None,
         };
         // invented band list of a para-disubstituted aryl ketone
         let bands = [

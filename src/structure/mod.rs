@@ -141,11 +141,13 @@ mod tests {
                 at: 1685.0,
                 strength: Strength::Strong,
                 shape: None,
+                width: None,
             },
             Band {
                 at: 820.0,
                 strength: Strength::Strong,
                 shape: None,
+                width: None,
             },
         ];
         let formula = Formula::parse("C10H12O").expect("formula");

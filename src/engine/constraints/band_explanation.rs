@@ -1,15 +1,24 @@
-//! Explanation of observed bands (DESIGN.md, evidence semantics 3 and 4).
+//! Explanation of observed bands (DESIGN.md, evidence semantics 3 and 4), graded by how
+//! far a band list can be trusted.
 //!
-//! Every strong or medium band at or above 1500 cm⁻¹ must be explained by a band rule of
-//! a group of the candidate (any role), by a skeleton rule whose `needs_any` holds (a group
-//! of the candidate, or `sp3_carbon`: a skeleton carbon or a group holding a saturated
-//! C–H), by a fingerprint pattern of a group present, or by an artefact of the technique.
-//! Otherwise the candidate is ruled out. Weak bands and fingerprint bands are never
-//! demanded; unexplained, they lower the score.
+//! What a band list may misreport — shape words, widths, rotational wings, overtones,
+//! traces, weak or medium extra bands — lowers a candidate's score and is said in the
+//! report; it never rules the candidate out. Only a *strong* band in the diagnostic region
+//! (at or above 1500 cm⁻¹) is *demanded*, and only when the catalogue has rules for that
+//! position (a group band, a skeleton band or a fingerprint pattern): a candidate none of
+//! whose groups, skeleton or artefacts explains it is ruled out, because the band stands
+//! in a window that only groups absent from the candidate can explain. A strong band that
+//! no rule covers at all is reported and penalised, never decisive.
 //!
-//! Explaining checks position and shape, not strength (a band stronger or weaker than
-//! usual is scored lower, not refused), so that real spectra with unusual intensities do
-//! not lose their true candidate.
+//! Explaining checks position; shape and strength only grade the match (a band labelled
+//! broad is taken as the C–H stretch envelope with a lower quality, and the report says
+//! so), except that a rule expecting a weak band never explains a strong one.
+//!
+//! Vapour phase: the P and R branches of a band stand 20–60 cm⁻¹ either side of its centre
+//! (common practice; Herzberg, Infrared and Raman Spectra, ch. IV, from memory), so a band
+//! within [`BRANCH_MAX_CM1`] of an at least as strong band that the catalogue covers may
+//! be its branch: it is never demanded, and it counts as explained (at a low quality)
+//! when its neighbour is.
 
 use super::super::model::{GroupData, Problem};
 use super::diagnostic_bands::explains;
@@ -22,11 +31,24 @@ pub const LINE_FOREST_CM1: f64 = 150.0;
 /// Observed bands inside a line-forest artefact's range that show the forest is there.
 pub const FOREST_MIN_BANDS: usize = 4;
 
+/// Farthest a vapour-phase band may stand from a band whose rotational branch it may
+/// be, cm⁻¹ (P–R separations of small molecules reach 60–100 cm⁻¹; half of that either
+/// side, plus the contour's own width).
+pub const BRANCH_MAX_CM1: f64 = 60.0;
+
+/// Quality factor of a band explained only as the branch of its neighbour.
+pub const BRANCH_QUALITY: f64 = 0.3;
+
 /// Everything that could explain one observed band, found once per band.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct BandExplainers {
-    /// The band must be explained (strong or medium, diagnostic region).
+    /// The band must be explained: strong, in the diagnostic region, covered by some rule
+    /// of the catalogue, and not a possible vapour branch of a neighbour.
     pub demanded: bool,
+    /// Some group, skeleton or pattern rule of the catalogue covers the position.
+    pub covered: bool,
+    /// Vapour phase: the active band (index) whose rotational branch this one may be.
+    pub branch_of: Option<usize>,
     /// Artefact rules (index, quality).
     pub artefacts: Vec<(usize, f64)>,
     /// Group band rules (concrete group index, rule index, quality).
@@ -37,9 +59,10 @@ pub struct BandExplainers {
     pub patterns: Vec<(usize, Vec<usize>, f64)>,
 }
 
-/// True when a band of this strength and position must be explained.
+/// True when a band of this strength and position must be explained, if the catalogue
+/// covers its position (see the module doc).
 pub fn is_demanded(band: &Band) -> bool {
-    band.in_diagnostic_region() && band.strength != Strength::Weak
+    band.in_diagnostic_region() && band.strength == Strength::Strong
 }
 
 /// Finds every rule that can explain `band`.
@@ -92,11 +115,6 @@ pub fn explainers_of(
         }
     }
     for (si, s) in catalogue.skeleton.iter().enumerate() {
-        // Skeleton rules are C–H stretches and bends: never broad (common practice),
-        // whatever shape the rule leaves open, so a broad O–H is never taken for C–H.
-        if band.shape == Some(crate::ir::Shape::Broad) {
-            continue;
-        }
         if let Some(q) = explains(band, &s.band, technique, tolerance) {
             out.skeleton.push((si, q));
         }
@@ -116,7 +134,39 @@ pub fn explainers_of(
             out.patterns.push((pi, supported, q));
         }
     }
+    out.covered = !out.groups.is_empty() || !out.skeleton.is_empty() || !out.patterns.is_empty();
+    out.demanded &= out.covered;
     out
+}
+
+/// Vapour phase: marks each band that may be a rotational branch of a neighbour (within
+/// [`BRANCH_MAX_CM1`], at least as strong, covered by the catalogue, itself no branch);
+/// such a band is no longer demanded. The nearest neighbour wins.
+pub fn mark_branches(bands: &[&Band], explainers: &mut [BandExplainers]) {
+    let mut marks = vec![None; bands.len()];
+    for (i, b) in bands.iter().enumerate() {
+        if !explainers[i].artefacts.is_empty() {
+            continue;
+        }
+        marks[i] = bands
+            .iter()
+            .enumerate()
+            .filter(|(j, n)| {
+                *j != i
+                    && explainers[*j].covered
+                    && n.strength >= b.strength
+                    && (n.at - b.at).abs() <= BRANCH_MAX_CM1
+                    && (n.at - b.at).abs() > 0.0
+            })
+            .min_by(|x, y| (x.1.at - b.at).abs().total_cmp(&(y.1.at - b.at).abs()))
+            .map(|(j, _)| j);
+    }
+    for (i, mark) in marks.into_iter().enumerate() {
+        if let Some(j) = mark {
+            explainers[i].branch_of = Some(j);
+            explainers[i].demanded = false;
+        }
+    }
 }
 
 /// What the candidate's hydrogens must provide for a band that only the skeleton
@@ -216,6 +266,44 @@ pub fn check(
         }
     }
     (unexplained, needs)
+}
+
+/// How the report words an excused band: one the candidate leaves without a rule of its
+/// own although it stands in the diagnostic region and is not weak (a medium band, a strong
+/// band no rule covers, a vapour branch). Weak and fingerprint bands never decide anything
+/// and get no sentence; a demanded band left unexplained rules the candidate out and is
+/// worded by [`describe_unexplained`].
+pub fn treatment_of_unexplained(
+    band: &Band,
+    ex: &BandExplainers,
+    neighbour: Option<&Band>,
+) -> Option<String> {
+    if let (Some(_), Some(n)) = (ex.branch_of, neighbour) {
+        return Some(format!(
+            "taken as a rotational branch of the {:.0} cm⁻¹ band (vapour phase): not decisive, scored low",
+            n.at
+        ));
+    }
+    if !band.in_diagnostic_region() || ex.demanded {
+        return None;
+    }
+    if ex.branch_of.is_some() && band.strength == Strength::Strong {
+        return Some(
+            "strong, standing beside a band whose rotational branch it may be (vapour phase), and that band is unexplained too: lowers the score, rules nothing out"
+                .into(),
+        );
+    }
+    match band.strength {
+        Strength::Strong => Some(
+            "strong, but no rule of the catalogue covers this position: lowers the score, rules nothing out"
+                .into(),
+        ),
+        Strength::Medium => Some(
+            "medium band left unexplained (a band list may hold overtones, traces or wings): lowers the score, rules nothing out"
+                .into(),
+        ),
+        Strength::Weak => None,
+    }
 }
 
 /// Words for an unexplained band.

@@ -4,9 +4,13 @@
 //! override applied; when the technique is unknown every variant counts, which can only
 //! keep more candidates). An observed band *matches* an effective rule when
 //! - its position lies in the range widened by the tolerance on each side,
-//! - its shape does not contradict: an observed broad band never matches a rule that
-//!   expects a sharp band (a sharp observation against a broad expectation is allowed and
-//!   scored lower, since free O–H and N–H bands sharpen in dilute or vapour samples),
+//! - its shape is only a hint: a shape word (or a measured width) that disagrees with the
+//!   rule lowers the match quality but never refuses the match, because band lists
+//!   misreport shape (a liquid's overlapping CH3/CH2 stretches or a vapour's rotational
+//!   contour make one C–H band 40–80 cm⁻¹ wide that a picker calls broad; free O–H and N–H
+//!   bands sharpen in dilute or vapour samples),
+//! - a rule that expects a weak band (an overtone, a combination band) never accounts for
+//!   a strong one,
 //! - and, for *presence*, its strength is compatible: observed class ≥ expected class − 1
 //!   − (technique weakening at that position, e.g. ATR above 2500 cm⁻¹), with `variable`
 //!   and `weak` expectations met by any band.
@@ -17,6 +21,7 @@
 //! before enumeration, and the missing band is the decisive evidence.
 
 use crate::case::ObservedBand;
+use crate::ir::band::BROAD_FROM_CM1;
 use crate::ir::{Band, Shape, Strength};
 use crate::rules::{
     BandRole, BandRule, Catalogue, ExpectedShape, ExpectedStrength, Range, Technique,
@@ -102,7 +107,8 @@ pub fn strength_compatible(observed: Strength, expected: ExpectedStrength, weake
     }
 }
 
-/// True unless an observed broad band meets a rule expecting a sharp one.
+/// True unless an observed broad band meets an artefact expecting a sharp one (artefacts
+/// are the explanation of last resort, so for them the shape word is held to).
 pub fn shape_compatible(observed: Option<Shape>, expected: ExpectedShape) -> bool {
     !(observed == Some(Shape::Broad) && expected == ExpectedShape::Sharp)
 }
@@ -114,7 +120,10 @@ pub fn shape_compatible(observed: Option<Shape>, expected: ExpectedShape) -> boo
 /// 0.4 two stronger, 0 otherwise, and shape = 1 agreeing, 0.75 rule says any,
 /// 0.5 not observed, 0.3 sharp for broad.
 pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
-    if !eff.range.contains_within(band.at, tolerance) || !shape_compatible(band.shape, eff.shape) {
+    if !eff.range.contains_within(band.at, tolerance) {
+        return None;
+    }
+    if eff.strength == ExpectedStrength::Weak && band.strength == Strength::Strong {
         return None;
     }
     let half = (eff.range.hi - eff.range.lo) / 2.0;
@@ -130,18 +139,36 @@ pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
             _ => 0.0,
         },
     };
-    let shape = match (band.shape, eff.shape) {
+    let shape = match (observed_shape(band), eff.shape) {
         (None, _) => 0.5,
         (Some(_), ExpectedShape::Any) => 0.75,
         (Some(Shape::Broad), ExpectedShape::Broad) | (Some(Shape::Sharp), ExpectedShape::Sharp) => {
             1.0
         }
-        (Some(_), _) => 0.3,
+        (Some(Shape::Sharp), ExpectedShape::Broad) => 0.3,
+        (Some(_), _) => 0.1,
     };
     Some(0.5 * position + 0.3 * strength + 0.2 * shape)
 }
 
-/// Best quality with which `band` is *explained* by `rule` (position and shape only).
+/// The shape a band shows: its measured width decides when known (broad from
+/// [`BROAD_FROM_CM1`]), else the shape word, which is a hint.
+pub fn observed_shape(band: &Band) -> Option<Shape> {
+    match band.width {
+        Some(w) if w >= BROAD_FROM_CM1 => Some(Shape::Broad),
+        Some(_) => Some(Shape::Sharp),
+        None => band.shape,
+    }
+}
+
+/// True when the band reads as broad (by width or word) where the rule expects a sharp
+/// band: the match stands, and the report says how the band was taken.
+pub fn broad_taken_as_sharp(band: &Band, expected: ExpectedShape) -> bool {
+    observed_shape(band) == Some(Shape::Broad) && expected == ExpectedShape::Sharp
+}
+
+/// Best quality with which `band` is *explained* by `rule` (position; shape and strength
+/// only lower the quality, except that a weak-band rule never explains a strong band).
 pub fn explains(
     band: &Band,
     rule: &BandRule,
@@ -165,25 +192,54 @@ pub fn satisfies(
     tolerance: f64,
 ) -> Option<f64> {
     let weakening = weakening_at(catalogue, technique, band.at);
+    // Strength classes compare heights, but a hydrogen-bonded envelope spreads its area
+    // over hundreds of cm⁻¹: a very broad O–H of a solid phenol or diol looks weak beside
+    // sharp bands of the same intensity (common practice). A broad band meeting a rule
+    // that expects a broad band may therefore look one class weaker still.
+    let broad = observed_shape(band) == Some(Shape::Broad);
     effective_variants(rule, technique)
         .iter()
-        .filter(|e| strength_compatible(band.strength, e.strength, weakening))
+        .filter(|e| {
+            let spread = u8::from(broad && e.shape == ExpectedShape::Broad);
+            strength_compatible(band.strength, e.strength, weakening + spread)
+        })
         .filter_map(|e| quality(band, e, tolerance))
         .fold(None, |best: Option<f64>, q| {
             Some(best.map_or(q, |b| b.max(q)))
         })
 }
 
+/// Where a spectrum can be observed: the measured window less the regions where the
+/// solvent or cell is opaque.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Observable<'a> {
+    /// Measured window `(low, high)`, cm⁻¹.
+    pub window: (f64, f64),
+    /// Opaque regions inside it.
+    pub opaque: &'a [(f64, f64)],
+}
+
+impl Observable<'_> {
+    /// True when every point of `lo..=hi` can be observed.
+    pub fn covers(&self, lo: f64, hi: f64) -> bool {
+        lo >= self.window.0
+            && hi <= self.window.1
+            && !self.opaque.iter().any(|&(a, b)| lo < b && hi > a)
+    }
+}
+
 /// Whether a rule is demanded: diagnostic, not allowed to be absent under every variant
-/// that applies, and with every variant's range wholly inside the measured window.
-fn demand(rule: &BandRule, technique: Option<Technique>, window: (f64, f64)) -> Demand {
+/// that applies, and with every variant's range wholly observable (inside the measured
+/// window, clear of opaque regions: a band that cannot be seen is "not observable",
+/// never "absent").
+fn demand(rule: &BandRule, technique: Option<Technique>, observable: Observable<'_>) -> Demand {
     if rule.role != BandRole::Diagnostic {
         return Demand::No;
     }
     let variants = effective_variants(rule, technique);
     let outside = variants
         .iter()
-        .any(|e| e.range.lo < window.0 || e.range.hi > window.1);
+        .any(|e| !observable.covers(e.range.lo, e.range.hi));
     if outside {
         Demand::No
     } else if variants.iter().any(|e| e.may_be_absent) {
@@ -235,7 +291,7 @@ pub fn presence(
     set_aside: &[&ObservedBand],
     catalogue: &Catalogue,
     technique: Option<Technique>,
-    window: (f64, f64),
+    observable: Observable<'_>,
     tolerance: f64,
 ) -> Presence {
     let mut out = Presence {
@@ -284,7 +340,7 @@ pub fn presence(
                     .collect();
                 let demands: Vec<Demand> = members
                     .iter()
-                    .map(|i| demand(&rules[*i], technique, window))
+                    .map(|i| demand(&rules[*i], technique, observable))
                     .collect();
                 // A member that is not demanded (outside the window, or not diagnostic)
                 // could be the one present: the set asks for nothing.
@@ -297,15 +353,14 @@ pub fn presence(
                     out.absent_exceptions.push(members[0]);
                 }
             }
-            None => match demand(rule, technique, window) {
+            None => match demand(rule, technique, observable) {
                 Demand::Hard if !seen[rule_idx] => out.missing.push(vec![rule_idx]),
                 Demand::Soft if !seen[rule_idx] => out.absent_exceptions.push(rule_idx),
                 Demand::No
                     if rule.role == BandRole::Supporting
                         && !seen[rule_idx]
                         && rule.strength == ExpectedStrength::Strong
-                        && rule.range.lo >= window.0
-                        && rule.range.hi <= window.1 =>
+                        && observable.covers(rule.range.lo, rule.range.hi) =>
                 {
                     out.missing_support.push(rule_idx)
                 }
@@ -347,11 +402,54 @@ mod tests {
     use crate::engine::testkit::small_catalogue;
 
     fn b(at: f64, strength: Strength, shape: Option<Shape>) -> Band {
-        Band {
-            at,
+        Band::new(at, strength).with_shape(shape)
+    }
+
+    fn effective(lo: f64, hi: f64, strength: ExpectedStrength, shape: ExpectedShape) -> Effective {
+        Effective {
+            range: Range { lo, hi },
             strength,
             shape,
+            may_be_absent: false,
+            via: None,
         }
+    }
+
+    #[test]
+    fn a_band_labelled_broad_still_matches_a_sharp_rule_but_scores_lower() {
+        // common practice: a liquid's CH3/CH2 stretches overlap into one band 40–80 cm⁻¹
+        // wide that a picker may call broad; the C–H rule must still account for it.
+        let ch = effective(
+            2840.0,
+            3000.0,
+            ExpectedStrength::Variable,
+            ExpectedShape::Sharp,
+        );
+        let sharp = quality(&b(2962.0, Strength::Strong, Some(Shape::Sharp)), &ch, 15.0);
+        let broad = quality(&b(2962.0, Strength::Strong, Some(Shape::Broad)), &ch, 15.0);
+        assert!(matches!((sharp, broad), (Some(s), Some(w)) if s > w && w > 0.0));
+        assert!(broad_taken_as_sharp(
+            &b(2962.0, Strength::Strong, Some(Shape::Broad)),
+            ExpectedShape::Sharp
+        ));
+    }
+
+    #[test]
+    fn a_measured_width_outranks_the_shape_word() {
+        let word_broad = b(2962.0, Strength::Strong, Some(Shape::Broad)).with_width(Some(45.0));
+        assert_eq!(observed_shape(&word_broad), Some(Shape::Sharp));
+        let wide = b(3340.0, Strength::Strong, None).with_width(Some(250.0));
+        assert_eq!(observed_shape(&wide), Some(Shape::Broad));
+    }
+
+    #[test]
+    fn a_weak_band_rule_never_accounts_for_a_strong_band() {
+        // common practice: overtone and combination bands are weak; a strong band in
+        // their window is a fundamental that a group must explain.
+        let overtone = effective(1660.0, 2000.0, ExpectedStrength::Weak, ExpectedShape::Any);
+        assert!(quality(&b(1715.0, Strength::Strong, None), &overtone, 15.0).is_none());
+        assert!(quality(&b(1715.0, Strength::Medium, None), &overtone, 15.0).is_some());
+        assert!(quality(&b(1715.0, Strength::Weak, None), &overtone, 15.0).is_some());
     }
 
     #[test]
