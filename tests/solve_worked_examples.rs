@@ -60,8 +60,24 @@ fn butanol_c4h10o_broad_3350_is_an_alcohol_not_an_ether() {
     let o = solve_text(
         "formula: C4H10O\nir:\n  technique: film\n  bands:\n    - { at: 3350, strength: strong, shape: broad }\n    - { at: 2960, strength: strong }\n    - { at: 2875, strength: medium }\n    - { at: 1465, strength: medium }\n    - { at: 1070, strength: strong }\n",
     );
-    assert!(all_have(&o, "alcohol"), "{:?}", listing(&o));
-    assert!(none_has(&o, "ether"), "{:?}", listing(&o));
+    // A medium band never rules out (a band list may misreport one), so dimethyl ether
+    // may stay consistent, but it leaves the free O–H unexplained and ranks below.
+    assert!(
+        o.candidates[0].families.contains_key("alcohol"),
+        "{:?}",
+        listing(&o)
+    );
+    let ether = o
+        .candidates
+        .iter()
+        .find(|c| c.families.contains_key("ether"));
+    if let Some(ether) = ether {
+        assert!(ether.score < o.candidates[0].score, "{:?}", listing(&o));
+        assert!(ether
+            .bands
+            .iter()
+            .any(|b| b.at == 3660.0 && b.explained_by.is_empty() && b.treatment.is_some()));
+    }
 }
 
 #[test]
@@ -86,6 +102,18 @@ fn acetic_acid_c2h4o2_very_broad_oh_and_1710_is_an_acid_not_an_ester() {
     // broad (centred near 3000), C=O 1710 s, C–O 1290 s.
     let o = solve_text(
         "formula: C2H4O2\nir:\n  technique: film\n  bands:\n    - { at: 3000, strength: strong, shape: broad }\n    - { at: 1710, strength: strong }\n    - { at: 1410, strength: medium }\n    - { at: 1290, strength: strong }\n    - { at: 935, strength: medium, shape: broad }\n",
+    );
+    // The shape word alone is a hint (a broad band near 3000 could be a C–H envelope), so
+    // an ester may stay consistent, but the acid ranks first.
+    assert!(
+        o.candidates[0].families.contains_key("carboxylic_acid"),
+        "{:?}",
+        listing(&o)
+    );
+    // With the width measured (acid O–H envelopes span about 2500–3300, common practice)
+    // the band is no C–H envelope and only an acid explains it.
+    let o = solve_text(
+        "formula: C2H4O2\nir:\n  technique: film\n  bands:\n    - { at: 3000, strength: strong, shape: broad, width: 500 }\n    - { at: 1710, strength: strong }\n    - { at: 1410, strength: medium }\n    - { at: 1290, strength: strong }\n    - { at: 935, strength: medium, shape: broad }\n",
     );
     assert!(all_have(&o, "carboxylic_acid"), "{:?}", listing(&o));
     assert!(none_has(&o, "ester"), "{:?}", listing(&o));
@@ -113,6 +141,22 @@ fn vapour_phase_ethanol_free_oh_is_an_alcohol() {
     let o = solve_text(
         "formula: C2H6O\nir:\n  technique: gas\n  bands:\n    - { at: 3660, strength: medium, shape: sharp }\n    - { at: 2985, strength: strong }\n    - { at: 2900, strength: medium }\n    - { at: 1395, strength: medium }\n    - { at: 1065, strength: strong }\n",
     );
-    assert!(all_have(&o, "alcohol"), "{:?}", listing(&o));
-    assert!(none_has(&o, "ether"), "{:?}", listing(&o));
+    // A medium band never rules out (a band list may misreport one), so dimethyl ether
+    // may stay consistent, but it leaves the free O–H unexplained and ranks below.
+    assert!(
+        o.candidates[0].families.contains_key("alcohol"),
+        "{:?}",
+        listing(&o)
+    );
+    let ether = o
+        .candidates
+        .iter()
+        .find(|c| c.families.contains_key("ether"));
+    if let Some(ether) = ether {
+        assert!(ether.score < o.candidates[0].score, "{:?}", listing(&o));
+        assert!(ether
+            .bands
+            .iter()
+            .any(|b| b.at == 3660.0 && b.explained_by.is_empty() && b.treatment.is_some()));
+    }
 }

@@ -15,6 +15,9 @@
 //!       − Σ_bands unexplained: ≥ 1500 cm⁻¹ 1.0 strong (not covered by any rule),
 //!                              0.4 medium, 0.15 weak; below 1500 cm⁻¹ 0.3 strong,
 //!                              0.15 medium, 0.05 weak
+//!       − 1.0 per distinct group whose every observed band is also explained by
+//!             another group of the candidate (no band of its own: a second group that
+//!             the evidence does not ask for)
 //!       − 0.25 × (group instances − 1)          (parsimony; `ring` counts)
 //! q = 0.5·position + 0.3·strength + 0.2·shape   (see constraints::diagnostic_bands::quality)
 //! ```
@@ -39,6 +42,8 @@ pub const P_MISSING_SUPPORT: f64 = 0.3;
 pub const W_MS_CLUE: f64 = 0.5;
 /// Weight of each explained band's best quality.
 pub const W_EXPLAINED: f64 = 0.2;
+/// Penalty for a group with no band of its own in the candidate.
+pub const P_NO_OWN_BAND: f64 = 1.0;
 /// Parsimony penalty per group instance beyond the first.
 pub const P_PER_EXTRA_INSTANCE: f64 = 0.25;
 
@@ -238,6 +243,20 @@ pub fn candidate_terms(
             value: round3(-unexplained),
         });
     }
+    let borrowed = groups_without_own_band(problem, counts);
+    if !borrowed.is_empty() {
+        terms.push(ScoreTerm {
+            what: format!(
+                "no band of its own (every band also explained by another group): {}",
+                borrowed
+                    .iter()
+                    .map(|&g| problem.groups[g].group.id.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+            value: round3(-P_NO_OWN_BAND * borrowed.len() as f64),
+        });
+    }
     let instances: u32 = counts.iter().sum();
     if instances > 1 {
         terms.push(ScoreTerm {
@@ -246,6 +265,36 @@ pub fn candidate_terms(
         });
     }
     terms
+}
+
+/// Distinct groups of the candidate that explain at least one observed band, each of
+/// which another distinct group of the candidate explains too.
+pub fn groups_without_own_band(problem: &Problem<'_>, counts: &[u32]) -> Vec<usize> {
+    let present: Vec<usize> = (0..counts.len()).filter(|&g| counts[g] > 0).collect();
+    if present.len() < 2 {
+        return Vec::new();
+    }
+    let explainers_of_band = |bi: usize| -> Vec<usize> {
+        let ex = &problem.explainers[bi];
+        let mut gs: Vec<usize> = ex
+            .groups
+            .iter()
+            .map(|(g, _, _)| *g)
+            .chain(ex.patterns.iter().flat_map(|(_, gs, _)| gs.iter().copied()))
+            .filter(|g| counts[*g] > 0)
+            .collect();
+        gs.sort_unstable();
+        gs.dedup();
+        gs
+    };
+    let per_band: Vec<Vec<usize>> = (0..problem.bands.len()).map(explainers_of_band).collect();
+    present
+        .into_iter()
+        .filter(|&g| {
+            let own: Vec<&Vec<usize>> = per_band.iter().filter(|gs| gs.contains(&g)).collect();
+            !own.is_empty() && own.iter().all(|gs| gs.len() > 1)
+        })
+        .collect()
 }
 
 /// The score of a consistent candidate: Σ group parts of its groups + its candidate

@@ -183,16 +183,19 @@ fn a_molecular_ion_that_disagrees_with_the_formula_is_a_conflict() {
 fn a_symmetric_internal_alkyne_may_lack_its_band_but_scores_lower() {
     // common practice: a symmetric internal C≡C stretch may be absent (no dipole change).
     let o = solve_text("formula: C4H6\nir:\n  bands:\n    - { at: 2920, strength: strong }\n");
-    let alkyne = o
-        .candidates
-        .iter()
-        .find(|c| c.groups.contains_key("alkyne_internal"));
-    let alkyne = alkyne.unwrap_or_else(|| panic!("{:?}", families(&o)));
-    assert!(alkyne
-        .weakening
-        .iter()
-        .any(|w| w.contains("allowed absent")));
-    assert!(alkyne.score_terms.iter().any(|t| t.value == -1.0));
+    // No band tells an internal C≡C from two rings here, so the splits collapse into one
+    // candidate; the alkyne split is kept, as an alternative of the better-scored one.
+    let holder = o.candidates.iter().find(|c| {
+        c.groups.contains_key("alkyne_internal")
+            || c.alternatives
+                .iter()
+                .any(|a| a.contains_key("alkyne_internal"))
+    });
+    let holder = holder.unwrap_or_else(|| panic!("{:?}", families(&o)));
+    assert!(
+        !holder.groups.contains_key("alkyne_internal"),
+        "the alkyne split, penalised for its missing band, does not stand for the class"
+    );
 }
 
 #[test]

@@ -36,6 +36,12 @@ pub const FOREST_MIN_BANDS: usize = 4;
 /// side, plus the contour's own width).
 pub const BRANCH_MAX_CM1: f64 = 60.0;
 
+/// Widest band the skeleton's C–H rules explain, cm⁻¹: overlapping CH3/CH2 stretches of a
+/// liquid or a vapour contour make one band 40–80 cm⁻¹ wide, a picker merging the whole
+/// C–H region up to about 200; hydrogen-bonded O–H envelopes span 200–800 (common
+/// practice).
+pub const CH_ENVELOPE_MAX_CM1: f64 = 250.0;
+
 /// Quality factor of a band explained only as the branch of its neighbour.
 pub const BRANCH_QUALITY: f64 = 0.3;
 
@@ -115,6 +121,11 @@ pub fn explainers_of(
         }
     }
     for (si, s) in catalogue.skeleton.iter().enumerate() {
+        // A C–H envelope is at most a few overlapping stretches wide; a band measured
+        // wider than that (an acid's or alcohol's hydrogen-bonded O–H) is no C–H band.
+        if band.width.is_some_and(|w| w > CH_ENVELOPE_MAX_CM1) {
+            continue;
+        }
         if let Some(q) = explains(band, &s.band, technique, tolerance) {
             out.skeleton.push((si, q));
         }

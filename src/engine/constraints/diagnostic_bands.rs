@@ -151,6 +151,9 @@ pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
     Some(0.5 * position + 0.3 * strength + 0.2 * shape)
 }
 
+/// Measured width from which a band's height understates its intensity by a class, cm⁻¹.
+pub const VERY_BROAD_CM1: f64 = 200.0;
+
 /// The shape a band shows: its measured width decides when known (broad from
 /// [`BROAD_FROM_CM1`]), else the shape word, which is a hint.
 pub fn observed_shape(band: &Band) -> Option<Shape> {
@@ -194,9 +197,11 @@ pub fn satisfies(
     let weakening = weakening_at(catalogue, technique, band.at);
     // Strength classes compare heights, but a hydrogen-bonded envelope spreads its area
     // over hundreds of cm⁻¹: a very broad O–H of a solid phenol or diol looks weak beside
-    // sharp bands of the same intensity (common practice). A broad band meeting a rule
-    // that expects a broad band may therefore look one class weaker still.
-    let broad = observed_shape(band) == Some(Shape::Broad);
+    // sharp bands of the same intensity (common practice). A band measured at least
+    // VERY_BROAD_CM1 wide meeting a rule that expects a broad band may therefore look one
+    // class weaker still (a shape word alone is not enough: a weak broad hump of absorbed
+    // water must not pass for an alcohol's O–H).
+    let broad = band.width.is_some_and(|w| w >= VERY_BROAD_CM1);
     effective_variants(rule, technique)
         .iter()
         .filter(|e| {
