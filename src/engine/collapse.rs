@@ -10,6 +10,7 @@
 //! - the same split groups have a band of their own seen (a C=C stretch observed for
 //!   one and not the other tells them apart), and
 //! - every observed band has the same best explanation quality in both (or none).
+//!
 //! The best-scored combination of a class stands for it; the others are its alternatives.
 
 use super::constraints::band_explanation::has_sp3_group;
