@@ -18,7 +18,11 @@
 //!       − 1.0 per distinct group whose every observed band is also explained by
 //!             another group of the candidate (no band of its own: a second group that
 //!             the evidence does not ask for)
-//!       − 0.25 × (group instances − 1)          (parsimony; `ring` counts)
+//!       − 1.0 when the candidate must hold H on a saturated carbon (more H than its
+//!             unsaturated and hetero positions can carry, or a group with its own
+//!             sp3 C–H) and no band lies in the sp3 C–H stretch range (2840–3000,
+//!             common practice: those stretches are never missing)
+//!       − 0.5 × (group instances − 1)           (parsimony; `ring` counts)
 //! q = 0.5·position + 0.3·strength + 0.2·shape   (see constraints::diagnostic_bands::quality)
 //! ```
 //! Ties: fewer group instances first, then the group ids in catalogue order.
@@ -42,10 +46,12 @@ pub const P_MISSING_SUPPORT: f64 = 0.3;
 pub const W_MS_CLUE: f64 = 0.5;
 /// Weight of each explained band's best quality.
 pub const W_EXPLAINED: f64 = 0.2;
+/// Penalty for a candidate that must hold sp3 C–H when no sp3 C–H stretch is observed.
+pub const P_NO_SP3_CH_STRETCH: f64 = 1.0;
 /// Penalty for a group with no band of its own in the candidate.
 pub const P_NO_OWN_BAND: f64 = 1.0;
 /// Parsimony penalty per group instance beyond the first.
-pub const P_PER_EXTRA_INSTANCE: f64 = 0.25;
+pub const P_PER_EXTRA_INSTANCE: f64 = 0.5;
 
 /// Penalty for an unexplained band (a demanded band never reaches it: it rules out). A
 /// medium band above 1500 cm⁻¹ costs more than a strong fingerprint band: the diagnostic
@@ -243,6 +249,15 @@ pub fn candidate_terms(
             value: round3(-unexplained),
         });
     }
+    if problem.has_ir
+        && must_hold_sp3_ch(problem, counts, skeleton_c)
+        && !sp3_ch_stretch_seen(problem)
+    {
+        terms.push(ScoreTerm {
+            what: "H on saturated carbon required, no sp3 C-H stretch seen".into(),
+            value: -P_NO_SP3_CH_STRETCH,
+        });
+    }
     let borrowed = groups_without_own_band(problem, counts);
     if !borrowed.is_empty() {
         terms.push(ScoreTerm {
@@ -265,6 +280,45 @@ pub fn candidate_terms(
         });
     }
     terms
+}
+
+/// True when the candidate cannot place all the formula's hydrogen on unsaturated and
+/// hetero positions (so some sits on a saturated skeleton carbon), or holds a group with
+/// a saturated C–H of its own.
+pub fn must_hold_sp3_ch(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> bool {
+    if has_sp3_group(problem, counts) {
+        return true;
+    }
+    if skeleton_c == 0 || problem.formula.is_none() {
+        return false;
+    }
+    let (fixed, open) = counts
+        .iter()
+        .zip(&problem.groups)
+        .filter(|(n, _)| **n > 0)
+        .fold((0u32, 0u32), |(f, o), (n, g)| {
+            let b = g.group.bonds;
+            (f + n * g.h, o + n * (b.carbon_or_h + b.hetero_or_h))
+        });
+    problem.formula_h > fixed + open
+}
+
+/// True when an observed band lies inside the range of a skeleton C–H stretch rule that
+/// needs a saturated carbon (the rule's own range, no tolerance: an sp2 C–H just above
+/// 3000 is not an sp3 one).
+pub fn sp3_ch_stretch_seen(problem: &Problem<'_>) -> bool {
+    let ranges: Vec<crate::rules::Range> = problem
+        .catalogue
+        .skeleton
+        .iter()
+        .zip(&problem.skeleton_needs)
+        .filter(|(s, (_, sp3))| *sp3 && s.band.range.lo >= 2500.0)
+        .map(|(s, _)| s.band.range)
+        .collect();
+    problem
+        .bands
+        .iter()
+        .any(|(_, b)| ranges.iter().any(|r| r.contains_within(b.band.at, 0.0)))
 }
 
 /// Distinct groups of the candidate that explain at least one observed band, each of

@@ -68,6 +68,38 @@ pub fn check(
         }
         sp3_group_h |= g.sp3_ch;
     }
+    // A plain ring (a group with no atoms of its own that consumes DBE) closes through
+    // skeleton or group atoms, and a ring has at least three members that each bond twice
+    // (two atoms joined twice are a double bond, which is an alkene, not a ring).
+    let plain_rings: u32 = present
+        .iter()
+        .filter(|&&i| !problem.groups[i].has_atoms && problem.groups[i].group.dbe > 0)
+        .map(|&i| counts[i])
+        .sum();
+    if plain_rings > 0 {
+        let ring_capable: u64 = u64::from(skeleton_c)
+            + present
+                .iter()
+                .map(|&i| {
+                    let g = &problem.groups[i];
+                    let per: u64 = g
+                        .group
+                        .atoms
+                        .iter()
+                        .filter(|(sym, _)| {
+                            crate::chem::composition::standard_valence(sym).is_some_and(|v| v >= 2)
+                        })
+                        .map(|(_, n)| u64::from(n))
+                        .sum();
+                    u64::from(counts[i]) * per
+                })
+                .sum::<u64>();
+        if ring_capable < 3 {
+            return Err(format!(
+                "a ring needs at least three atoms that bond twice; the candidate has {ring_capable}"
+            ));
+        }
+    }
     let h_total = u64::from(problem.formula_h);
     if h_fixed > h_total {
         return Err(format!(
