@@ -41,6 +41,21 @@ pub struct StatedFormula {
     pub composition: Composition,
     /// Where it was written.
     pub place: Place,
+    /// The dot-separated parts as written (one part when the formula has no dot).
+    pub parts: Vec<FormulaPart>,
+}
+
+/// One dot-separated part of a stated formula (`HCl` in `C10H15N·HCl`, `2H2O`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct FormulaPart {
+    /// The part as written, multiplier included.
+    pub text: String,
+    /// Byte offset of the part inside the formula text.
+    pub offset: usize,
+    /// Leading multiplier (`2H2O`) or trailing count of a wrapped part (`(C9H13N)2`); 1 otherwise.
+    pub multiplier: u32,
+    /// Element counts of one unit of the part (the multiplier taken out).
+    pub composition: Composition,
 }
 
 /// An observed IR band with the place it was written.

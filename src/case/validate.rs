@@ -73,6 +73,7 @@ pub fn validate_with_files(
         let path = KeyPath::key("formula");
         match super::formula::parse_formula(text) {
             Ok((formula, composition)) => Some(StatedFormula {
+                parts: super::formula::formula_parts(text),
                 text: text.clone(),
                 formula,
                 composition,

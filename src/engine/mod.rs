@@ -17,6 +17,7 @@ pub mod from_ms;
 pub mod lp;
 pub mod model;
 pub mod outcome;
+pub mod salt;
 pub mod score;
 pub mod structures;
 pub mod testkit;
@@ -48,6 +49,9 @@ pub struct SolveOptions {
     pub enumeration_limit: usize,
     /// Compositions examined at most when looking for near misses.
     pub near_miss_budget: u64,
+    /// Salt-form groups the organic part must hold; set by [`salt`] for a salt formula,
+    /// none by default (a neutral formula admits no salt form).
+    pub ionic_sites: constraints::ionic::IonicSites,
 }
 
 impl Default for SolveOptions {
@@ -57,6 +61,7 @@ impl Default for SolveOptions {
             max_candidates: 25,
             enumeration_limit: 10_000,
             near_miss_budget: 3_000,
+            ionic_sites: constraints::ionic::IonicSites::default(),
         }
     }
 }
@@ -119,6 +124,10 @@ pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outc
         if let Some(query) = from_ms::mass_query(case) {
             return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
         }
+    }
+    let readings = salt::readings(case);
+    if !readings.is_empty() {
+        return salt::solve_readings(case, catalogue, options, &readings);
     }
     solve_stated(case, catalogue, options)
 }
@@ -253,6 +262,7 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         cautions: CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
         rules_digest: catalogue.digest.clone(),
         formula_leads: Vec::new(),
+        salt: None,
     }
 }
 

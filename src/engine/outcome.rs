@@ -43,6 +43,10 @@ pub struct Outcome {
     /// solved in turn, best MS score first (empty otherwise).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub formula_leads: Vec<FormulaLead>,
+    /// When the formula is a salt or hydrate: the organic part deduced and the parts
+    /// accounted for (absent for one plain molecule).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub salt: Option<super::salt::SaltOutcome>,
 }
 
 /// One formula proposed from the molecular ion, and what solving it gave.

@@ -65,6 +65,9 @@ pub struct ReportView {
     pub formula_facts: Option<FormulaFacts>,
     /// Formula-level checks (MS agreement).
     pub evidence_checks: Vec<EvidenceCheck>,
+    /// A salt or hydrate formula: the organic part deduced and what else it holds.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub salt: Option<crate::engine::salt::SaltOutcome>,
     /// Consistent combinations found in all.
     pub n_consistent: usize,
     /// True when the enumeration limit stopped the search.
@@ -105,6 +108,48 @@ impl ReportView {
         }
         out
     }
+}
+
+/// The salt or hydrate section as lines, the one wording every renderer uses.
+pub fn salt_lines(salt: &crate::engine::salt::SaltOutcome) -> Vec<String> {
+    let dbe = |d: Option<f64>| d.map_or("not defined".to_owned(), |d| format!("{d}"));
+    let mut out = vec![
+        format!(
+            "organic part deduced: {}{} (DBE {}); stated formula {} (DBE {})",
+            if salt.organic_count > 1 {
+                format!("{} × ", salt.organic_count)
+            } else {
+                String::new()
+            },
+            salt.organic_formula,
+            dbe(salt.organic_dbe),
+            salt.stated_formula,
+            dbe(salt.stated_dbe)
+        ),
+        format!(
+            "read as: {}",
+            crate::engine::salt::reading_word(salt.reading)
+        ),
+    ];
+    let parts: Vec<String> = salt
+        .parts
+        .iter()
+        .map(|p| {
+            let role = match p.role {
+                "acid" => "counter-ion from the acid",
+                "metal" => "counter-ion (metal cation)",
+                "water" => "water of crystallisation",
+                _ => "other part, in the atom balance only",
+            };
+            format!("{} {}: {role}", p.count, p.formula)
+        })
+        .collect();
+    if !parts.is_empty() {
+        out.push(format!("accounted for: {}", parts.join("; ")));
+    }
+    out.extend(salt.statements.iter().cloned());
+    out.extend(salt.checks.iter().cloned());
+    out
 }
 
 /// The analyst's conclusion in the report.
@@ -392,6 +437,7 @@ pub fn build(
         evidence,
         formula_facts,
         evidence_checks: outcome.evidence_checks.clone(),
+        salt: outcome.salt.clone(),
         n_consistent: outcome.n_consistent,
         enumeration_truncated: outcome.enumeration_truncated,
         list_truncated: outcome.list_truncated,
