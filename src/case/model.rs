@@ -79,6 +79,23 @@ pub struct IrEvidence {
     pub window: (f64, f64),
     /// The spectrum file the bands were picked from, when the case names one.
     pub spectrum: Option<SpectrumSource>,
+    /// That file's baseline-corrected absorbance (for fitting a known component).
+    pub absorbance: Option<crate::ir::PreparedTrace>,
+}
+
+/// A suspected component of a mixture with its reference evidence.
+#[derive(Clone, Debug, PartialEq)]
+pub struct KnownComponent {
+    /// What it is, as written.
+    pub name: String,
+    /// Where it was written.
+    pub place: Place,
+    /// Its reference spectrum file as written, when it has one.
+    pub spectrum: Option<String>,
+    /// Its bands (written, or picked from the reference spectrum).
+    pub bands: Vec<ObservedBand>,
+    /// The reference spectrum's baseline-corrected absorbance.
+    pub trace: Option<crate::ir::PreparedTrace>,
 }
 
 /// A spectrum file named by a case and what picking it gave.
@@ -240,4 +257,6 @@ pub struct Case {
     pub conclusion: Option<Conclusion>,
     /// The review block, when written.
     pub review: Option<Review>,
+    /// Suspected components of a mixture, in the order written.
+    pub components: Vec<KnownComponent>,
 }

@@ -182,6 +182,11 @@ pub fn render_text(o: &Outcome) -> String {
             s.push_str(&format!("  salt {l}\n"));
         }
     }
+    if let Some(m) = &o.mixture {
+        for l in crate::report::view::mixture_lines(m) {
+            s.push_str(&format!("  mixture {l}\n"));
+        }
+    }
     s.push('\n');
     if o.candidates.is_empty() {
         s.push_str("no consistent candidate\n");

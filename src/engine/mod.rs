@@ -15,6 +15,7 @@ pub mod evaluate;
 pub mod explain;
 pub mod from_ms;
 pub mod lp;
+pub mod mixture;
 pub mod model;
 pub mod outcome;
 pub mod salt;
@@ -118,8 +119,16 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
 }
 
 /// Solves a validated case against a catalogue. A case that states no formula but gives a
-/// molecular ion is solved over the formulas the ion allows (see [`from_ms`]).
+/// molecular ion is solved over the formulas the ion allows (see [`from_ms`]); a salt or
+/// hydrate formula over its organic part (see [`salt`]); when one compound cannot explain
+/// the spectrum, a second component is considered (see [`mixture`]).
 pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    let single = solve_single(case, catalogue, options);
+    mixture::consider(case, catalogue, options, single)
+}
+
+/// Solves a case as one compound (salt and hydrate readings included).
+fn solve_single(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
     if case.formula.is_none() {
         if let Some(query) = from_ms::mass_query(case) {
             return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
@@ -263,6 +272,7 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         rules_digest: catalogue.digest.clone(),
         formula_leads: Vec::new(),
         salt: None,
+        mixture: None,
     }
 }
 

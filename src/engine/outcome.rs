@@ -47,6 +47,10 @@ pub struct Outcome {
     /// accounted for (absent for one plain molecule).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub salt: Option<super::salt::SaltOutcome>,
+    /// When one compound could not explain the spectrum: the two-component reading, or
+    /// the bands a second compound would have to explain.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mixture: Option<super::mixture::MixtureOutcome>,
 }
 
 /// One formula proposed from the molecular ion, and what solving it gave.

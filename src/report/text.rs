@@ -148,6 +148,13 @@ pub fn render(v: &ReportView) -> String {
         }
     }
 
+    if let Some(m) = &v.mixture {
+        heading(&mut s, "mixture");
+        for l in super::view::mixture_lines(m) {
+            line(&mut s, format!("  {l}"));
+        }
+    }
+
     heading(&mut s, "candidates");
     if v.candidates.is_empty() {
         line(
