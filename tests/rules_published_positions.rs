@@ -212,7 +212,11 @@ fn stretches_of_bonds_to_hydrogen_lie_highest() {
         .iter()
         .any(|p| b.label.starts_with(p))
             && b.label.contains("stretch")
-            && !b.label.contains("bend");
+            && !b.label.contains("bend")
+            // Ammonium N-H+ of amine salts, hydrogen-bonded to the anion, reaches down to
+            // about 2250 (Silverstein, Webster & Kiemle, 7th ed., ch. 2, amine salts, from
+            // memory); checked in its own test.
+            && !b.label.starts_with("N-H+");
         if to_h {
             seen += 1;
             assert!(b.range.lo >= 2500.0, "{id}: {} at {:?}", b.label, b.range);

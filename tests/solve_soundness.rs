@@ -3,12 +3,15 @@
 //! expected strength and shape under the technique), must always keep its true group set
 //! among the candidates. The molecule is a real tree: a chain of skeleton carbons, each
 //! group hung on the chain by one bond, its other must-bonds capped with methyl carbons,
-//! hydrogens on every remaining open position.
+//! hydrogens on every remaining open position. A salt-form group makes the molecule a
+//! salt: one HCl per protonated amine after a dot, one Na per carboxylate in place of H.
 
 use proptest::prelude::*;
 use quiddity::case::parse;
 use quiddity::engine::{solve, SolveOptions};
-use quiddity::rules::{embedded_catalogue, Catalogue, ExpectedShape, ExpectedStrength, Technique};
+use quiddity::rules::{
+    embedded_catalogue, Catalogue, ExpectedShape, ExpectedStrength, Ionic, Technique,
+};
 use std::collections::BTreeMap;
 
 struct Molecule {
@@ -100,12 +103,32 @@ fn build(cat: &Catalogue, picks: &[usize], chain: u32) -> Option<Molecule> {
         return None;
     }
     h += chain_free;
+    // Salt forms hold their neutral parent's atoms: a protonated amine comes with one HCl
+    // written after a dot, a carboxylate with one Na in place of the acid's H.
+    let n_ionic = |side: Ionic| -> u32 {
+        counts
+            .iter()
+            .filter(|(id, _)| cat.group(id).is_some_and(|g| g.ionic == Some(side)))
+            .map(|(_, n)| *n)
+            .sum()
+    };
+    let (n_cation, n_anion) = (n_ionic(Ionic::Cation), n_ionic(Ionic::Anion));
+    h -= i64::from(n_anion);
+    if h < 0 {
+        return None;
+    }
+    if n_anion > 0 {
+        atoms.insert("Na".into(), n_anion);
+    }
     *atoms.entry("C".into()).or_insert(0) += skeleton;
     let mut formula = format!("C{}H{h}", atoms.get("C").copied().unwrap_or(0));
     for (s, n) in &atoms {
         if s != "C" {
             formula.push_str(&format!("{s}{n}"));
         }
+    }
+    if n_cation > 0 {
+        formula.push_str(&format!("·{n_cation}HCl"));
     }
     Some(Molecule {
         groups: counts,

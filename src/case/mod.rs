@@ -2,6 +2,7 @@
 //! case-file text into a [`Case`] plus diagnostics. Only the CLI reads files; it calls
 //! [`parse_raw`], reads what [`referenced_files`] lists, then [`validate`].
 
+mod components;
 pub mod digest;
 mod formula;
 pub mod model;
@@ -10,9 +11,11 @@ pub mod raw;
 pub mod solvents;
 mod validate;
 
+pub use components::absorbance_trace;
 pub use model::*;
 pub use raw::{
-    referenced_files, RawBand, RawCase, RawConclusion, RawIr, RawMs, RawReview, RawSample,
+    referenced_files, RawBand, RawCase, RawComponent, RawConclusion, RawIr, RawMs, RawReview,
+    RawSample,
 };
 pub use validate::{
     check_group_ids, is_iso_date, validate, validate_with_files, BAND_LIMITS_CM1, DEFAULT_PPM,

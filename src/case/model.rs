@@ -41,6 +41,21 @@ pub struct StatedFormula {
     pub composition: Composition,
     /// Where it was written.
     pub place: Place,
+    /// The dot-separated parts as written (one part when the formula has no dot).
+    pub parts: Vec<FormulaPart>,
+}
+
+/// One dot-separated part of a stated formula (`HCl` in `C10H15N·HCl`, `2H2O`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct FormulaPart {
+    /// The part as written, multiplier included.
+    pub text: String,
+    /// Byte offset of the part inside the formula text.
+    pub offset: usize,
+    /// Leading multiplier (`2H2O`) or trailing count of a wrapped part (`(C9H13N)2`); 1 otherwise.
+    pub multiplier: u32,
+    /// Element counts of one unit of the part (the multiplier taken out).
+    pub composition: Composition,
 }
 
 /// An observed IR band with the place it was written.
@@ -69,6 +84,23 @@ pub struct IrEvidence {
     pub solvent: Option<String>,
     /// The spectrum file the bands were picked from, when the case names one.
     pub spectrum: Option<SpectrumSource>,
+    /// That file's baseline-corrected absorbance (for fitting a known component).
+    pub absorbance: Option<crate::ir::PreparedTrace>,
+}
+
+/// A suspected component of a mixture with its reference evidence.
+#[derive(Clone, Debug, PartialEq)]
+pub struct KnownComponent {
+    /// What it is, as written.
+    pub name: String,
+    /// Where it was written.
+    pub place: Place,
+    /// Its reference spectrum file as written, when it has one.
+    pub spectrum: Option<String>,
+    /// Its bands (written, or picked from the reference spectrum).
+    pub bands: Vec<ObservedBand>,
+    /// The reference spectrum's baseline-corrected absorbance.
+    pub trace: Option<crate::ir::PreparedTrace>,
 }
 
 /// A spectrum file named by a case and what picking it gave.
@@ -230,4 +262,6 @@ pub struct Case {
     pub conclusion: Option<Conclusion>,
     /// The review block, when written.
     pub review: Option<Review>,
+    /// Suspected components of a mixture, in the order written.
+    pub components: Vec<KnownComponent>,
 }

@@ -31,6 +31,21 @@ pub struct RawCase {
     pub conclusion: Option<RawConclusion>,
     /// The second analyst's review.
     pub review: Option<RawReview>,
+    /// Suspected components of a mixture (cutting agents, diluents) with their reference
+    /// spectrum or band list.
+    pub components: Option<Vec<RawComponent>>,
+}
+
+/// One item of `components:`.
+#[derive(Clone, Debug, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawComponent {
+    /// What the component is (free text, e.g. `mannitol (diluent)`).
+    pub name: String,
+    /// Its reference spectrum file, relative to the case file.
+    pub spectrum: Option<String>,
+    /// Its reference band list.
+    pub bands: Option<Vec<RawBand>>,
 }
 
 /// The `sample:` block: where the unknown came from and who handles it.
@@ -129,5 +144,11 @@ pub fn referenced_files(raw: &RawCase) -> Vec<String> {
         .as_ref()
         .and_then(|ir| ir.spectrum.clone())
         .into_iter()
+        .chain(
+            raw.components
+                .iter()
+                .flatten()
+                .filter_map(|c| c.spectrum.clone()),
+        )
         .collect()
 }

@@ -15,14 +15,14 @@ pub const BAND_LIMITS_CM1: (f64, f64) = (400.0, 4000.0);
 /// high-resolution instruments, from memory).
 pub const DEFAULT_PPM: f64 = 5.0;
 
-struct Ctx<'a> {
+pub(super) struct Ctx<'a> {
     src: &'a str,
     origin: &'a str,
     diagnostics: Vec<Diagnostic>,
 }
 
 impl Ctx<'_> {
-    fn place(&self, path: &KeyPath) -> Place {
+    pub(super) fn place(&self, path: &KeyPath) -> Place {
         Place {
             origin: self.origin.to_owned(),
             position: locate(self.src, path).map(|o| Position::of_offset(self.src, o)),
@@ -30,7 +30,7 @@ impl Ctx<'_> {
         }
     }
 
-    fn error(&mut self, path: &KeyPath, message: String, help: Option<String>) {
+    pub(super) fn error(&mut self, path: &KeyPath, message: String, help: Option<String>) {
         let mut d = Diagnostic::error(self.origin, message).with_key_path(path.to_string());
         if let Some(offset) = locate_value(self.src, path) {
             d = d.at_offset(self.src, offset);
@@ -73,6 +73,7 @@ pub fn validate_with_files(
         let path = KeyPath::key("formula");
         match super::formula::parse_formula(text) {
             Ok((formula, composition)) => Some(StatedFormula {
+                parts: super::formula::formula_parts(text),
                 text: text.clone(),
                 formula,
                 composition,
@@ -113,6 +114,11 @@ pub fn validate_with_files(
         comments: c.comments.clone(),
     });
     let review = raw.review.as_ref().map(|r| validate_review(&mut ctx, r));
+    let components = super::components::validate_components(
+        &mut ctx,
+        raw.components.as_deref().unwrap_or_default(),
+        files,
+    );
     // Without a formula the engine derives candidate formulas from the molecular ion.
     let has_ion = ms.as_ref().is_some_and(|m| m.molecular_ion.is_some());
     if formula.is_none() && raw.formula.is_none() && !has_ion {
@@ -138,6 +144,7 @@ pub fn validate_with_files(
         notes: raw.notes.clone(),
         conclusion,
         review,
+        components,
     });
     (case, ctx.diagnostics)
 }
@@ -381,55 +388,7 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
         .as_ref()
         .and_then(|written| pick_spectrum(ctx, written, files, technique));
     let (lo, hi) = BAND_LIMITS_CM1;
-    let mut bands = Vec::new();
-    for (i, b) in raw.bands.iter().flatten().enumerate() {
-        let path = base.with_key("bands").with_index(i);
-        let mut ok = true;
-        if !(b.at.is_finite() && b.at >= lo && b.at <= hi) {
-            ctx.error(
-                &path.with_key("at"),
-                format!("band at {} cm⁻¹ is outside {lo}–{hi} cm⁻¹", b.at),
-                None,
-            );
-            ok = false;
-        }
-        let strength = Strength::from_word(&b.strength);
-        if strength.is_none() {
-            let words: Vec<&str> = Strength::ALL.iter().map(|s| s.word()).collect();
-            ctx.bad_word(&path.with_key("strength"), "strength", &b.strength, &words);
-        }
-        let shape = match &b.shape {
-            None => Some(None),
-            Some(w) => match Shape::from_word(w) {
-                Some(s) => Some(Some(s)),
-                None => {
-                    ctx.bad_word(&path.with_key("shape"), "shape", w, &["broad", "sharp"]);
-                    None
-                }
-            },
-        };
-        if let Some(w) = b.width {
-            if !(w.is_finite() && w > 0.0 && w <= MAX_BAND_WIDTH_CM1) {
-                ctx.error(
-                    &path.with_key("width"),
-                    format!("width {w} cm⁻¹ is not between 0 and {MAX_BAND_WIDTH_CM1} cm⁻¹"),
-                    None,
-                );
-                ok = false;
-            }
-        }
-        if let (true, Some(strength), Some(shape)) = (ok, strength, shape) {
-            bands.push(ObservedBand {
-                band: Band {
-                    at: b.at,
-                    strength,
-                    shape,
-                    width: b.width,
-                },
-                place: ctx.place(&path),
-            });
-        }
-    }
+    let mut bands = validate_bands(ctx, &base.with_key("bands"), raw.bands.as_deref());
     let window = match raw.window {
         None => default_window(technique),
         Some((w_lo, w_hi)) if w_lo >= lo && w_hi <= hi && w_lo < w_hi => (w_lo, w_hi),
@@ -490,6 +449,12 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
         bands.sort_by(|a, b| b.band.at.total_cmp(&a.band.at));
         source
     });
+    let absorbance = raw.spectrum.as_ref().and_then(|written| {
+        files
+            .iter()
+            .find(|f| &f.written == written)
+            .and_then(|f| super::components::absorbance_trace(&f.bytes, &f.origin))
+    });
     IrEvidence {
         technique,
         bands,
@@ -497,7 +462,68 @@ fn validate_ir(ctx: &mut Ctx<'_>, raw: &RawIr, files: &[ReferencedFile]) -> IrEv
         opaque,
         solvent: raw.solvent.clone(),
         spectrum,
+        absorbance,
     }
+}
+
+/// Checks a written band list (`ir.bands`, `components[i].bands`): position inside the
+/// mid-IR limits, strength and shape words; every problem reported at its place.
+pub(super) fn validate_bands(
+    ctx: &mut Ctx<'_>,
+    list: &KeyPath,
+    raw: Option<&[RawBand]>,
+) -> Vec<ObservedBand> {
+    let (lo, hi) = BAND_LIMITS_CM1;
+    let mut bands = Vec::new();
+    for (i, b) in raw.into_iter().flatten().enumerate() {
+        let path = list.with_index(i);
+        let mut ok = true;
+        if !(b.at.is_finite() && b.at >= lo && b.at <= hi) {
+            ctx.error(
+                &path.with_key("at"),
+                format!("band at {} cm⁻¹ is outside {lo}–{hi} cm⁻¹", b.at),
+                None,
+            );
+            ok = false;
+        }
+        let strength = Strength::from_word(&b.strength);
+        if strength.is_none() {
+            let words: Vec<&str> = Strength::ALL.iter().map(|s| s.word()).collect();
+            ctx.bad_word(&path.with_key("strength"), "strength", &b.strength, &words);
+        }
+        let shape = match &b.shape {
+            None => Some(None),
+            Some(w) => match Shape::from_word(w) {
+                Some(s) => Some(Some(s)),
+                None => {
+                    ctx.bad_word(&path.with_key("shape"), "shape", w, &["broad", "sharp"]);
+                    None
+                }
+            },
+        };
+        if let Some(w) = b.width {
+            if !(w.is_finite() && w > 0.0 && w <= MAX_BAND_WIDTH_CM1) {
+                ctx.error(
+                    &path.with_key("width"),
+                    format!("width {w} cm⁻¹ is not between 0 and {MAX_BAND_WIDTH_CM1} cm⁻¹"),
+                    None,
+                );
+                ok = false;
+            }
+        }
+        if let (true, Some(strength), Some(shape)) = (ok, strength, shape) {
+            bands.push(ObservedBand {
+                band: Band {
+                    at: b.at,
+                    strength,
+                    shape,
+                    width: b.width,
+                },
+                place: ctx.place(&path),
+            });
+        }
+    }
+    bands
 }
 
 /// Checks the group ids of the analyst's accepted candidate against the catalogue (the

@@ -148,6 +148,8 @@ const STRUCTURES_SHOWN: usize = 8;
 
 /// The terminal rendering: a header, the ranked table, details of the first few, ruled
 /// out, near misses, conflicts, discriminating checks and the cautions.
+///
+/// A salt or hydrate formula adds the report's salt lines under the header.
 pub fn render_text(o: &Outcome) -> String {
     let mut s = String::new();
     let mut head = Vec::new();
@@ -174,6 +176,16 @@ pub fn render_text(o: &Outcome) -> String {
             c.item,
             c.detail
         ));
+    }
+    if let Some(salt) = &o.salt {
+        for l in crate::report::view::salt_lines(salt) {
+            s.push_str(&format!("  salt {l}\n"));
+        }
+    }
+    if let Some(m) = &o.mixture {
+        for l in crate::report::view::mixture_lines(m) {
+            s.push_str(&format!("  mixture {l}\n"));
+        }
     }
     s.push('\n');
     if o.candidates.is_empty() {

@@ -3,7 +3,7 @@
 //! group before enumeration, or is re-checked here when excluded groups are let in to
 //! find near misses).
 
-use super::constraints::{band_explanation, bonds, relations};
+use super::constraints::{band_explanation, bonds, ionic, relations};
 use super::model::Problem;
 
 /// One reason a combination fails.
@@ -41,7 +41,10 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
             }
         }
     }
-    for r in relations::check(problem, counts, &present) {
+    for r in relations::check(problem, counts, &present)
+        .into_iter()
+        .chain(ionic::check(problem, counts))
+    {
         out.push(Failure::Relation(r));
         if !all {
             return out;

@@ -84,6 +84,7 @@ pub fn solve_over_formula_leads(
             formula,
             composition: candidate.composition.clone(),
             place: place.clone(),
+            parts: Vec::new(),
         });
         let outcome = solve_stated(&with_formula, catalogue, options);
         leads.push(FormulaLead {

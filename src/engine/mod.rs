@@ -16,8 +16,10 @@ pub mod evaluate;
 pub mod explain;
 pub mod from_ms;
 pub mod lp;
+pub mod mixture;
 pub mod model;
 pub mod outcome;
+pub mod salt;
 pub mod score;
 pub mod structures;
 pub mod testkit;
@@ -49,6 +51,9 @@ pub struct SolveOptions {
     pub enumeration_limit: usize,
     /// Compositions examined at most when looking for near misses.
     pub near_miss_budget: u64,
+    /// Salt-form groups the organic part must hold; set by [`salt`] for a salt formula,
+    /// none by default (a neutral formula admits no salt form).
+    pub ionic_sites: constraints::ionic::IonicSites,
 }
 
 impl Default for SolveOptions {
@@ -58,6 +63,7 @@ impl Default for SolveOptions {
             max_candidates: 25,
             enumeration_limit: 10_000,
             near_miss_budget: 3_000,
+            ionic_sites: constraints::ionic::IonicSites::default(),
         }
     }
 }
@@ -114,12 +120,24 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
 }
 
 /// Solves a validated case against a catalogue. A case that states no formula but gives a
-/// molecular ion is solved over the formulas the ion allows (see [`from_ms`]).
+/// molecular ion is solved over the formulas the ion allows (see [`from_ms`]); a salt or
+/// hydrate formula over its organic part (see [`salt`]); when one compound cannot explain
+/// the spectrum, a second component is considered (see [`mixture`]).
 pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    let single = solve_single(case, catalogue, options);
+    mixture::consider(case, catalogue, options, single)
+}
+
+/// Solves a case as one compound (salt and hydrate readings included).
+fn solve_single(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
     if case.formula.is_none() {
         if let Some(query) = from_ms::mass_query(case) {
             return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
         }
+    }
+    let readings = salt::readings(case);
+    if !readings.is_empty() {
+        return salt::solve_readings(case, catalogue, options, &readings);
     }
     solve_stated(case, catalogue, options)
 }
@@ -263,6 +281,8 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         cautions: CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
         rules_digest: catalogue.digest.clone(),
         formula_leads: Vec::new(),
+        salt: None,
+        mixture: None,
     }
 }
 

@@ -132,6 +132,8 @@ pub struct Problem<'c> {
     /// (no artefact, no sp3 skeleton rule), the groups that can (directly, through a
     /// pattern, or as the needs of a skeleton rule); the enumeration prunes with it.
     pub band_needs: Vec<Option<GroupSet>>,
+    /// Salt-form groups the organic part of a salt must hold (none for a neutral formula).
+    pub ionic_sites: super::constraints::ionic::IonicSites,
 }
 
 impl<'c> Problem<'c> {
@@ -190,6 +192,8 @@ impl<'c> Problem<'c> {
             .iter()
             .enumerate()
             .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
+            // Salt forms only where the formula pairs a counter-ion with them.
+            .filter(|(_, g)| g.ionic.is_none_or(|side| options.ionic_sites.admits(side)))
             .take(MAX_CONCRETE_GROUPS)
             .collect();
         let groups: Vec<GroupData> = concrete
@@ -227,7 +231,15 @@ impl<'c> Problem<'c> {
                 GroupData {
                     group: g,
                     catalogue_idx: *catalogue_idx,
-                    lineage: catalogue.lineage(&g.id),
+                    // A salt form counts as its neutral parent's family too: the organic
+                    // part (free base, free acid) holds the parent group.
+                    lineage: {
+                        let mut l = catalogue.lineage(&g.id);
+                        if let Some(parent) = &g.salt_of {
+                            l.extend(catalogue.lineage(parent));
+                        }
+                        l
+                    },
                     c: g.atoms.count("C"),
                     h: g.atoms.count("H"),
                     hetero,
@@ -338,6 +350,7 @@ impl<'c> Problem<'c> {
             exclude_sets,
             require_sets,
             band_needs,
+            ionic_sites: options.ionic_sites,
         }
     }
 

@@ -46,6 +46,14 @@ pub struct Outcome {
     /// solved in turn, best MS score first (empty otherwise).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub formula_leads: Vec<FormulaLead>,
+    /// When the formula is a salt or hydrate: the organic part deduced and the parts
+    /// accounted for (absent for one plain molecule).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub salt: Option<super::salt::SaltOutcome>,
+    /// When one compound could not explain the spectrum: the two-component reading, or
+    /// the bands a second compound would have to explain.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mixture: Option<super::mixture::MixtureOutcome>,
 }
 
 /// One formula proposed from the molecular ion, and what solving it gave.

@@ -34,7 +34,11 @@ pub fn generator_groups(
 ) -> Option<GroupCounts> {
     let mut counts = GroupCounts::new();
     for (id, &n) in groups {
-        let lineage = catalogue.lineage(id);
+        let mut lineage = catalogue.lineage(id);
+        // A salt form is built as its neutral parent (the free base or free acid).
+        if let Some(parent) = catalogue.group(id).and_then(|g| g.salt_of.as_deref()) {
+            lineage.extend(catalogue.lineage(parent));
+        }
         let target = lineage.iter().find_map(|x| GroupId::from_id(x))?;
         counts.add(target, n);
         let own_dbe = catalogue.group(id).map_or(target.dbe(), |g| g.dbe);
@@ -54,7 +58,11 @@ pub fn attach(outcome: &mut Outcome, case: &Case, catalogue: &Catalogue, toleran
         .as_ref()
         .map(|ir| ir.bands.iter().map(|b| b.band.clone()).collect())
         .unwrap_or_default();
-    let case_formula = case.formula.as_ref().map(|f| f.formula.neutral());
+    // A salt's structures are those of its organic part (free base or free acid).
+    let case_formula = match &outcome.salt {
+        Some(s) => Formula::parse(&s.organic_formula).ok(),
+        None => case.formula.as_ref().map(|f| f.formula.neutral()),
+    };
     for candidate in outcome
         .candidates
         .iter_mut()

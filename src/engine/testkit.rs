@@ -87,6 +87,8 @@ pub fn group(
         requires_any: Vec::new(),
         bands,
         ms: Vec::new(),
+        ionic: None,
+        salt_of: None,
         note: None,
         source: "common practice, from memory".into(),
         defined_at: at(1),
@@ -391,6 +393,7 @@ pub fn small_catalogue() -> Catalogue {
             source: "common practice".into(),
             defined_at: at(950),
         }],
+        hydrate_bands: Vec::new(),
         digest: "testkit".into(),
     }
 }

@@ -169,6 +169,20 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</ul>\n");
     }
+    if let Some(salt) = &v.salt {
+        s.push_str("<h2>Salt, hydrate and counter-ion</h2>\n<ul>\n");
+        for l in super::view::salt_lines(salt) {
+            let _ = writeln!(s, "<li>{}</li>", escape(&l));
+        }
+        s.push_str("</ul>\n");
+    }
+    if let Some(m) = &v.mixture {
+        s.push_str("<h2>Mixture</h2>\n<ul>\n");
+        for l in super::view::mixture_lines(m) {
+            let _ = writeln!(s, "<li>{}</li>", escape(&l));
+        }
+        s.push_str("</ul>\n");
+    }
     s.push_str("<h2>Candidates</h2>\n");
     if v.candidates.is_empty() {
         s.push_str("<p>No consistent candidate (see the conflicts below).</p>\n");

@@ -104,6 +104,18 @@ pub fn render(v: &ReportView) -> String {
             ));
         }
     }
+    if let Some(salt) = &v.salt {
+        push("\n## Salt, hydrate and counter-ion\n".into());
+        for l in super::view::salt_lines(salt) {
+            push(format!("- {}", md(&l)));
+        }
+    }
+    if let Some(m) = &v.mixture {
+        push("\n## Mixture\n".into());
+        for l in super::view::mixture_lines(m) {
+            push(format!("- {}", md(&l)));
+        }
+    }
     push("\n## Candidates\n".into());
     if v.candidates.is_empty() {
         push("No consistent candidate (see the conflicts below).".into());

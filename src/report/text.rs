@@ -141,6 +141,20 @@ pub fn render(v: &ReportView) -> String {
         }
     }
 
+    if let Some(salt) = &v.salt {
+        heading(&mut s, "salt, hydrate and counter-ion");
+        for l in super::view::salt_lines(salt) {
+            line(&mut s, format!("  {l}"));
+        }
+    }
+
+    if let Some(m) = &v.mixture {
+        heading(&mut s, "mixture");
+        for l in super::view::mixture_lines(m) {
+            line(&mut s, format!("  {l}"));
+        }
+    }
+
     heading(&mut s, "candidates");
     if v.candidates.is_empty() {
         line(

@@ -65,6 +65,12 @@ pub struct ReportView {
     pub formula_facts: Option<FormulaFacts>,
     /// Formula-level checks (MS agreement).
     pub evidence_checks: Vec<EvidenceCheck>,
+    /// A salt or hydrate formula: the organic part deduced and what else it holds.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub salt: Option<crate::engine::salt::SaltOutcome>,
+    /// One compound could not explain the spectrum: the two-component reading.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mixture: Option<crate::engine::mixture::MixtureOutcome>,
     /// Consistent combinations found in all.
     pub n_consistent: usize,
     /// True when the enumeration limit stopped the search.
@@ -105,6 +111,86 @@ impl ReportView {
         }
         out
     }
+}
+
+/// The salt or hydrate section as lines, the one wording every renderer uses.
+pub fn salt_lines(salt: &crate::engine::salt::SaltOutcome) -> Vec<String> {
+    let dbe = |d: Option<f64>| d.map_or("not defined".to_owned(), |d| format!("{d}"));
+    let mut out = vec![
+        format!(
+            "organic part deduced: {}{} (DBE {}); stated formula {} (DBE {})",
+            if salt.organic_count > 1 {
+                format!("{} × ", salt.organic_count)
+            } else {
+                String::new()
+            },
+            salt.organic_formula,
+            dbe(salt.organic_dbe),
+            salt.stated_formula,
+            dbe(salt.stated_dbe)
+        ),
+        format!(
+            "read as: {}",
+            crate::engine::salt::reading_word(salt.reading)
+        ),
+    ];
+    let parts: Vec<String> = salt
+        .parts
+        .iter()
+        .map(|p| {
+            let role = match p.role {
+                "acid" => "counter-ion from the acid",
+                "metal" => "counter-ion (metal cation)",
+                "water" => "water of crystallisation",
+                _ => "other part, in the atom balance only",
+            };
+            format!("{} {}: {role}", p.count, p.formula)
+        })
+        .collect();
+    if !parts.is_empty() {
+        out.push(format!("accounted for: {}", parts.join("; ")));
+    }
+    out.extend(salt.statements.iter().cloned());
+    out.extend(salt.checks.iter().cloned());
+    out
+}
+
+/// The mixture section as lines, the one wording every renderer uses.
+pub fn mixture_lines(m: &crate::engine::mixture::MixtureOutcome) -> Vec<String> {
+    let at = |v: &[f64]| {
+        v.iter()
+            .map(|a| format!("{a:.0}"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    let mut out = vec![format!("considered because {}", m.trigger)];
+    if let Some(c) = &m.component {
+        out.push(format!(
+            "conclusion: a mixture of {} ({}) and the compound deduced below",
+            c.name, c.place
+        ));
+        out.push(match (c.factor, c.absorbance_share) {
+            (Some(f), Some(s)) => format!(
+                "fraction: {:.0} % of the integrated absorbance (reference factor {f}; a spectral share, not a mass fraction)",
+                s * 100.0
+            ),
+            _ => "fraction: not estimated (band lists only)".to_owned(),
+        });
+        out.push(format!(
+            "bands attributed to it: {}",
+            at(&c.attributed_bands)
+        ));
+        out.push(format!("residual bands deduced: {}", at(&m.residual_bands)));
+    }
+    if !m.unexplained_bands.is_empty() && m.component.is_none() {
+        out.push(format!(
+            "a second compound would have to explain: {} cm⁻¹",
+            at(&m.unexplained_bands)
+        ));
+    }
+    out.extend(m.evidence.iter().map(|e| format!("evidence: {e}")));
+    out.extend(m.tried.iter().map(|t| format!("tried: {t}")));
+    out
 }
 
 /// The analyst's conclusion in the report.
@@ -395,6 +481,8 @@ pub fn build(
         evidence,
         formula_facts,
         evidence_checks: outcome.evidence_checks.clone(),
+        salt: outcome.salt.clone(),
+        mixture: outcome.mixture.clone(),
         n_consistent: outcome.n_consistent,
         enumeration_truncated: outcome.enumeration_truncated,
         list_truncated: outcome.list_truncated,

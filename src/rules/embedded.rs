@@ -17,6 +17,7 @@ pub const EMBEDDED_FILES: &[(&str, &str)] = &[
     ("nitrogen.yaml", include_str!("../../rules/nitrogen.yaml")),
     ("oxygen.yaml", include_str!("../../rules/oxygen.yaml")),
     ("patterns.yaml", include_str!("../../rules/patterns.yaml")),
+    ("salts.yaml", include_str!("../../rules/salts.yaml")),
     ("skeleton.yaml", include_str!("../../rules/skeleton.yaml")),
     (
         "sulfur_phosphorus.yaml",

@@ -19,7 +19,7 @@
 //! - every id of [`REQUIRED_GROUP_IDS`] exists.
 
 use super::model::{
-    ArtefactRule, BandOverride, BandRule, Catalogue, Group, MsClue, MsClueKind, OpenBonds,
+    ArtefactRule, BandOverride, BandRule, Catalogue, Group, Ionic, MsClue, MsClueKind, OpenBonds,
     PatternRule, Range, RuleRef, Shift, SkeletonRule, TechniqueEffect,
 };
 use super::raw::{
@@ -165,6 +165,7 @@ struct Loader<'a> {
     artefacts: Vec<(ArtefactRule, Place)>,
     patterns: Vec<(PatternRule, Place)>,
     effects: Vec<(TechniqueEffect, Place)>,
+    hydrate_bands: Vec<(ArtefactRule, Place)>,
 }
 
 impl<'a> Loader<'a> {
@@ -277,7 +278,14 @@ impl<'a> Loader<'a> {
                     }
                     "artefacts" => {
                         if let Some(raw) = self.item::<RawArtefact>(&item_place, item) {
-                            self.add_artefact(raw, item_place);
+                            let rule = self.artefact(raw, &item_place);
+                            self.artefacts.push((rule, item_place));
+                        }
+                    }
+                    "hydrate_bands" => {
+                        if let Some(raw) = self.item::<RawArtefact>(&item_place, item) {
+                            let rule = self.artefact(raw, &item_place);
+                            self.hydrate_bands.push((rule, item_place));
                         }
                     }
                     "patterns" => {
@@ -578,7 +586,10 @@ impl<'a> Loader<'a> {
                 ms.push(clue);
             }
         }
+        let ionic = self.ionic(&raw, &place);
         let group = Group {
+            ionic,
+            salt_of: raw.salt_of,
             id: raw.id,
             name: raw.name,
             atoms,
@@ -615,21 +626,55 @@ impl<'a> Loader<'a> {
         ));
     }
 
-    fn add_artefact(&mut self, raw: RawArtefact, place: Place) {
-        self.check_id(&place, &raw.id);
-        self.check_text(&place, "label", &raw.label);
+    fn artefact(&mut self, raw: RawArtefact, place: &Place) -> ArtefactRule {
+        self.check_id(place, &raw.id);
+        self.check_text(place, "label", &raw.label);
         let range = self.range(&place.key("range"), raw.range);
-        let source = self.check_source(&place, &raw.source);
-        let rule = ArtefactRule {
+        let source = self.check_source(place, &raw.source);
+        ArtefactRule {
             id: raw.id,
             label: raw.label,
             range,
             techniques: raw.techniques,
             shape: raw.shape,
             source,
-            defined_at: self.rule_ref(&place),
+            defined_at: self.rule_ref(place),
+        }
+    }
+
+    /// `ionic` and `salt_of` go together: a salt form names its neutral parent.
+    fn ionic(&mut self, raw: &RawGroup, place: &Place) -> Option<Ionic> {
+        let ionic = match raw.ionic.as_deref() {
+            None => None,
+            Some(word) => match Ionic::ALL.iter().find(|(_, w)| *w == word) {
+                Some((v, _)) => Some(*v),
+                None => {
+                    let words = Ionic::ALL.map(|(_, w)| w);
+                    let help = closest_match(word, words)
+                        .map(|m| format!("did you mean \"{m}\"?"))
+                        .unwrap_or_else(|| "expected cation or anion".to_owned());
+                    self.error_with_help(
+                        &place.key("ionic"),
+                        format!("unknown ionic form \"{word}\""),
+                        help,
+                    );
+                    None
+                }
+            },
         };
-        self.artefacts.push((rule, place));
+        if raw.ionic.is_some() && raw.salt_of.is_none() {
+            self.error(
+                &place.key("ionic"),
+                "a salt-form group (ionic) must name its neutral parent with salt_of",
+            );
+        }
+        if raw.salt_of.is_some() && raw.ionic.is_none() {
+            self.error(
+                &place.key("salt_of"),
+                "salt_of needs ionic: cation or anion",
+            );
+        }
+        ionic
     }
 
     fn add_pattern(&mut self, raw: RawPattern, place: Place) {
@@ -727,6 +772,7 @@ impl<'a> Loader<'a> {
         for (place, id) in supports {
             self.check_reference(&place, &id, &group_ids, false);
         }
+        self.check_salt_forms(&group_ids);
         self.check_subtype_cycles();
         self.check_required(&group_ids);
         Catalogue {
@@ -735,7 +781,40 @@ impl<'a> Loader<'a> {
             artefacts: self.artefacts.iter().map(|(r, _)| r.clone()).collect(),
             patterns: self.patterns.iter().map(|(r, _)| r.clone()).collect(),
             technique_effects: self.effects.iter().map(|(r, _)| r.clone()).collect(),
+            hydrate_bands: self.hydrate_bands.iter().map(|(r, _)| r.clone()).collect(),
             digest: String::new(),
+        }
+    }
+
+    /// `salt_of` names a known neutral group (not itself a salt form, not the group).
+    fn check_salt_forms(&mut self, group_ids: &[String]) {
+        let refs: Vec<(Place, String, String)> = self
+            .groups
+            .iter()
+            .filter_map(|(g, place)| {
+                g.salt_of
+                    .clone()
+                    .map(|s| (place.key("salt_of"), g.id.clone(), s))
+            })
+            .collect();
+        for (place, own_id, parent) in refs {
+            if parent == own_id {
+                self.error(&place, format!("group \"{own_id}\" refers to itself"));
+                continue;
+            }
+            self.check_reference(&place, &parent, group_ids, false);
+            let parent_is_ionic = self
+                .groups
+                .iter()
+                .any(|(g, _)| g.id == parent && g.ionic.is_some());
+            if parent_is_ionic {
+                self.error(
+                    &place,
+                    format!(
+                        "salt_of must name a neutral group; \"{parent}\" is itself a salt form"
+                    ),
+                );
+            }
         }
     }
 
@@ -765,6 +844,11 @@ impl<'a> Loader<'a> {
         );
         all.extend(self.patterns.iter().map(|(r, p)| (r.id.clone(), p.clone())));
         all.extend(self.effects.iter().map(|(r, p)| (r.id.clone(), p.clone())));
+        all.extend(
+            self.hydrate_bands
+                .iter()
+                .map(|(r, p)| (r.id.clone(), p.clone())),
+        );
         let mut first: HashMap<String, IdDef> = HashMap::new();
         for (id, place) in all {
             match first.get(&id) {

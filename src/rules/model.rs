@@ -264,12 +264,41 @@ pub struct Group {
     pub bands: Vec<BandRule>,
     /// MS clues.
     pub ms: Vec<MsClue>,
+    /// The group as it stands in a salt, when it is a salt form (its atoms are then the
+    /// neutral parent's: the engine deduces the free base or free acid).
+    pub ionic: Option<Ionic>,
+    /// The neutral group this is the salt form of (set exactly when `ionic` is).
+    pub salt_of: Option<String>,
     /// Free-text note for the analyst.
     pub note: Option<String>,
     /// Source for the group's composition and general description.
     pub source: String,
     /// Where the group is defined.
     pub defined_at: RuleRef,
+}
+
+/// Which side of a salt a salt-form group stands on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Ionic {
+    /// A protonated base (ammonium), paired with the anion of an acid (Cl⁻, HSO₄⁻ ...).
+    Cation,
+    /// A deprotonated acid (carboxylate), paired with a metal cation (Na⁺, K⁺ ...).
+    Anion,
+}
+
+impl Ionic {
+    /// Every value with its catalogue word.
+    pub const ALL: [(Ionic, &'static str); 2] =
+        [(Ionic::Cation, "cation"), (Ionic::Anion, "anion")];
+
+    /// The catalogue word.
+    pub fn word(self) -> &'static str {
+        match self {
+            Ionic::Cation => "cation",
+            Ionic::Anion => "anion",
+        }
+    }
 }
 
 /// A band from the hydrocarbon skeleton (C–H stretches and bends), usable when the
@@ -355,6 +384,9 @@ pub struct Catalogue {
     pub patterns: Vec<PatternRule>,
     /// Technique-wide effects.
     pub technique_effects: Vec<TechniqueEffect>,
+    /// Bands of water of crystallisation: they explain bands only when the stated formula
+    /// holds a water part (`·nH2O`), so they are kept apart from the artefacts.
+    pub hydrate_bands: Vec<ArtefactRule>,
     /// SHA-256 (hex) over the catalogue's files, in path order, for provenance.
     pub digest: String,
 }

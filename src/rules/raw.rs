@@ -11,12 +11,13 @@ use serde::Deserialize;
 use std::collections::BTreeMap;
 
 /// The top-level keys a rules file may hold.
-pub const SECTIONS: [&str; 5] = [
+pub const SECTIONS: [&str; 6] = [
     "groups",
     "skeleton",
     "artefacts",
     "patterns",
     "technique_effects",
+    "hydrate_bands",
 ];
 
 /// A wavenumber interval written `[lo, hi]` (cm⁻¹).
@@ -49,6 +50,14 @@ pub struct RawGroup {
     /// At least one of these must be present too.
     #[serde(default)]
     pub requires_any: Vec<String>,
+    /// `cation | anion`: the group as it stands in a salt (a protonated base paired with
+    /// an acid's anion, or a deprotonated acid paired with a metal cation). Its atoms are
+    /// those of the neutral parent, so the engine deduces the free base or free acid.
+    #[serde(default)]
+    pub ionic: Option<String>,
+    /// The neutral group this is the salt form of (required with `ionic`).
+    #[serde(default)]
+    pub salt_of: Option<String>,
     /// Free-text note.
     #[serde(default)]
     pub note: Option<String>,

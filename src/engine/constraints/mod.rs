@@ -5,5 +5,6 @@ pub mod bonds;
 pub mod composition;
 pub mod dbe;
 pub mod diagnostic_bands;
+pub mod ionic;
 pub mod ms;
 pub mod relations;
