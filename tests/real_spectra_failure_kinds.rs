@@ -88,7 +88,7 @@ fn kind_2_vapour_rotational_branches_are_not_bands_a_group_must_explain() {
     assert!(first(&o).bands.iter().any(|b| b
         .explained_by
         .first()
-        .is_some_and(|e| e.kind == "branch")
+        .is_some_and(|e| e.kind == quiddity::engine::ExplanationKind::Branch)
         && b.treatment.is_some()));
 }
 

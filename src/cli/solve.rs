@@ -7,6 +7,7 @@ use super::casefile::{
 };
 use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
+use crate::engine::RuleOutKind;
 use crate::engine::{self, Outcome, SolveOptions};
 use crate::report::record::Record;
 use crate::report::view::groups_text;
@@ -325,14 +326,14 @@ pub fn render_text(o: &Outcome) -> String {
         for r in o
             .ruled_out
             .iter()
-            .filter(|r| !r.reason.starts_with("composition"))
+            .filter(|r| r.kind != RuleOutKind::Composition)
         {
             s.push_str(&format!("  {:<width$}  {}\n", r.group, r.reason));
         }
         let by_formula = o
             .ruled_out
             .iter()
-            .filter(|r| r.reason.starts_with("composition"))
+            .filter(|r| r.kind == RuleOutKind::Composition)
             .count();
         if by_formula > 0 {
             s.push_str(&format!(

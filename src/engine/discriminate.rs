@@ -3,79 +3,88 @@
 //! explain, an MS ion or loss, a simple wet test or an NMR region for the family.
 
 use super::model::Problem;
+use super::outcome::CheckKind;
 use super::outcome::DiscriminatingCheck;
 use crate::rules::MsClueKind;
 
 /// Wet tests and NMR regions by family id (common practice, from memory).
-const FAMILY_TESTS: &[(&str, &str, &str)] = &[
+const FAMILY_TESTS: &[(&str, CheckKind, &str)] = &[
     (
         "aldehyde",
-        "wet_test",
+        CheckKind::WetTest,
         "Tollens' or Fehling's test positive (aldehyde, not ketone)",
     ),
     (
         "aldehyde",
-        "nmr",
+        CheckKind::Nmr,
         "1H NMR: CHO singlet or triplet near 9.4–10.1 ppm",
     ),
     (
         "ketone",
-        "wet_test",
+        CheckKind::WetTest,
         "2,4-DNP precipitate with a negative Tollens' test (ketone)",
     ),
     (
         "carboxylic_acid",
-        "wet_test",
+        CheckKind::WetTest,
         "effervescence with aqueous NaHCO3 (acid)",
     ),
     (
         "carboxylic_acid",
-        "nmr",
+        CheckKind::Nmr,
         "1H NMR: exchangeable COOH near 10–13 ppm",
     ),
-    ("ester", "nmr", "1H NMR: O–CH near 3.6–4.3 ppm"),
+    ("ester", CheckKind::Nmr, "1H NMR: O–CH near 3.6–4.3 ppm"),
     (
         "alcohol",
-        "nmr",
+        CheckKind::Nmr,
         "1H NMR: exchangeable O–H that vanishes on D2O shake",
     ),
     (
         "alcohol",
-        "wet_test",
+        CheckKind::WetTest,
         "ceric ammonium nitrate test colour change (alcohol)",
     ),
-    ("phenol", "wet_test", "violet colour with FeCl3 (phenol)"),
+    (
+        "phenol",
+        CheckKind::WetTest,
+        "violet colour with FeCl3 (phenol)",
+    ),
     (
         "ether",
-        "nmr",
+        CheckKind::Nmr,
         "1H NMR: O–CH near 3.3–4.0 ppm with no exchangeable H",
     ),
     (
         "amine_primary",
-        "wet_test",
+        CheckKind::WetTest,
         "Hinsberg test: sulfonamide soluble in base (primary amine)",
     ),
     (
         "amine_secondary",
-        "wet_test",
+        CheckKind::WetTest,
         "Hinsberg test: sulfonamide insoluble in base (secondary amine)",
     ),
     (
         "amine_tertiary",
-        "wet_test",
+        CheckKind::WetTest,
         "Hinsberg test: no sulfonamide (tertiary amine)",
     ),
     (
         "alkene",
-        "wet_test",
+        CheckKind::WetTest,
         "decolourises bromine water or dilute KMnO4 (C=C)",
     ),
     (
         "aromatic_ring",
-        "nmr",
+        CheckKind::Nmr,
         "1H NMR: aromatic H near 6.5–8.5 ppm",
     ),
-    ("alkyne_terminal", "nmr", "1H NMR: ≡C–H near 1.8–3.1 ppm"),
+    (
+        "alkyne_terminal",
+        CheckKind::Nmr,
+        "1H NMR: ≡C–H near 1.8–3.1 ppm",
+    ),
 ];
 
 /// Checks separating the best candidate from each of the next ones (at most `limit`).
@@ -122,7 +131,7 @@ pub fn checks(
                                 rule.label, rule.range.lo, rule.range.hi, g.group.id
                             ),
                             favours: a_rank,
-                            kind: "ir".into(),
+                            kind: CheckKind::Ir,
                         });
                     }
                 }
@@ -138,7 +147,7 @@ pub fn checks(
                             clue.label, g.group.id
                         ),
                         favours: a_rank,
-                        kind: "ms".into(),
+                        kind: CheckKind::Ms,
                     });
                 }
                 for (family, kind, text) in FAMILY_TESTS {
@@ -151,7 +160,7 @@ pub fn checks(
                                 "{text} — expected for rank {a_rank}, not rank {b_rank}"
                             ),
                             favours: a_rank,
-                            kind: (*kind).into(),
+                            kind: *kind,
                         });
                     }
                 }

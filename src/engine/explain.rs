@@ -68,7 +68,7 @@ pub fn candidate(
                     sharp_rules.push((gd.id.clone(), rule.label.clone()));
                 }
                 list.push(Explanation {
-                    kind: "group".into(),
+                    kind: ExplanationKind::Group,
                     id: gd.id.clone(),
                     rule: rule.label.clone(),
                     defined_at: at(&rule.defined_at),
@@ -80,7 +80,7 @@ pub fn candidate(
             if gs.iter().any(|&g| counts[g] > 0) {
                 let pr = &catalogue.patterns[*p];
                 list.push(Explanation {
-                    kind: "pattern".into(),
+                    kind: ExplanationKind::Pattern,
                     id: pr.id.clone(),
                     rule: pr.feature.clone(),
                     defined_at: at(&pr.defined_at),
@@ -99,7 +99,7 @@ pub fn candidate(
                     sharp_rules.push((sr.id.clone(), sr.band.label.clone()));
                 }
                 list.push(Explanation {
-                    kind: "skeleton".into(),
+                    kind: ExplanationKind::Skeleton,
                     id: sr.id.clone(),
                     rule: sr.band.label.clone(),
                     defined_at: at(&sr.band.defined_at),
@@ -110,7 +110,7 @@ pub fn candidate(
         for (a, q) in &ex.artefacts {
             let ar = &catalogue.artefacts[*a];
             list.push(Explanation {
-                kind: "artefact".into(),
+                kind: ExplanationKind::Artefact,
                 id: ar.id.clone(),
                 rule: ar.label.clone(),
                 defined_at: at(&ar.defined_at),
@@ -124,7 +124,7 @@ pub fn candidate(
                     super::score::direct_explanation(problem, j, counts, skeleton_c, sp3_group)
                 {
                     list.push(Explanation {
-                        kind: "branch".into(),
+                        kind: ExplanationKind::Branch,
                         id: "vapour_rotational_branch".into(),
                         rule: format!(
                             "rotational branch of the {:.0} cm⁻¹ band",
@@ -139,11 +139,13 @@ pub fn candidate(
         let treatment = match list.first() {
             // A branch whose neighbour is itself unexplained excuses nothing.
             None => band_explanation::treatment_of_unexplained(&ob.band, ex, None),
-            Some(best) if best.kind == "branch" => band_explanation::treatment_of_unexplained(
-                &ob.band,
-                ex,
-                ex.branch_of.map(|j| &problem.bands[j].1.band),
-            ),
+            Some(best) if best.kind == ExplanationKind::Branch => {
+                band_explanation::treatment_of_unexplained(
+                    &ob.band,
+                    ex,
+                    ex.branch_of.map(|j| &problem.bands[j].1.band),
+                )
+            }
             Some(best)
                 if diagnostic_bands::observed_shape(&ob.band) == Some(crate::ir::Shape::Broad)
                     && sharp_rules.iter().any(|(id, _)| *id == best.id) =>
@@ -261,6 +263,7 @@ pub fn ruled_out(
             out.push(RuledOut {
                 group: g.group.id.clone(),
                 family: false,
+                kind: RuleOutKind::Composition,
                 reason: format!("composition: {reason}"),
                 rule: Some(format!("{} ({})", g.group.id, at(&g.group.defined_at))),
                 evidence: vec!["formula".into()],
@@ -285,6 +288,7 @@ pub fn ruled_out(
             out.push(RuledOut {
                 group: g.group.id.clone(),
                 family: false,
+                kind: RuleOutKind::MissingBand,
                 reason: diagnostic_bands::describe_missing(
                     rule,
                     problem.technique,
@@ -303,6 +307,7 @@ pub fn ruled_out(
             out.push(RuledOut {
                 group: g.group.id.clone(),
                 family: false,
+                kind: RuleOutKind::NoConsistentCombination,
                 reason: "no combination holding it meets all the evidence (see near misses)".into(),
                 rule: None,
                 evidence: Vec::new(),
@@ -345,6 +350,7 @@ pub fn ruled_out(
         out.push(RuledOut {
             group: parent.id.clone(),
             family: true,
+            kind: RuleOutKind::Family,
             reason,
             rule: None,
             evidence: Vec::new(),

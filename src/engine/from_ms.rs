@@ -7,6 +7,7 @@
 //! evidence that tells them apart; an analyst wants to see that competition, not have it
 //! settled silently by the mass search.
 
+use super::outcome::EvidenceKind;
 use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
 use crate::case::{Case, StatedFormula};
 use crate::chem::Formula;
@@ -167,7 +168,7 @@ fn without_formula(
 ) -> Outcome {
     let mut outcome = solve_stated(case, catalogue, options);
     outcome.evidence_checks.push(super::EvidenceCheck {
-        item: "molecular_ion".into(),
+        item: EvidenceKind::MolecularIon,
         agrees: false,
         detail,
     });
@@ -247,6 +248,6 @@ ir:
         assert!(outcome
             .evidence_checks
             .iter()
-            .any(|c| c.item == "molecular_ion" && !c.agrees));
+            .any(|c| c.item == EvidenceKind::MolecularIon && !c.agrees));
     }
 }

@@ -457,18 +457,19 @@ pub fn consider(
     }
 }
 
-/// The bands among a conflict's items (their positions, as the conflict names them).
+/// The bands among a conflict's items.
 fn conflict_bands(case: &Case, outcome: &Outcome) -> Vec<f64> {
     let Some(ir) = &case.ir else {
         return Vec::new();
     };
     let mut out = Vec::new();
     for c in &outcome.conflicts {
-        for item in &c.items {
-            for b in &ir.bands {
-                let tag = format!("{:.0}", b.band.at);
-                if item.contains("band") && item.contains(&tag) && !out.contains(&b.band.at) {
-                    out.push(b.band.at);
+        for item in &c.evidence {
+            if let crate::engine::EvidenceItem::Band(i) = item {
+                if let Some(b) = ir.bands.get(*i) {
+                    if !out.contains(&b.band.at) {
+                        out.push(b.band.at);
+                    }
                 }
             }
         }

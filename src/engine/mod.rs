@@ -89,7 +89,7 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
         if !set_aside.contains(&EvidenceItem::MolecularIon) {
             let c = ms::check_molecular_ion(&f.formula, ms_e, *mz);
             out.push(EvidenceCheck {
-                item: "molecular_ion".into(),
+                item: EvidenceKind::MolecularIon,
                 agrees: c.agrees,
                 detail: c.detail,
             });
@@ -101,7 +101,7 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
         // out a formula on its own.
         let c = ms::check_isotope("M+1", *v, m1);
         out.push(EvidenceCheck {
-            item: "M+1 (reported only)".into(),
+            item: EvidenceKind::MPlus1,
             agrees: true,
             detail: c.detail,
         });
@@ -110,7 +110,7 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
         if !set_aside.contains(&EvidenceItem::MPlus2) {
             let c = ms::check_isotope("M+2", *v, m2);
             out.push(EvidenceCheck {
-                item: "M+2".into(),
+                item: EvidenceKind::MPlus2,
                 agrees: c.agrees,
                 detail: c.detail,
             });
@@ -362,9 +362,9 @@ fn conflict_report(
             }
             EvidenceItem::MolecularIon | EvidenceItem::MPlus2 => {
                 let key = if *item == EvidenceItem::MPlus2 {
-                    "M+2"
+                    EvidenceKind::MPlus2
                 } else {
-                    "molecular_ion"
+                    EvidenceKind::MolecularIon
                 };
                 for c in evidence_checks.iter().filter(|c| c.item == key) {
                     explanation.push(c.detail.clone());
@@ -377,6 +377,7 @@ fn conflict_report(
             .iter()
             .map(|i| conflicts::describe_item(case, *i))
             .collect(),
+        evidence: items.iter().copied().collect(),
         explanation,
         suggested_causes: conflicts::suggested_causes(case, &items),
     }]

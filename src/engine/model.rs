@@ -14,7 +14,8 @@ use crate::rules::{Catalogue, Group, Technique};
 use std::collections::BTreeSet;
 
 /// One item of evidence that a conflict search can set aside.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, serde::Serialize)]
+#[serde(rename_all = "snake_case", tag = "kind", content = "index")]
 pub enum EvidenceItem {
     /// The stated molecular formula (composition and DBE).
     Formula,

@@ -168,9 +168,8 @@ pub struct BandAssignment {
 /// One explanation of a band.
 #[derive(Clone, Debug, Serialize)]
 pub struct Explanation {
-    /// `group`, `skeleton`, `pattern`, `artefact` or `branch` (a vapour band taken as the
-    /// rotational branch of an explained neighbour).
-    pub kind: String,
+    /// What kind of rule explains the band.
+    pub kind: ExplanationKind,
     /// Group, skeleton, pattern or artefact id.
     pub id: String,
     /// The rule's label.
@@ -181,6 +180,118 @@ pub struct Explanation {
     pub quality: f64,
 }
 
+/// What kind of rule explains an observed band (serialised as the lower-case word).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum ExplanationKind {
+    /// A band rule of a group of the candidate.
+    Group,
+    /// A skeleton (C–H) rule whose needs the candidate meets.
+    Skeleton,
+    /// A fingerprint pattern of a group of the candidate.
+    Pattern,
+    /// A sample or instrument artefact.
+    Artefact,
+    /// A vapour band taken as the rotational branch of an explained neighbour.
+    Branch,
+}
+
+impl ExplanationKind {
+    /// The word reports use.
+    pub fn word(self) -> &'static str {
+        match self {
+            ExplanationKind::Group => "group",
+            ExplanationKind::Skeleton => "skeleton",
+            ExplanationKind::Pattern => "pattern",
+            ExplanationKind::Artefact => "artefact",
+            ExplanationKind::Branch => "branch",
+        }
+    }
+}
+
+impl std::fmt::Display for ExplanationKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.word())
+    }
+}
+
+impl std::fmt::Display for EvidenceKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.word())
+    }
+}
+
+impl std::fmt::Display for CheckKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.word())
+    }
+}
+
+/// Why a group was ruled out, by kind (the sentence is in `RuledOut::reason`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum RuleOutKind {
+    /// The formula cannot hold it (elements, DBE, hydrogen).
+    Composition,
+    /// A demanded diagnostic band is missing.
+    MissingBand,
+    /// Every combination holding it fails some other evidence.
+    NoConsistentCombination,
+    /// A family whose every member is ruled out.
+    Family,
+}
+
+/// Which formula-level evidence a check is about.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub enum EvidenceKind {
+    /// The molecular ion against the formula (or the formulas it allows).
+    #[serde(rename = "molecular_ion")]
+    MolecularIon,
+    /// The M+1 percentage (reported only: carbon count).
+    #[serde(rename = "M+1 (reported only)")]
+    MPlus1,
+    /// The M+2 percentage against the formula's isotope pattern.
+    #[serde(rename = "M+2")]
+    MPlus2,
+}
+
+impl EvidenceKind {
+    /// The word reports use.
+    pub fn word(self) -> &'static str {
+        match self {
+            EvidenceKind::MolecularIon => "molecular_ion",
+            EvidenceKind::MPlus1 => "M+1 (reported only)",
+            EvidenceKind::MPlus2 => "M+2",
+        }
+    }
+}
+
+/// The kind of a discriminating check.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CheckKind {
+    /// An IR band to look for.
+    Ir,
+    /// An MS ion or loss.
+    Ms,
+    /// A simple wet test.
+    WetTest,
+    /// An NMR region.
+    Nmr,
+}
+
+impl CheckKind {
+    /// The word reports use.
+    pub fn word(self) -> &'static str {
+        match self {
+            CheckKind::Ir => "ir",
+            CheckKind::Ms => "ms",
+            CheckKind::WetTest => "wet_test",
+            CheckKind::Nmr => "nmr",
+        }
+    }
+}
+
 /// A group that no candidate holds, and why.
 #[derive(Clone, Debug, Serialize)]
 pub struct RuledOut {
@@ -188,6 +299,8 @@ pub struct RuledOut {
     pub group: String,
     /// True for a family entry.
     pub family: bool,
+    /// Why, by kind.
+    pub kind: RuleOutKind,
     /// Why, in words.
     pub reason: String,
     /// The rule behind the decision (`id: label (file:line)`), when one rule decided.
@@ -210,6 +323,8 @@ pub struct NearMiss {
 pub struct Conflict {
     /// The items, in words with their places.
     pub items: Vec<String>,
+    /// The same items, typed (`items[i]` words `evidence[i]`).
+    pub evidence: Vec<super::model::EvidenceItem>,
     /// Why they cannot hold together.
     pub explanation: Vec<String>,
     /// Usual causes to check.
@@ -225,15 +340,15 @@ pub struct DiscriminatingCheck {
     pub observation: String,
     /// Rank whose group predicts it.
     pub favours: usize,
-    /// Kind: `ir`, `ms`, `wet_test`, `nmr`.
-    pub kind: String,
+    /// Kind of observation.
+    pub kind: CheckKind,
 }
 
 /// A formula-level check (MS agreement).
 #[derive(Clone, Debug, Serialize)]
 pub struct EvidenceCheck {
     /// The item.
-    pub item: String,
+    pub item: EvidenceKind,
     /// Whether it agrees.
     pub agrees: bool,
     /// Words.

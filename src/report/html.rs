@@ -163,7 +163,7 @@ pub fn render(v: &ReportView) -> String {
                 } else {
                     "<span class=\"unexplained\">DISAGREES</span>"
                 },
-                escape(&c.item),
+                escape(c.item.word()),
                 escape(&c.detail)
             );
         }
@@ -310,7 +310,7 @@ pub fn render(v: &ReportView) -> String {
                 "<li>#{} vs #{} ({}, favours #{}): {}</li>",
                 d.between[0],
                 d.between[1],
-                escape(&d.kind),
+                escape(d.kind.word()),
                 d.favours,
                 escape(&d.observation)
             );

@@ -99,7 +99,7 @@ pub fn render(v: &ReportView) -> String {
             push(format!(
                 "- {} **{}**: {}",
                 if c.agrees { "agrees" } else { "DISAGREES" },
-                md(&c.item),
+                md(c.item.word()),
                 md(&c.detail)
             ));
         }
@@ -225,7 +225,7 @@ pub fn render(v: &ReportView) -> String {
                 "- \\#{} vs \\#{} ({}, favours \\#{}): {}",
                 d.between[0],
                 d.between[1],
-                md(&d.kind),
+                md(d.kind.word()),
                 d.favours,
                 md(&d.observation)
             ));

@@ -29,14 +29,14 @@ fn field(s: &mut String, label: &str, value: Option<&String>) {
 /// The text of one band cell: `id (kind)`.
 pub fn cell_text(row: &BandRow, i: usize) -> String {
     match row.cells.get(i) {
-        Some(c) if c.kind == "none" => {
+        Some(c) if c.kind == super::view::CellKind::Unexplained => {
             if row.demanded {
                 "UNEXPLAINED".to_owned()
             } else {
                 "unexplained (not demanded)".to_owned()
             }
         }
-        Some(c) => format!("{} ({})", c.id, c.kind),
+        Some(c) => format!("{} ({})", c.id, c.kind.word()),
         None => String::new(),
     }
 }

@@ -304,11 +304,36 @@ pub struct BandRow {
     pub cells: Vec<BandCell>,
 }
 
+/// What kind of rule explains a band in one candidate, or none.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CellKind {
+    /// Explained by a rule of this kind.
+    Explained(crate::engine::ExplanationKind),
+    /// No rule of the candidate explains it.
+    Unexplained,
+}
+
+impl CellKind {
+    /// The word reports use (`none` when unexplained).
+    pub fn word(self) -> &'static str {
+        match self {
+            CellKind::Explained(k) => k.word(),
+            CellKind::Unexplained => "none",
+        }
+    }
+}
+
+impl Serialize for CellKind {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.serialize_str(self.word())
+    }
+}
+
 /// What explains a band in one candidate.
 #[derive(Clone, Debug, Serialize)]
 pub struct BandCell {
-    /// `group`, `skeleton`, `pattern`, `artefact` or `none`.
-    pub kind: String,
+    /// What kind of rule explains it.
+    pub kind: CellKind,
     /// The explaining id, or `unexplained`.
     pub id: String,
     /// The rule's label and place, when explained.
@@ -323,7 +348,7 @@ impl BandRow {
 
     /// The kind of the leading candidate's explanation (`none` without candidates).
     pub fn kind(&self) -> &str {
-        self.cells.first().map_or("none", |c| c.kind.as_str())
+        self.cells.first().map_or("none", |c| c.kind.word())
     }
 }
 
@@ -502,10 +527,13 @@ fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
     let leading: Vec<_> = outcome.candidates.iter().take(BAND_TABLE_COLUMNS).collect();
     let ranks = leading.iter().map(|c| c.rank).collect();
     let rows = match leading.first() {
+        // Every candidate lists the case's bands in the same order (the engine's active
+        // band list), so a row pairs the candidates' assignments by index.
         Some(first) => first
             .bands
             .iter()
-            .map(|b| BandRow {
+            .enumerate()
+            .map(|(band_idx, b)| BandRow {
                 at: b.at,
                 strength: b.strength.clone(),
                 shape: b.shape.clone(),
@@ -514,15 +542,15 @@ fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
                 cells: leading
                     .iter()
                     .map(|c| {
-                        let same = c.bands.iter().find(|x| x.at == b.at && x.place == b.place);
+                        let same = c.bands.get(band_idx);
                         match same.and_then(|x| x.explained_by.first()) {
                             Some(e) => BandCell {
-                                kind: e.kind.clone(),
+                                kind: CellKind::Explained(e.kind),
                                 id: e.id.clone(),
                                 rule: Some(format!("{} ({})", e.rule, e.defined_at)),
                             },
                             None => BandCell {
-                                kind: "none".into(),
+                                kind: CellKind::Unexplained,
                                 id: "unexplained".into(),
                                 rule: None,
                             },
