@@ -12,6 +12,7 @@ pub mod cli;
 pub mod diag;
 pub mod engine;
 pub mod ir;
+pub mod library;
 pub mod ms;
 pub mod report;
 pub mod rules;
