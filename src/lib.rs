@@ -17,4 +17,5 @@ pub mod ms;
 pub mod report;
 pub mod rules;
 pub mod structure;
+pub mod verdict;
 pub mod yaml;

@@ -126,7 +126,8 @@ impl Agreement {
 pub const AGREE_AT: f64 = 0.8;
 /// Local similarity below which a region disagrees.
 pub const DISAGREE_BELOW: f64 = 0.5;
-/// A region holding less than this share of a spectrum's signal has no bands of note.
+/// A region holding less than this share of a spectrum's weighted band area has no bands
+/// of note.
 pub const EMPTY_SHARE: f64 = 0.02;
 
 /// The regions compared one by one (common practice: where the stretching and bending
@@ -148,9 +149,9 @@ pub struct RegionAgreement {
     pub range_cm1: (f64, f64),
     /// Local similarity, when both have bands there.
     pub similarity: Option<f64>,
-    /// Share of the unknown's signal in this region (of the compared range).
+    /// Share of the unknown's weighted band area in this region (of the compared range).
     pub unknown_share: f64,
-    /// Share of the reference's signal in this region.
+    /// Share of the reference's weighted band area in this region.
     pub reference_share: f64,
     /// The verdict.
     pub agreement: Agreement,
@@ -329,8 +330,8 @@ pub fn search(index: &LibraryIndex, query: &Query, options: &SearchOptions) -> S
 pub fn regions(query: &Query, r: &[i16], lo: usize, hi: usize) -> Vec<RegionAgreement> {
     let q = &query.signature;
     let total = |f: &dyn Fn(usize) -> f64| (lo..=hi).map(f).sum::<f64>();
-    let q_all = total(&|k| f64::from(q[k]).powi(2));
-    let r_all = total(&|k| f64::from(r[k]).powi(2));
+    let q_all = total(&|k| f64::from(q[k]).abs());
+    let r_all = total(&|k| f64::from(r[k]).abs());
     REGIONS
         .iter()
         .map(|&(name, low, high)| {
@@ -351,8 +352,10 @@ pub fn regions(query: &Query, r: &[i16], lo: usize, hi: usize) -> Vec<RegionAgre
             let qq: f64 = ks.iter().map(|&k| f64::from(q[k]).powi(2)).sum();
             let rr: f64 = ks.iter().map(|&k| f64::from(r[k]).powi(2)).sum();
             let qr: f64 = ks.iter().map(|&k| f64::from(q[k]) * f64::from(r[k])).sum();
-            let q_share = if q_all > 0.0 { qq / q_all } else { 0.0 };
-            let r_share = if r_all > 0.0 { rr / r_all } else { 0.0 };
+            let q_area: f64 = ks.iter().map(|&k| f64::from(q[k]).abs()).sum();
+            let r_area: f64 = ks.iter().map(|&k| f64::from(r[k]).abs()).sum();
+            let q_share = if q_all > 0.0 { q_area / q_all } else { 0.0 };
+            let r_share = if r_all > 0.0 { r_area / r_all } else { 0.0 };
             let local = (qq > 0.0 && rr > 0.0).then(|| qr / (qq * rr).sqrt());
             let agreement = if q_share < EMPTY_SHARE && r_share < EMPTY_SHARE {
                 Agreement::BothEmpty
