@@ -31,6 +31,8 @@ pub struct RawCase {
     pub conclusion: Option<RawConclusion>,
     /// The second analyst's review.
     pub review: Option<RawReview>,
+    /// Folder of reference spectra to search, relative to the case file.
+    pub library: Option<String>,
 }
 
 /// The `sample:` block: where the unknown came from and who handles it.
