@@ -35,6 +35,20 @@ fn demo_copy() -> tempfile::TempDir {
     for entry in std::fs::read_dir("cases/spectra").unwrap().flatten() {
         std::fs::copy(entry.path(), cases.join("spectra").join(entry.file_name())).unwrap();
     }
+    // The reference library of the library demo case (its index file is not copied).
+    std::fs::create_dir_all(cases.join("reference-library")).unwrap();
+    for entry in std::fs::read_dir("cases/reference-library")
+        .unwrap()
+        .flatten()
+    {
+        if !entry.file_name().to_string_lossy().ends_with(".idx") {
+            std::fs::copy(
+                entry.path(),
+                cases.join("reference-library").join(entry.file_name()),
+            )
+            .unwrap();
+        }
+    }
     dir
 }
 

@@ -5,6 +5,7 @@
 mod components;
 pub mod digest;
 mod formula;
+pub use formula::formula_parts;
 pub mod model;
 pub mod paths;
 pub mod raw;

@@ -264,4 +264,15 @@ pub struct Case {
     pub review: Option<Review>,
     /// Suspected components of a mixture, in the order written.
     pub components: Vec<KnownComponent>,
+    /// The reference library the case names, when it names one.
+    pub library: Option<LibraryRef>,
+}
+
+/// A reference library folder named by a case (`library:`).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LibraryRef {
+    /// The path as written (relative to the case file).
+    pub written: String,
+    /// Where it was written.
+    pub place: Place,
 }

@@ -34,6 +34,8 @@ pub struct RawCase {
     /// Suspected components of a mixture (cutting agents, diluents) with their reference
     /// spectrum or band list.
     pub components: Option<Vec<RawComponent>>,
+    /// Folder of reference spectra to search, relative to the case file.
+    pub library: Option<String>,
 }
 
 /// One item of `components:`.

@@ -119,6 +119,21 @@ pub fn validate_with_files(
         raw.components.as_deref().unwrap_or_default(),
         files,
     );
+    let library = raw.library.as_ref().and_then(|written| {
+        let path = KeyPath::key("library");
+        if written.trim().is_empty() {
+            ctx.error(
+                &path,
+                "the library path is empty".to_owned(),
+                Some("name the folder of reference spectra, relative to the case file".to_owned()),
+            );
+            return None;
+        }
+        Some(LibraryRef {
+            written: written.clone(),
+            place: ctx.place(&path),
+        })
+    });
     // Without a formula the engine derives candidate formulas from the molecular ion.
     let has_ion = ms.as_ref().is_some_and(|m| m.molecular_ion.is_some());
     if formula.is_none() && raw.formula.is_none() && !has_ion {
@@ -145,6 +160,7 @@ pub fn validate_with_files(
         conclusion,
         review,
         components,
+        library,
     });
     (case, ctx.diagnostics)
 }

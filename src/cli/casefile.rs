@@ -38,6 +38,17 @@ pub struct LoadedCase {
     pub inputs: Vec<InputFile>,
     /// The files the case names, with their bytes.
     pub files: Vec<ReferencedFile>,
+    /// The reference library the case names, loaded.
+    pub library: Option<CaseLibrary>,
+}
+
+/// A case's reference library: the folder as written and its loaded index.
+#[derive(Clone, Debug)]
+pub struct CaseLibrary {
+    /// The path as written in the case.
+    pub written: String,
+    /// The loaded library.
+    pub loaded: super::library::LoadedLibrary,
 }
 
 /// The directory a case file's relative paths start from.
@@ -103,6 +114,35 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
         path: f.written.clone(),
         sha256: sha256_hex(&f.bytes),
     }));
+    let library = match &case.library {
+        None => None,
+        Some(lib) => {
+            let key = KeyPath::key("library");
+            let full = resolve_at(&dir, &lib.written, options, &src, &origin, &key)?;
+            let loaded = super::library::load_library(&full, false).map_err(|f| {
+                let mut all = vec![place_key(
+                    Diagnostic::error(
+                        &origin,
+                        format!("the library \"{}\" cannot be used", lib.written),
+                    )
+                    .with_help("the problems are listed below"),
+                    &src,
+                    &key,
+                )];
+                all.extend(f.diagnostics);
+                Failure::from(all)
+            })?;
+            inputs.push(InputFile {
+                role: "library".to_owned(),
+                path: lib.written.clone(),
+                sha256: loaded.index.digest(),
+            });
+            Some(CaseLibrary {
+                written: lib.written.clone(),
+                loaded,
+            })
+        }
+    };
     Ok(LoadedCase {
         path: path.to_path_buf(),
         src,
@@ -110,13 +150,17 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
         warnings: diagnostics,
         inputs,
         files,
+        library,
     })
 }
 
 fn place_spectrum(d: Diagnostic, src: &str) -> Diagnostic {
-    let path = KeyPath::key("ir").with_key("spectrum");
+    place_key(d, src, &KeyPath::key("ir").with_key("spectrum"))
+}
+
+fn place_key(d: Diagnostic, src: &str, path: &KeyPath) -> Diagnostic {
     let d = d.with_key_path(path.to_string());
-    match locate_value(src, &path) {
+    match locate_value(src, path) {
         Some(offset) => d.at_offset(src, offset),
         None => d,
     }
@@ -131,6 +175,26 @@ fn resolve(
     src: &str,
     origin: &str,
 ) -> Result<PathBuf, Failure> {
+    resolve_at(
+        dir,
+        written,
+        options,
+        src,
+        origin,
+        &KeyPath::key("ir").with_key("spectrum"),
+    )
+}
+
+/// [`resolve`] for the path written at `key`.
+fn resolve_at(
+    dir: &Path,
+    written: &str,
+    options: &LoadOptions,
+    src: &str,
+    origin: &str,
+    key: &KeyPath,
+) -> Result<PathBuf, Failure> {
+    let place_spectrum = |d: Diagnostic, src: &str| place_key(d, src, key);
     let full = dir.join(written);
     if options.allow_outside {
         return Ok(full);
@@ -213,13 +277,89 @@ pub fn report_text(
     } else {
         None
     };
-    let view = report::build(
+    let mut view = report::build(
         &loaded.case,
         outcome,
         provenance(loaded, outcome, generated_at),
         plot,
     );
+    if let Some((verdict, overlay)) = library_verdict(loaded, outcome, format == Format::Html) {
+        view.library = Some(verdict);
+        view.library_overlay = overlay;
+    }
     report::render(&view, format)
+}
+
+/// Hits shown in a report's library section.
+pub const LIBRARY_HITS: usize = 5;
+/// Hits drawn over the unknown in the overlay plot.
+pub const OVERLAY_HITS: usize = 3;
+
+/// The library verdict of a loaded case (None when the case names no library), and with
+/// `overlay` the traces of the unknown and its best hits on the library grid (the hits'
+/// files are read again for it).
+pub fn library_verdict(
+    loaded: &LoadedCase,
+    outcome: &Outcome,
+    overlay: bool,
+) -> Option<(
+    crate::verdict::LibraryVerdict,
+    Option<report::plot::LibraryOverlay>,
+)> {
+    let lib = loaded.library.as_ref()?;
+    let index = &lib.loaded.index;
+    let Some(file) = loaded.files.first() else {
+        return Some((
+            crate::verdict::not_searched(
+                &lib.written,
+                index,
+                "the case names no spectrum file (a library search compares whole spectra, not band lists)",
+            ),
+            None,
+        ));
+    };
+    let grid = match crate::library::grid_from_bytes(&file.bytes, &file.origin) {
+        Ok(g) => g,
+        Err(e) => {
+            return Some((
+                crate::verdict::not_searched(
+                    &lib.written,
+                    index,
+                    &format!("the case's spectrum cannot go on the library grid: {e}"),
+                ),
+                None,
+            ))
+        }
+    };
+    let query = crate::library::Query::new(grid, crate::verdict::case_phase(&loaded.case));
+    let options = crate::library::SearchOptions {
+        top: LIBRARY_HITS,
+        ..crate::library::SearchOptions::default()
+    };
+    let found = crate::library::search(index, &query, &options);
+    let verdict = crate::verdict::check_hits(&loaded.case, outcome, &lib.written, index, &found);
+    let overlay = overlay.then(|| {
+        let mut traces = vec![report::plot::OverlayTrace::of_grid(
+            "unknown".to_owned(),
+            &query.grid,
+        )];
+        for h in found.hits.iter().take(OVERLAY_HITS) {
+            let e = &index.entries()[h.entry];
+            let path = lib.loaded.dir.join(&e.path);
+            let origin = path.display().to_string();
+            if let Some(g) = std::fs::read(&path)
+                .ok()
+                .and_then(|b| crate::library::grid_from_bytes(&b, &origin).ok())
+            {
+                traces.push(report::plot::OverlayTrace::of_grid(
+                    format!("#{} {}", h.rank, e.meta.name),
+                    &g,
+                ));
+            }
+        }
+        report::plot::LibraryOverlay { traces }
+    });
+    Some((verdict, overlay))
 }
 
 /// The report format of an output path, from its extension.
@@ -250,6 +390,19 @@ pub fn refuse_input_overwrite(loaded: &LoadedCase, target: &Path) -> Result<(), 
     };
     let mut inputs = vec![loaded.path.clone()];
     inputs.extend(loaded.files.iter().map(|f| PathBuf::from(&f.origin)));
+    if let Some(lib) = &loaded.library {
+        // Any file inside the library folder is an input (a reference, a side file or the
+        // index): compared by folder, not file by file, for a library of any size.
+        if let Ok(dir) = lib.loaded.dir.canonicalize() {
+            if target.starts_with(&dir) {
+                return Err(Diagnostic::error(
+                    target.display().to_string(),
+                    "refusing to write into the reference library folder (an input)",
+                )
+                .into());
+            }
+        }
+    }
     for input in inputs {
         if input.canonicalize().is_ok_and(|c| c == target) {
             return Err(Diagnostic::error(

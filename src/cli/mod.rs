@@ -11,6 +11,7 @@ pub mod casefile;
 mod formula;
 mod from_mass;
 mod isomers;
+pub mod library;
 mod new_case;
 pub mod review;
 mod rules;
@@ -60,6 +61,8 @@ enum Command {
     Batch(batch::BatchArgs),
     /// Write a commented template case file.
     NewCase(new_case::NewCaseArgs),
+    /// Index a folder of reference spectra, or search it with a spectrum.
+    Library(library::LibraryArgs),
 }
 
 /// What a subcommand reports back to `run`: the exit status it earned.
@@ -121,6 +124,7 @@ where
         Command::Review(a) => review::run(a, &mut out),
         Command::Batch(a) => batch::run(a, &mut out),
         Command::NewCase(a) => new_case::run(a, &mut out),
+        Command::Library(a) => library::run(a, &mut out),
     };
     let _ = out.flush();
     match result {

@@ -83,6 +83,11 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     for d in &loaded.warnings {
         let _ = writeln!(err, "{}", d.render());
     }
+    if let Some(lib) = &loaded.library {
+        for n in lib.loaded.notices() {
+            let _ = writeln!(err, "{n}");
+        }
+    }
     let catalogue = load_catalogue(args.rules.as_deref())?;
     casefile::check_against_catalogue(&loaded, &catalogue)?;
     let options = SolveOptions {
@@ -119,8 +124,12 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     if args.json {
         print_json(out, &outcome)?;
     } else {
-        out.write_all(render_text(&outcome).as_bytes())
-            .map_err(io_failure)?;
+        let mut text = render_text(&outcome);
+        if let Some((verdict, _)) = casefile::library_verdict(&loaded, &outcome, false) {
+            text.push_str("\nreference library\n");
+            text.push_str(&crate::report::library::text(&verdict));
+        }
+        out.write_all(text.as_bytes()).map_err(io_failure)?;
     }
     Ok(if outcome.candidates.is_empty() {
         Status::Negative

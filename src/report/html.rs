@@ -317,6 +317,9 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</ul>\n");
     }
+    if let Some(l) = &v.library {
+        s.push_str(&super::library::html(l, v.library_overlay.as_ref()));
+    }
     if let Some(c) = &v.conclusion {
         s.push_str("<h2>Analyst's conclusion</h2>\n<table>\n");
         kv(&mut s, "accepted", Some(&c.accepted_text));

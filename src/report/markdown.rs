@@ -231,6 +231,9 @@ pub fn render(v: &ReportView) -> String {
             ));
         }
     }
+    if let Some(l) = &v.library {
+        push(super::library::markdown(l).trim_end().to_owned());
+    }
     if let Some(c) = &v.conclusion {
         push("\n## Analyst's conclusion\n".into());
         push(format!("- **accepted:** {}", md(&c.accepted_text)));

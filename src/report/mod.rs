@@ -8,6 +8,7 @@
 
 pub mod html;
 pub mod json;
+pub mod library;
 pub mod markdown;
 pub mod plot;
 pub mod record;

@@ -8,6 +8,37 @@ use crate::ir::{prepare_trace, read_spectrum, ReadOptions, SpectrumData};
 /// Points kept at most (pairs of bin minimum and maximum).
 pub const MAX_POINTS: usize = 1600;
 
+/// One trace of the library overlay: a spectrum's profile on the library grid (absorbance
+/// scaled to 1), over its covered range.
+#[derive(Clone, Debug, PartialEq)]
+pub struct OverlayTrace {
+    /// `unknown` or `#rank name`.
+    pub label: String,
+    /// Wavenumbers, ascending.
+    pub x: Vec<f64>,
+    /// Scaled absorbance.
+    pub y: Vec<f64>,
+}
+
+impl OverlayTrace {
+    /// The covered part of a grid spectrum's profile.
+    pub fn of_grid(label: String, grid: &crate::library::GridSpectrum) -> OverlayTrace {
+        let ks = grid.first..=grid.last;
+        OverlayTrace {
+            label,
+            x: ks.clone().map(crate::library::grid::grid_x).collect(),
+            y: ks.map(|k| f64::from(grid.profile[k])).collect(),
+        }
+    }
+}
+
+/// The unknown and its best library hits, for the overlay plot.
+#[derive(Clone, Debug, PartialEq)]
+pub struct LibraryOverlay {
+    /// The unknown first, then the hits best first.
+    pub traces: Vec<OverlayTrace>,
+}
+
 /// An absorbance trace for plotting: ascending wavenumbers.
 #[derive(Clone, Debug, PartialEq)]
 pub struct PlotTrace {

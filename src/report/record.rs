@@ -177,6 +177,17 @@ impl std::fmt::Display for Difference {
                 path,
                 recorded,
                 now,
+            } if role == "library" => write!(
+                f,
+                "library {path} changed since recording: references added, removed or changed (library digest {} recorded, {} now)",
+                short(recorded),
+                short(now)
+            ),
+            Difference::InputChanged {
+                role,
+                path,
+                recorded,
+                now,
             } => write!(
                 f,
                 "{role} file {path} changed since recording (sha256 {} recorded, {} now)",

@@ -295,6 +295,10 @@ pub fn render(v: &ReportView) -> String {
             );
         }
     }
+    if let Some(l) = &v.library {
+        heading(&mut s, "reference library");
+        s.push_str(&super::library::text(l));
+    }
     if let Some(c) = &v.conclusion {
         heading(&mut s, "analyst's conclusion");
         line(&mut s, format!("  {:<14} {}", "accepted", c.accepted_text));

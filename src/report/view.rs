@@ -96,6 +96,12 @@ pub struct ReportView {
     /// The spectrum trace for plotting (HTML only; not part of the JSON).
     #[serde(skip)]
     pub plot: Option<PlotTrace>,
+    /// The reference-library search and its hits checked against the case.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub library: Option<crate::verdict::LibraryVerdict>,
+    /// The unknown and its best hits for the overlay plot (HTML only).
+    #[serde(skip)]
+    pub library_overlay: Option<super::plot::LibraryOverlay>,
 }
 
 impl ReportView {
@@ -520,6 +526,8 @@ pub fn build(
         cautions: REPORT_CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
         provenance,
         plot,
+        library: None,
+        library_overlay: None,
     }
 }
 
