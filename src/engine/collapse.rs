@@ -29,8 +29,8 @@ pub fn is_split_group(problem: &Problem<'_>, gi: usize) -> bool {
 /// What the evidence sees of a combination; equal signatures collapse.
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 pub struct Signature {
-    /// Counts of the groups that take no part in a split.
-    fixed: Vec<u32>,
+    /// (group, count) of the groups present that take no part in a split.
+    fixed: Vec<(u32, u32)>,
     /// Split groups present whose bands are seen.
     seen_split: Vec<usize>,
     /// Per active band, best explanation quality in thousandths (None: unexplained).
@@ -43,10 +43,11 @@ pub fn signature(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Sign
     let fixed = counts
         .iter()
         .enumerate()
-        .map(|(g, &n)| if is_split_group(problem, g) { 0 } else { n })
+        .filter(|(g, &n)| n > 0 && !problem.split_group[*g])
+        .map(|(g, &n)| (g as u32, n))
         .collect();
     let seen_split = (0..counts.len())
-        .filter(|&g| counts[g] > 0 && is_split_group(problem, g))
+        .filter(|&g| counts[g] > 0 && problem.split_group[g])
         .filter(|&g| !problem.groups[g].presence.matched.is_empty())
         .collect();
     let bands = (0..problem.bands.len())

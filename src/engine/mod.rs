@@ -143,6 +143,9 @@ fn solve_single(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
 }
 
 /// Solves a case as stated (its formula, if any, taken as given).
+/// A consistent combination with its score: (score, concrete group counts, skeleton carbons).
+type ScoredCombination = (f64, Vec<u32>, u32);
+
 fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
     let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
     let evidence_checks = formula_checks(case, &BTreeSet::new());
@@ -170,15 +173,22 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         });
     }
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
-    let mut scored: Vec<(f64, Vec<u32>, u32)> = found
+    let scored: Vec<ScoredCombination> = found
         .into_iter()
         .map(|(counts, sk)| (score::score(&problem, &counts, sk, &parts), counts, sk))
         .collect();
-    scored.sort_by(|a, b| {
+    // Best score first; ties to fewer group instances, then catalogue order (the counts
+    // compared as a whole). The instance sums are computed once, not per comparison.
+    let mut keyed: Vec<(u32, ScoredCombination)> = scored
+        .into_iter()
+        .map(|x| (x.1.iter().sum::<u32>(), x))
+        .collect();
+    keyed.sort_by(|(na, a), (nb, b)| {
         b.0.total_cmp(&a.0)
-            .then_with(|| a.1.iter().sum::<u32>().cmp(&b.1.iter().sum::<u32>()))
+            .then_with(|| na.cmp(nb))
             .then_with(|| b.1.cmp(&a.1))
     });
+    let scored: Vec<ScoredCombination> = keyed.into_iter().map(|(_, x)| x).collect();
     let n_combinations = scored.len();
     let classes = collapse::collapse(&problem, &scored, |(_, c, s)| (c.as_slice(), *s));
     let n_consistent = classes.len();
@@ -377,7 +387,7 @@ fn conflict_report(
             .iter()
             .map(|i| conflicts::describe_item(case, *i))
             .collect(),
-        evidence: items.iter().copied().collect(),
+        evidence: items.to_vec(),
         explanation,
         suggested_causes: conflicts::suggested_causes(case, &items),
     }]

@@ -45,6 +45,20 @@ impl GroupSet {
         self.0[i / 64] &= !(1 << (i % 64));
     }
 
+    /// True when the set holds group `i`.
+    pub fn contains(&self, i: usize) -> bool {
+        self.0[i / 64] & (1 << (i % 64)) != 0
+    }
+
+    /// How many groups the two sets share.
+    pub fn intersection_count(&self, other: &GroupSet) -> u32 {
+        self.0
+            .iter()
+            .zip(&other.0)
+            .map(|(a, b)| (a & b).count_ones())
+            .sum()
+    }
+
     /// True when the sets share a group.
     pub fn intersects(&self, other: &GroupSet) -> bool {
         self.0.iter().zip(&other.0).any(|(a, b)| a & b != 0)
@@ -135,6 +149,14 @@ pub struct Problem<'c> {
     pub band_needs: Vec<Option<GroupSet>>,
     /// Salt-form groups the organic part of a salt must hold (none for a neutral formula).
     pub ionic_sites: super::constraints::ionic::IonicSites,
+    /// True when an observed band lies in an sp3 C–H stretch range (see
+    /// `score::sp3_ch_stretch_seen`).
+    pub sp3_ch_stretch_seen: bool,
+    /// Per concrete group: it takes part in splits of hydrocarbon unsaturation (see
+    /// `collapse::is_split_group`).
+    pub split_group: Vec<bool>,
+    /// Per active band: the concrete groups whose band rules or patterns explain it.
+    pub explained_by_groups: Vec<GroupSet>,
 }
 
 impl<'c> Problem<'c> {
@@ -330,7 +352,7 @@ impl<'c> Problem<'c> {
                 })
             })
             .collect();
-        Problem {
+        let mut problem = Problem {
             catalogue,
             tolerance: options.tolerance_cm1,
             technique,
@@ -352,7 +374,26 @@ impl<'c> Problem<'c> {
             require_sets,
             band_needs,
             ionic_sites: options.ionic_sites,
-        }
+            sp3_ch_stretch_seen: false,
+            split_group: Vec::new(),
+            explained_by_groups: Vec::new(),
+        };
+        problem.explained_by_groups = problem
+            .explainers
+            .iter()
+            .map(|ex| {
+                let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
+                for (_, gs, _) in &ex.patterns {
+                    gs.iter().for_each(|&g| set.insert(g));
+                }
+                set
+            })
+            .collect();
+        problem.sp3_ch_stretch_seen = super::score::sp3_ch_stretch_seen(&problem);
+        problem.split_group = (0..problem.groups.len())
+            .map(|g| super::collapse::is_split_group(&problem, g))
+            .collect();
+        problem
     }
 
     /// Concrete groups allowed by the observed bands (no demanded band missing) and by

@@ -137,8 +137,9 @@ pub struct RankedStructure {
 /// One term of a score.
 #[derive(Clone, Debug, Serialize)]
 pub struct ScoreTerm {
-    /// What it is for.
-    pub what: String,
+    /// What it is for (borrowed for the fixed wordings, so scoring a candidate allocates
+    /// no text).
+    pub what: std::borrow::Cow<'static, str>,
     /// Its value.
     pub value: f64,
 }

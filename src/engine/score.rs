@@ -128,14 +128,14 @@ pub fn group_terms(
     let absent = g.presence.absent_exceptions.len() as f64;
     if absent > 0.0 {
         terms.push(ScoreTerm {
-            what: format!("{}: band allowed absent, not seen", g.group.id),
+            what: format!("{}: band allowed absent, not seen", g.group.id).into(),
             value: -P_ABSENT_EXCEPTION * absent,
         });
     }
     let missing = g.presence.missing_support.len() as f64;
     if missing > 0.0 {
         terms.push(ScoreTerm {
-            what: format!("{}: strong supporting band not seen", g.group.id),
+            what: format!("{}: strong supporting band not seen", g.group.id).into(),
             value: -P_MISSING_SUPPORT * missing,
         });
     }
@@ -143,7 +143,7 @@ pub fn group_terms(
         let clues = matched_clues(g.group, ms, molecular_nominal).len() as f64;
         if clues > 0.0 {
             terms.push(ScoreTerm {
-                what: format!("{}: MS clues matched", g.group.id),
+                what: format!("{}: MS clues matched", g.group.id).into(),
                 value: W_MS_CLUE * clues,
             });
         }
@@ -250,8 +250,8 @@ pub fn candidate_terms(
         });
     }
     if problem.has_ir
+        && !problem.sp3_ch_stretch_seen
         && must_hold_sp3_ch(problem, counts, skeleton_c)
-        && !sp3_ch_stretch_seen(problem)
     {
         terms.push(ScoreTerm {
             what: "H on saturated carbon required, no sp3 C-H stretch seen".into(),
@@ -268,7 +268,8 @@ pub fn candidate_terms(
                     .map(|&g| problem.groups[g].group.id.as_str())
                     .collect::<Vec<_>>()
                     .join(", ")
-            ),
+            )
+            .into(),
             value: round3(-P_NO_OWN_BAND * borrowed.len() as f64),
         });
     }
@@ -328,25 +329,24 @@ pub fn groups_without_own_band(problem: &Problem<'_>, counts: &[u32]) -> Vec<usi
     if present.len() < 2 {
         return Vec::new();
     }
-    let explainers_of_band = |bi: usize| -> Vec<usize> {
-        let ex = &problem.explainers[bi];
-        let mut gs: Vec<usize> = ex
-            .groups
-            .iter()
-            .map(|(g, _, _)| *g)
-            .chain(ex.patterns.iter().flat_map(|(_, gs, _)| gs.iter().copied()))
-            .filter(|g| counts[*g] > 0)
-            .collect();
-        gs.sort_unstable();
-        gs.dedup();
-        gs
-    };
-    let per_band: Vec<Vec<usize>> = (0..problem.bands.len()).map(explainers_of_band).collect();
+    let present_set = super::model::GroupSet::of(present.iter().copied());
+    // Per band: how many distinct groups of the candidate explain it (a band rule or a
+    // pattern).
+    let shared: Vec<u32> = problem
+        .explained_by_groups
+        .iter()
+        .map(|set| set.intersection_count(&present_set))
+        .collect();
     present
         .into_iter()
         .filter(|&g| {
-            let own: Vec<&Vec<usize>> = per_band.iter().filter(|gs| gs.contains(&g)).collect();
-            !own.is_empty() && own.iter().all(|gs| gs.len() > 1)
+            let mut own = problem
+                .explained_by_groups
+                .iter()
+                .zip(&shared)
+                .filter(|(set, _)| set.contains(g))
+                .peekable();
+            own.peek().is_some() && own.all(|(_, n)| *n > 1)
         })
         .collect()
 }
