@@ -3,12 +3,14 @@
 //! Exit status: 0 when at least one candidate formula is found, 1 when none is (a
 //! scientific "no"), 2 on bad input (the place is shown on stderr).
 
+use super::limits::LimitArgs;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::budget::Metered;
 use crate::diag::Diagnostic;
 use crate::ms::rank::{MAX_MDA, MAX_MZ, MAX_PPM};
 use crate::ms::{
-    candidate_formulas, halogen_bounds_from_m2, ElementRanges, FormulaCandidate, HalogenBounds,
-    IonType, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance,
+    candidate_formulas_within, halogen_bounds_from_m2, ElementRanges, FormulaCandidate,
+    HalogenBounds, IonType, MassQuery, MeasuredIsotopes, MeasuredMz, RankError, Tolerance,
 };
 use clap::Args;
 use std::io::Write;
@@ -72,6 +74,9 @@ pub struct FromMassArgs {
     /// Print one JSON document on stdout.
     #[arg(long)]
     json: bool,
+
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// The `--json` document.
@@ -101,8 +106,16 @@ struct QueryView {
 /// Runs `quiddity from-mass`.
 pub fn run(args: &FromMassArgs, out: &mut dyn Write) -> CommandResult {
     let query = build_query(args)?;
-    let all = candidate_formulas(&query)
-        .map_err(|e| Failure::from(Diagnostic::error("<arguments>", e.to_string())))?;
+    let mut meter = Metered::new(args.limits.budget()?);
+    let all = candidate_formulas_within(&query, &mut meter).map_err(|e| match e {
+        RankError::Query(e) => Failure::from(Diagnostic::error("<arguments>", e.to_string())),
+        RankError::Limit(stop) => {
+            Failure::from(Diagnostic::error("<arguments>", stop.message()).with_help(
+                "narrow the search: an accurate m/z with --ppm, --m1 / --m2, or tighter \
+                 --elements; or raise the limit",
+            ))
+        }
+    })?;
     let shown = if args.max == 0 {
         &all[..]
     } else {

@@ -11,6 +11,7 @@ pub mod casefile;
 mod formula;
 mod from_mass;
 mod isomers;
+pub mod limits;
 mod new_case;
 pub mod review;
 mod rules;

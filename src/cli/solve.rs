@@ -5,6 +5,7 @@
 use super::casefile::{
     self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
 };
+use super::limits::LimitArgs;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
@@ -50,6 +51,8 @@ pub struct SolveArgs {
     /// Let the case name files outside its own directory tree.
     #[arg(long)]
     allow_outside: bool,
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// Runs `quiddity solve`.
@@ -67,6 +70,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     if args.max == 0 {
         return Err(Diagnostic::error("--max", "--max must be at least 1").into());
     }
+    let budget = args.limits.budget()?;
     let loaded = load_case(
         &args.case,
         &LoadOptions {
@@ -90,7 +94,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
         enumeration_limit: args.limit.max(args.max),
         ..SolveOptions::default()
     };
-    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let outcome = casefile::solve_within(&loaded, &catalogue, &options, budget)?;
     let stamp = args.timestamp.then(casefile::utc_now);
     for (path, format) in args.report.iter().zip(formats) {
         refuse_input_overwrite(&loaded, path)?;

@@ -8,6 +8,7 @@
 //! settled silently by the mass search.
 
 use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
+use crate::budget::{Meter, Stage};
 use crate::case::{Case, StatedFormula};
 use crate::chem::Formula;
 use crate::ms::{self, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance};
@@ -21,6 +22,9 @@ pub const DEFAULT_FORMULA_LEADS: usize = 5;
 pub const MAX_FORMULA_LEADS: usize = 40;
 /// MS score distance from the best formula within which a formula is still solved.
 pub const LEAD_SCORE_WINDOW: f64 = 1.0;
+/// Estimated bytes of one explained candidate kept for the pooled list (its band
+/// assignments, accounting lines and score terms in words; a few kB in the JSON report).
+pub const CANDIDATE_BYTES: u64 = 8_192;
 
 /// The mass query a case's MS evidence asks, or `None` when it has no molecular ion.
 /// An m/z written as a whole number is taken as nominal (low-resolution GC-MS); any other
@@ -49,15 +53,26 @@ pub fn mass_query(case: &Case) -> Option<MassQuery> {
 /// best [`DEFAULT_FORMULA_LEADS`], and up to [`MAX_FORMULA_LEADS`] near the best score), and pools the candidates: best score first, ties broken
 /// by the formula's MS rank. Ruled-out groups, near misses, conflicts and discriminating
 /// checks are those of the best-placed formula lead, since they are per formula.
-pub fn solve_over_formula_leads(
+pub fn solve_over_formula_leads<M: Meter>(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     query: &MassQuery,
-) -> Outcome {
-    let found = match ms::candidate_formulas(query) {
-        Ok(found) => found,
-        Err(e) => return without_formula(case, catalogue, options, e.to_string()),
+    meter: &mut M,
+) -> Result<Outcome, M::Stop>
+where
+    M::Stop: std::fmt::Display,
+{
+    let found = match ms::candidate_formulas_within(query, meter) {
+        // Only the leading formulas are solved; the rest is dropped at once.
+        Ok(mut found) => {
+            found.truncate(MAX_FORMULA_LEADS);
+            found
+        }
+        Err(ms::RankError::Limit(stop)) => return Err(stop),
+        Err(ms::RankError::Query(e)) => {
+            return without_formula(case, catalogue, options, e.to_string(), meter)
+        }
     };
     let Some(place) = case
         .ms
@@ -65,10 +80,11 @@ pub fn solve_over_formula_leads(
         .and_then(|m| m.molecular_ion.as_ref())
         .map(|(_, place)| place.clone())
     else {
-        return solve_stated(case, catalogue, options);
+        return solve_stated(case, catalogue, options, meter);
     };
     let mut leads = Vec::new();
     let mut solved: Vec<(usize, Outcome)> = Vec::new();
+    let mut held = 0u64;
     let best_ms_score = found.first().map_or(0.0, |c| c.score.total);
     let chosen = found.iter().enumerate().take_while(|(i, c)| {
         *i < DEFAULT_FORMULA_LEADS
@@ -85,7 +101,12 @@ pub fn solve_over_formula_leads(
             composition: candidate.composition.clone(),
             place: place.clone(),
         });
-        let outcome = solve_stated(&with_formula, catalogue, options);
+        let outcome = solve_stated(&with_formula, catalogue, options, meter)?;
+        held += CANDIDATE_BYTES * outcome.candidates.len() as u64;
+        meter.hold(
+            CANDIDATE_BYTES * outcome.candidates.len() as u64,
+            Stage::Pooling,
+        )?;
         leads.push(FormulaLead {
             rank: candidate.rank,
             formula: candidate.formula.clone(),
@@ -102,9 +123,11 @@ pub fn solve_over_formula_leads(
             "no formula within the element ranges fits m/z {mz} as {}",
             query.ion.canonical()
         );
-        return without_formula(case, catalogue, options, detail);
+        return without_formula(case, catalogue, options, detail, meter);
     }
-    pool(solved, leads, options)
+    let pooled = pool(solved, leads, options);
+    meter.release(held);
+    Ok(pooled)
 }
 
 /// Pools per-formula outcomes into one.
@@ -158,19 +181,20 @@ fn pool(
 
 /// The outcome when the MS search gave no formula: nothing can be enumerated; the
 /// molecular-ion check says why.
-fn without_formula(
+fn without_formula<M: Meter>(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     detail: String,
-) -> Outcome {
-    let mut outcome = solve_stated(case, catalogue, options);
+    meter: &mut M,
+) -> Result<Outcome, M::Stop> {
+    let mut outcome = solve_stated(case, catalogue, options, meter)?;
     outcome.evidence_checks.push(super::EvidenceCheck {
         item: "molecular_ion".into(),
         agrees: false,
         detail,
     });
-    outcome
+    Ok(outcome)
 }
 
 #[cfg(test)]

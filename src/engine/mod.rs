@@ -25,6 +25,7 @@ pub mod testkit;
 pub use model::EvidenceItem;
 pub use outcome::*;
 
+use crate::budget::{self, Meter, Stage, Unmetered};
 use crate::case::Case;
 use crate::rules::Catalogue;
 use constraints::ms;
@@ -116,16 +117,46 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
 /// Solves a validated case against a catalogue. A case that states no formula but gives a
 /// molecular ion is solved over the formulas the ion allows (see [`from_ms`]).
 pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    budget::infallible(solve_within(case, catalogue, options, &mut Unmetered))
+}
+
+/// Like [`solve`], metered by `meter` (see [`crate::budget`]): a spent budget stops the
+/// case with the meter's stop instead of letting it grow without bound.
+pub fn solve_within<M: Meter>(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    meter: &mut M,
+) -> Result<Outcome, M::Stop>
+where
+    M::Stop: std::fmt::Display,
+{
     if case.formula.is_none() {
         if let Some(query) = from_ms::mass_query(case) {
-            return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
+            return from_ms::solve_over_formula_leads(case, catalogue, options, &query, meter);
         }
     }
-    solve_stated(case, catalogue, options)
+    solve_stated(case, catalogue, options, meter)
+}
+
+/// Estimated bytes one consistent combination holds while a formula is solved: its
+/// counts (in the list found, then scored), and its evidence signature in the collapse
+/// (kept twice: in the class list and its index).
+fn combination_bytes(problem: &Problem<'_>) -> u64 {
+    let counts = std::mem::size_of::<(f64, Vec<u32>, u32)>() + 4 * problem.groups.len();
+    let signature = 3 * std::mem::size_of::<Vec<u32>>()
+        + 4 * problem.groups.len()
+        + std::mem::size_of::<Option<i64>>() * problem.bands.len();
+    (counts + 2 * signature + std::mem::size_of::<(usize, Vec<usize>)>()) as u64
 }
 
 /// Solves a case as stated (its formula, if any, taken as given).
-fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+fn solve_stated<M: Meter>(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    meter: &mut M,
+) -> Result<Outcome, M::Stop> {
     let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
     let evidence_checks = formula_checks(case, &BTreeSet::new());
     let formula_ok = problem.formula_dbe.is_some() && evidence_checks.iter().all(|c| c.agrees);
@@ -138,19 +169,34 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
     // Enumerate the consistent combinations.
     let mut found: Vec<(Vec<u32>, u32)> = Vec::new();
     let mut enumeration_truncated = false;
+    let per_combination = combination_bytes(&problem);
+    let mut stop = None;
     if formula_ok {
         let allowed = problem.allowed_groups();
         enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
-            if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
+            let metered = if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
                 if found.len() >= options.enumeration_limit {
                     enumeration_truncated = true;
                     return Flow::Stop;
                 }
                 found.push((counts.to_vec(), skeleton_c));
+                meter.hold(per_combination, Stage::Enumeration)
+            } else {
+                meter.tick(Stage::Enumeration)
+            };
+            match metered {
+                Ok(()) => Flow::Continue,
+                Err(e) => {
+                    stop = Some(e);
+                    Flow::Stop
+                }
             }
-            Flow::Continue
         });
     }
+    if let Some(e) = stop {
+        return Err(e);
+    }
+    let held = per_combination * found.len() as u64;
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
     let mut scored: Vec<(f64, Vec<u32>, u32)> = found
         .into_iter()
@@ -244,7 +290,8 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
     };
     let discriminating_checks = discriminate::checks(&problem, &ranked, 12);
 
-    Outcome {
+    meter.release(held);
+    Ok(Outcome {
         case: case.id.clone(),
         formula: case.formula.as_ref().map(|f| f.composition.to_string()),
         dbe: case.formula.as_ref().and_then(|f| f.composition.dbe()),
@@ -263,7 +310,7 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         cautions: CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
         rules_digest: catalogue.digest.clone(),
         formula_leads: Vec::new(),
-    }
+    })
 }
 
 fn conflict_report(

@@ -28,5 +28,6 @@ pub use isotope_fit::{
 };
 pub use ranges::{ElementRange, ElementRanges, RangeError, RangeErrorKind, DEFAULT_RANGES};
 pub use rank::{
-    candidate_formulas, FormulaCandidate, MassQuery, MeasuredMz, QueryError, ScoreParts, Tolerance,
+    candidate_formulas, candidate_formulas_within, FormulaCandidate, MassQuery, MeasuredMz,
+    QueryError, RankError, ScoreParts, Tolerance,
 };
