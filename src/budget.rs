@@ -62,8 +62,10 @@ impl Budget {
 pub enum Stage {
     /// Searching formulas for a molecular ion.
     FormulaSearch,
-    /// Solving a formula lead (enumerating group combinations).
+    /// Enumerating the group combinations of a stated formula.
     Enumeration,
+    /// Enumerating the group combinations of a formula lead (no formula stated).
+    LeadEnumeration,
     /// Pooling the candidates of several formula leads.
     Pooling,
 }
@@ -74,6 +76,9 @@ impl Stage {
         match self {
             Stage::FormulaSearch => "searching formulas for the molecular ion",
             Stage::Enumeration => "enumerating group combinations",
+            Stage::LeadEnumeration => {
+                "enumerating group combinations of the formulas the molecular ion allows"
+            }
             Stage::Pooling => "pooling the candidates of the formula leads",
         }
     }
@@ -128,7 +133,7 @@ impl LimitReached {
             Limit::Memory { .. } => "--memory-limit",
         };
         match self.stage {
-            Stage::FormulaSearch | Stage::Pooling => format!(
+            Stage::FormulaSearch | Stage::LeadEnumeration | Stage::Pooling => format!(
                 "narrow the formulas: state `formula:`, or give an accurate `ms.molecular_ion` \
                  with `ms.ppm`, or measured `ms.isotopes` (M+1, M+2); or raise {raise}"
             ),

@@ -100,7 +100,7 @@ fn a_tiny_memory_budget_stops_the_enumeration_with_its_limit_named() {
 }
 
 #[test]
-fn a_tiny_time_budget_stops_a_mass_only_case_in_the_formula_search() {
+fn a_tiny_time_budget_stops_a_mass_only_case_and_asks_for_a_formula() {
     let stop = metered(
         &case(MASS_ONLY),
         Budget {

@@ -63,12 +63,10 @@ pub fn solve_over_formula_leads<M: Meter>(
 where
     M::Stop: std::fmt::Display,
 {
-    let found = match ms::candidate_formulas_within(query, meter) {
-        // Only the leading formulas are solved; the rest is dropped at once.
-        Ok(mut found) => {
-            found.truncate(MAX_FORMULA_LEADS);
-            found
-        }
+    // Only the leading formulas can be solved, so only they are looked for (best first:
+    // the cost follows them, not every formula the mass allows).
+    let found = match ms::best_formulas_within(query, MAX_FORMULA_LEADS, meter) {
+        Ok(found) => found.best,
         Err(ms::RankError::Limit(stop)) => return Err(stop),
         Err(ms::RankError::Query(e)) => {
             return without_formula(case, catalogue, options, e.to_string(), meter)
@@ -80,7 +78,7 @@ where
         .and_then(|m| m.molecular_ion.as_ref())
         .map(|(_, place)| place.clone())
     else {
-        return solve_stated(case, catalogue, options, meter);
+        return solve_stated(case, catalogue, options, meter, Stage::LeadEnumeration);
     };
     let mut leads = Vec::new();
     let mut solved: Vec<(usize, Outcome)> = Vec::new();
@@ -90,6 +88,16 @@ where
         *i < DEFAULT_FORMULA_LEADS
             || (*i < MAX_FORMULA_LEADS && c.score.total >= best_ms_score - LEAD_SCORE_WINDOW)
     });
+    let chosen: Vec<_> = chosen.collect();
+    // The enumeration limit holds for the pool as a whole: each lead may collect its
+    // share (at least the candidates shown), so forty leads near m/z 800 cost what one
+    // formula costs instead of forty times it. A lead that reaches its share says so
+    // (`enumeration_truncated`), like a stated formula reaching the limit.
+    let lead_options = SolveOptions {
+        enumeration_limit: (options.enumeration_limit / chosen.len().max(1))
+            .max(options.max_candidates),
+        ..options.clone()
+    };
     for (_, candidate) in chosen {
         let Some(formula) = Formula::from_composition(&candidate.composition) else {
             continue;
@@ -101,7 +109,13 @@ where
             composition: candidate.composition.clone(),
             place: place.clone(),
         });
-        let outcome = solve_stated(&with_formula, catalogue, options, meter)?;
+        let outcome = solve_stated(
+            &with_formula,
+            catalogue,
+            &lead_options,
+            meter,
+            Stage::LeadEnumeration,
+        )?;
         held += CANDIDATE_BYTES * outcome.candidates.len() as u64;
         meter.hold(
             CANDIDATE_BYTES * outcome.candidates.len() as u64,
@@ -188,7 +202,7 @@ fn without_formula<M: Meter>(
     detail: String,
     meter: &mut M,
 ) -> Result<Outcome, M::Stop> {
-    let mut outcome = solve_stated(case, catalogue, options, meter)?;
+    let mut outcome = solve_stated(case, catalogue, options, meter, Stage::LeadEnumeration)?;
     outcome.evidence_checks.push(super::EvidenceCheck {
         item: "molecular_ion".into(),
         agrees: false,

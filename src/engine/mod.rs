@@ -136,7 +136,7 @@ where
             return from_ms::solve_over_formula_leads(case, catalogue, options, &query, meter);
         }
     }
-    solve_stated(case, catalogue, options, meter)
+    solve_stated(case, catalogue, options, meter, Stage::Enumeration)
 }
 
 /// Estimated bytes one consistent combination holds while a formula is solved: its
@@ -156,6 +156,7 @@ fn solve_stated<M: Meter>(
     catalogue: &Catalogue,
     options: &SolveOptions,
     meter: &mut M,
+    stage: Stage,
 ) -> Result<Outcome, M::Stop> {
     let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
     let evidence_checks = formula_checks(case, &BTreeSet::new());
@@ -180,9 +181,9 @@ fn solve_stated<M: Meter>(
                     return Flow::Stop;
                 }
                 found.push((counts.to_vec(), skeleton_c));
-                meter.hold(per_combination, Stage::Enumeration)
+                meter.hold(per_combination, stage)
             } else {
-                meter.tick(Stage::Enumeration)
+                meter.tick(stage)
             };
             match metered {
                 Ok(()) => Flow::Continue,
