@@ -201,6 +201,10 @@ pub fn render_text(o: &Outcome) -> String {
         ));
         if !o.formula_leads.is_empty() {
             s.push_str("formulas from the molecular ion (no formula stated), each solved:\n");
+            s.push_str(
+                "  (candidates of different formulas are compared by their candidate score alone; \
+                 the MS score only chose which formulas were solved and breaks ties)\n",
+            );
             for l in &o.formula_leads {
                 let ppm = l
                     .error_ppm

@@ -6,6 +6,16 @@
 //! plausible from the MS alone (C8H8O and C7H4O2 both at m/z 120), and it is the IR
 //! evidence that tells them apart; an analyst wants to see that competition, not have it
 //! settled silently by the mass search.
+//!
+//! How leads are compared: candidates of different formulas are ranked by their own
+//! candidate score (bands, fragments) only; the MS score of the formula decided which
+//! formulas were solved and breaks ties. The leads are the first of the MS ranking,
+//! found best first ([`ms::best_formulas_within`], exact), so a nominal mass near m/z 800
+//! costs forty formulas, not the millions the mass allows. The enumeration limit holds
+//! for the pool: each lead collects its share. A lead whose formula no group combination
+//! of the catalogue can fit with the demanded bands is cut at the root of the pruned walk
+//! (a demanded band with no composable explainer), before any combination is built.
+//! The work is metered ([`crate::budget`]).
 
 use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
 use crate::budget::{Meter, Stage};
