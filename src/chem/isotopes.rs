@@ -388,7 +388,7 @@ fn sorted_by_mass(mut peaks: Vec<Peak>) -> Vec<Peak> {
         for p in &from {
             counts[((p.mz.to_bits() >> shift) & 0xff) as usize] += 1;
         }
-        if counts.iter().any(|&c| c == from.len()) {
+        if counts.contains(&from.len()) {
             continue;
         }
         let mut start = [0usize; 256];
