@@ -36,6 +36,7 @@ fn batch(c: &mut Criterion) {
             formats: vec![Format::Json],
             load: LoadOptions::default(),
             progress: false,
+            budget: quiddity::budget::Budget::default(),
         };
         group.bench_function(format!("{N_CASES}_cases_{threads}_threads"), |b| {
             b.iter(|| {

@@ -15,7 +15,9 @@
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use quiddity::ms::formula_search::{reference_search_mass, search_mass};
-use quiddity::ms::{candidate_formulas, ElementRanges, IonType, MassQuery, MeasuredMz};
+use quiddity::ms::{
+    best_formulas, candidate_formulas, ElementRanges, IonType, MassQuery, MeasuredMz,
+};
 use std::time::{Duration, Instant};
 
 const REDUCED: &str = "C0-60H0-120N0-10O0-20";
@@ -76,6 +78,10 @@ fn benches(c: &mut Criterion) {
         });
         g.bench_function(format!("candidate_formulas_mz{mz}"), |b| {
             b.iter(|| candidate_formulas(&query(black_box(mz))).map(|l| l.len()))
+        });
+        // What `from-mass --max 20` runs: the best 20, best first.
+        g.bench_function(format!("best_formulas_top20_mz{mz}"), |b| {
+            b.iter(|| best_formulas(&query(black_box(mz)), 20).map(|l| l.best.len()))
         });
     }
     g.finish();

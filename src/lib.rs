@@ -6,6 +6,7 @@
 //! combines evidence with rules, `case` and `report` sit on top, and `cli` is the only
 //! module that touches files and the terminal.
 
+pub mod budget;
 pub mod case;
 pub mod chem;
 pub mod cli;

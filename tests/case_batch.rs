@@ -22,6 +22,7 @@ fn options(dir: &Path, out: &Path, force: bool, threads: usize) -> BatchOptions 
         formats: vec![Format::Json],
         load: LoadOptions::default(),
         progress: false,
+        budget: quiddity::budget::Budget::default(),
     }
 }
 

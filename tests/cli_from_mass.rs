@@ -110,3 +110,51 @@ fn nominal_mz_uses_the_radical_cation() {
         .any(|c| c["formula"] == "C8H8O");
     assert!(listed);
 }
+
+#[test]
+fn the_best_first_list_equals_the_head_of_the_full_list() {
+    // An invented accurate m/z; the best 5 found best first must be the first 5 of the
+    // list that scores every formula (--max 0), and the count says whether it is complete.
+    let doc = |max: &str| -> serde_json::Value {
+        let out = run(&["300.1234", "--ppm", "5", "--max", max, "--json"]);
+        assert_eq!(
+            out.status.code(),
+            Some(0),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        serde_json::from_slice(&out.stdout).expect("one JSON document")
+    };
+    let best = doc("5");
+    let all = doc("0");
+    let names = |d: &serde_json::Value| -> Vec<String> {
+        d["candidates"]
+            .as_array()
+            .expect("candidates")
+            .iter()
+            .map(|c| c["formula"].as_str().unwrap_or_default().to_owned())
+            .collect()
+    };
+    assert_eq!(names(&best), names(&all)[..5].to_vec());
+    assert_eq!(all["n_candidates_complete"], true);
+    let n_all = all["n_candidates"].as_u64().expect("count");
+    let n_best = best["n_candidates"].as_u64().expect("count");
+    assert!(n_best <= n_all);
+    if best["n_candidates_complete"] == true {
+        assert_eq!(n_best, n_all);
+    }
+    let text = run(&["300.1234", "--max", "5"]);
+    let text = String::from_utf8_lossy(&text.stdout);
+    if best["n_candidates_complete"] == false {
+        assert!(text.contains("at least"), "{text}");
+    }
+}
+
+#[test]
+fn a_memory_limit_stops_an_exhaustive_listing_with_exit_2() {
+    let out = run(&["700", "--max", "0", "--memory-limit", "1"]);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{stderr}");
+    assert!(stderr.contains("memory limit of 1 MB"), "{stderr}");
+    assert!(out.stdout.is_empty());
+}

@@ -2,6 +2,8 @@
 //! - any combination within the ranges is found by the fast search from its own mass;
 //! - the fast search returns exactly the nested-loop reference's set, in accurate and
 //!   nominal mode, on random small ranges and targets;
+//! - the best-first ranking (`ms::best_formulas`) returns exactly the first k of the
+//!   full ranking, with and without a measured M+2;
 //! - the Cl / Br / S bounds from M+2 never exclude the counts of the formula whose
 //!   computed M+1 / M+2 (perturbed within the stated error) they are given.
 
@@ -12,7 +14,10 @@ use quiddity::ms::formula_search::{
     search_nominal,
 };
 use quiddity::ms::isotope_fit::isotope_ratios_of_counts;
-use quiddity::ms::{halogen_bounds_from_m2, ElementRange, ElementRanges, MeasuredIsotopes};
+use quiddity::ms::{
+    best_formulas, candidate_formulas, halogen_bounds_from_m2, ElementRange, ElementRanges,
+    IonType, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance,
+};
 
 const SYMBOLS: [&str; 11] = ["C", "H", "N", "O", "S", "P", "F", "Cl", "Br", "I", "Si"];
 
@@ -112,6 +117,31 @@ proptest! {
             slow.push(c.to_vec())
         });
         prop_assert_eq!(sorted(fast), sorted(slow));
+    }
+
+    #[test]
+    fn best_first_ranking_is_the_prefix_of_the_full_ranking(
+        ranges in small_ranges(),
+        nominal in 30u32..300,
+        accurate in proptest::bool::ANY,
+        k in 1usize..12,
+        m2 in proptest::option::of(0.0f64..120.0),
+    ) {
+        let mz = if accurate {
+            MeasuredMz::Accurate(f64::from(nominal) + 0.02)
+        } else {
+            MeasuredMz::Nominal(nominal)
+        };
+        let mut q = MassQuery::new(mz, IonType::RadicalCation);
+        q.ranges = ranges;
+        q.tolerance = Tolerance::Mda(30.0);
+        q.isotopes = m2.map(|m2| MeasuredIsotopes { m1: None, m2: Some(m2), error: None });
+        let all = candidate_formulas(&q).expect("valid query");
+        let best = best_formulas(&q, k).expect("valid query");
+        prop_assert_eq!(&best.best[..], &all[..all.len().min(k)]);
+        if best.complete {
+            prop_assert_eq!(best.n_scored, all.len());
+        }
     }
 
     #[test]

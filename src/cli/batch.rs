@@ -7,8 +7,10 @@
 //! candidate: that is in the table), 2 when any case failed or the arguments are bad.
 
 use super::casefile::{self, load_case, write_atomic, LoadOptions};
+use super::limits::LimitArgs;
 use super::solve::load_catalogue;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::budget::Budget;
 use crate::diag::Diagnostic;
 use crate::engine::SolveOptions;
 use crate::report::view::candidate_text;
@@ -46,6 +48,8 @@ pub struct BatchArgs {
     /// Let cases name files outside their own directory tree.
     #[arg(long)]
     allow_outside: bool,
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// What a batch run needs (the library face of `quiddity batch`).
@@ -65,6 +69,9 @@ pub struct BatchOptions {
     pub load: LoadOptions,
     /// Show a progress bar (only ever on a terminal).
     pub progress: bool,
+    /// Time and memory budget of each case; a case that spends it is reported in its row
+    /// (which limit, what to add) and the batch goes on.
+    pub budget: Budget,
 }
 
 /// One row of the summary.
@@ -125,6 +132,19 @@ fn first_line(failure: &Failure) -> String {
     }
 }
 
+/// The first error with its help (a budget failure says what to add to the case).
+fn with_help(failure: &Failure) -> String {
+    let help = failure
+        .diagnostics
+        .iter()
+        .find(|d| d.is_error())
+        .and_then(|d| d.help.clone());
+    match help {
+        Some(h) => format!("{}; {h}", first_line(failure)),
+        None => first_line(failure),
+    }
+}
+
 /// Solves one case and writes its reports.
 pub fn process_one(
     path: &Path,
@@ -152,7 +172,14 @@ pub fn process_one(
         row.error = Some(first_line(&f));
         return row;
     }
-    let outcome = casefile::solve(&loaded, catalogue, solve);
+    let outcome = match casefile::solve_within(&loaded, catalogue, solve, options.budget) {
+        Ok(o) => o,
+        Err(f) => {
+            row.case = loaded.case.id.clone();
+            row.error = Some(with_help(&f));
+            return row;
+        }
+    };
     row.case = outcome.case.clone();
     row.top = outcome.candidates.first().map(candidate_text);
     row.n_candidates = outcome.n_consistent;
@@ -302,6 +329,7 @@ pub fn run(args: &BatchArgs, out: &mut dyn Write) -> CommandResult {
             allow_outside: args.allow_outside,
         },
         progress: true,
+        budget: args.limits.budget()?,
     };
     let rows = process(&options, &catalogue, &SolveOptions::default())?;
     if args.json {

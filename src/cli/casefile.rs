@@ -3,6 +3,7 @@
 //! so that tests and benchmarks run exactly what the commands run).
 
 use super::Failure;
+use crate::budget::{Budget, LimitReached, Metered};
 use crate::case::digest::sha256_hex;
 use crate::case::paths::{check_written_path, is_inside};
 use crate::case::{self, Case, ReferencedFile};
@@ -240,11 +241,34 @@ pub fn check_against_catalogue(loaded: &LoadedCase, catalogue: &Catalogue) -> Re
     Ok(())
 }
 
-/// Solves a loaded case.
+/// Solves a loaded case without a budget (library callers; the commands use
+/// [`solve_within`]).
 pub fn solve(loaded: &LoadedCase, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
     let mut outcome = engine::solve(&loaded.case, catalogue, options);
     engine::structures::attach(&mut outcome, &loaded.case, catalogue, options.tolerance_cm1);
     outcome
+}
+
+/// Solves a loaded case within `budget`; a spent budget is a failure (exit 2) that
+/// names the limit, where it was reached and what to add to the case.
+pub fn solve_within(
+    loaded: &LoadedCase,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    budget: Budget,
+) -> Result<Outcome, Failure> {
+    let mut meter = Metered::new(budget);
+    let mut outcome = engine::solve_within(&loaded.case, catalogue, options, &mut meter)
+        .map_err(|stop| limit_failure(&loaded.path, &stop))?;
+    engine::structures::attach(&mut outcome, &loaded.case, catalogue, options.tolerance_cm1);
+    Ok(outcome)
+}
+
+/// The failure of a case stopped by its budget.
+pub fn limit_failure(case: &Path, stop: &LimitReached) -> Failure {
+    Diagnostic::error(case.display().to_string(), stop.message())
+        .with_help(stop.advice())
+        .into()
 }
 
 /// The provenance of a report on `loaded`.

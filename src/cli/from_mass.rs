@@ -3,12 +3,15 @@
 //! Exit status: 0 when at least one candidate formula is found, 1 when none is (a
 //! scientific "no"), 2 on bad input (the place is shown on stderr).
 
+use super::limits::LimitArgs;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::budget::{LimitReached, Metered};
 use crate::diag::Diagnostic;
 use crate::ms::rank::{MAX_MDA, MAX_MZ, MAX_PPM};
 use crate::ms::{
-    candidate_formulas, halogen_bounds_from_m2, ElementRanges, FormulaCandidate, HalogenBounds,
-    IonType, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance,
+    best_formulas_within, candidate_formulas_within, halogen_bounds_from_m2, ElementRanges,
+    FormulaCandidate, HalogenBounds, IonType, MassQuery, MeasuredIsotopes, MeasuredMz, RankError,
+    Tolerance,
 };
 use clap::Args;
 use std::io::Write;
@@ -72,14 +75,21 @@ pub struct FromMassArgs {
     /// Print one JSON document on stdout.
     #[arg(long)]
     json: bool,
+
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// The `--json` document.
 #[derive(Debug, serde::Serialize)]
 struct FromMassReport<'a> {
     query: QueryView,
-    /// Candidates found before `--max` was applied.
+    /// Candidates scored: all of them when `n_candidates_complete`, otherwise those scored
+    /// before the best-first search knew no other formula could enter the list shown (a
+    /// lower bound).
     n_candidates: usize,
+    /// Whether `n_candidates` counts every candidate.
+    n_candidates_complete: bool,
     candidates: &'a [FormulaCandidate],
     /// Cl / Br / S counts the M+2 peak allows, when --m2 was given.
     halogen_bounds: Option<HalogenBounds>,
@@ -101,13 +111,26 @@ struct QueryView {
 /// Runs `quiddity from-mass`.
 pub fn run(args: &FromMassArgs, out: &mut dyn Write) -> CommandResult {
     let query = build_query(args)?;
-    let all = candidate_formulas(&query)
-        .map_err(|e| Failure::from(Diagnostic::error("<arguments>", e.to_string())))?;
-    let shown = if args.max == 0 {
-        &all[..]
-    } else {
-        &all[..all.len().min(args.max)]
+    let mut meter = Metered::new(args.limits.budget()?);
+    let failure = |e: RankError<LimitReached>| match e {
+        RankError::Query(e) => Failure::from(Diagnostic::error("<arguments>", e.to_string())),
+        RankError::Limit(stop) => {
+            Failure::from(Diagnostic::error("<arguments>", stop.message()).with_help(
+                "narrow the search: an accurate m/z with --ppm, --m1 / --m2, or tighter \
+                 --elements; or raise the limit",
+            ))
+        }
     };
+    // With --max N only the best N are looked for (best first, exact); --max 0 scores all.
+    let (all, n_candidates, complete) = if args.max == 0 {
+        let all = candidate_formulas_within(&query, &mut meter).map_err(failure)?;
+        let n = all.len();
+        (all, n, true)
+    } else {
+        let best = best_formulas_within(&query, args.max, &mut meter).map_err(failure)?;
+        (best.best, best.n_scored, best.complete)
+    };
+    let shown = &all[..];
     let neutral_mass = match query.mz {
         MeasuredMz::Accurate(mz) => Some(query.ion.neutral_mass_of_mz(mz)),
         MeasuredMz::Nominal(n) => query.ion.neutral_nominal_mass(n).map(f64::from),
@@ -136,7 +159,8 @@ pub fn run(args: &FromMassArgs, out: &mut dyn Write) -> CommandResult {
             isotopes: query.isotopes,
             strict_ratios: query.strict_ratios,
         },
-        n_candidates: all.len(),
+        n_candidates,
+        n_candidates_complete: complete,
         candidates: shown,
         halogen_bounds,
         caution: CAUTION,
@@ -297,7 +321,12 @@ fn write_text(out: &mut dyn Write, r: &FromMassReport<'_>) -> std::io::Result<()
     }
     writeln!(
         out,
-        "{} candidate formula(s){}",
+        "{}{} candidate formula(s){}",
+        if r.n_candidates_complete {
+            ""
+        } else {
+            "at least "
+        },
         r.n_candidates,
         if r.candidates.len() < r.n_candidates {
             format!(", best {} shown", r.candidates.len())

@@ -12,6 +12,7 @@ mod formula;
 mod from_mass;
 mod isomers;
 pub mod library;
+pub mod limits;
 mod new_case;
 pub mod review;
 mod rules;

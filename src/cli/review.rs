@@ -6,6 +6,7 @@
 use super::casefile::{self, load_case, LoadOptions};
 use super::solve::load_catalogue;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::budget::Budget;
 use crate::diag::Diagnostic;
 use crate::engine::SolveOptions;
 use crate::report::record::{compare, Difference, Record, ReviewFindings};
@@ -98,7 +99,7 @@ pub fn review_case(
             .map_or(defaults.max_candidates, |r| r.max_candidates),
         ..defaults
     };
-    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let outcome = casefile::solve_within(&loaded, &catalogue, &options, Budget::default())?;
     let now = Record::new(&outcome, loaded.inputs.clone(), &options);
     let findings = compare(recorded.as_ref(), &now, &outcome, accepted);
     Ok(ReviewReport {

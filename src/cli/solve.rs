@@ -5,6 +5,7 @@
 use super::casefile::{
     self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
 };
+use super::limits::LimitArgs;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::RuleOutKind;
@@ -51,6 +52,8 @@ pub struct SolveArgs {
     /// Let the case name files outside its own directory tree.
     #[arg(long)]
     allow_outside: bool,
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// Runs `quiddity solve`.
@@ -68,6 +71,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
     if args.max == 0 {
         return Err(Diagnostic::error("--max", "--max must be at least 1").into());
     }
+    let budget = args.limits.budget()?;
     let loaded = load_case(
         &args.case,
         &LoadOptions {
@@ -96,7 +100,7 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
         enumeration_limit: args.limit.max(args.max),
         ..SolveOptions::default()
     };
-    let outcome = casefile::solve(&loaded, &catalogue, &options);
+    let outcome = casefile::solve_within(&loaded, &catalogue, &options, budget)?;
     let stamp = args.timestamp.then(casefile::utc_now);
     for (path, format) in args.report.iter().zip(formats) {
         refuse_input_overwrite(&loaded, path)?;
@@ -219,6 +223,10 @@ pub fn render_text(o: &Outcome) -> String {
         ));
         if !o.formula_leads.is_empty() {
             s.push_str("formulas from the molecular ion (no formula stated), each solved:\n");
+            s.push_str(
+                "  (candidates of different formulas are compared by their candidate score alone; \
+                 the MS score only chose which formulas were solved and breaks ties)\n",
+            );
             for l in &o.formula_leads {
                 let ppm = l
                     .error_ppm

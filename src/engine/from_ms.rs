@@ -6,9 +6,20 @@
 //! plausible from the MS alone (C8H8O and C7H4O2 both at m/z 120), and it is the IR
 //! evidence that tells them apart; an analyst wants to see that competition, not have it
 //! settled silently by the mass search.
+//!
+//! How leads are compared: candidates of different formulas are ranked by their own
+//! candidate score (bands, fragments) only; the MS score of the formula decided which
+//! formulas were solved and breaks ties. The leads are the first of the MS ranking,
+//! found best first ([`ms::best_formulas_within`], exact), so a nominal mass near m/z 800
+//! costs forty formulas, not the millions the mass allows. The enumeration limit holds
+//! for the pool: each lead collects its share. A lead whose formula no group combination
+//! of the catalogue can fit with the demanded bands is cut at the root of the pruned walk
+//! (a demanded band with no composable explainer), before any combination is built.
+//! The work is metered ([`crate::budget`]).
 
 use super::outcome::EvidenceKind;
-use super::{solve_stated, FormulaLead, Outcome, SolveOptions};
+use super::{solve_stated_within, FormulaLead, Outcome, SolveOptions};
+use crate::budget::{Meter, Stage};
 use crate::case::{Case, StatedFormula};
 use crate::chem::Formula;
 use crate::ms::{self, MassQuery, MeasuredIsotopes, MeasuredMz, Tolerance};
@@ -22,6 +33,9 @@ pub const DEFAULT_FORMULA_LEADS: usize = 5;
 pub const MAX_FORMULA_LEADS: usize = 40;
 /// MS score distance from the best formula within which a formula is still solved.
 pub const LEAD_SCORE_WINDOW: f64 = 1.0;
+/// Estimated bytes of one explained candidate kept for the pooled list (its band
+/// assignments, accounting lines and score terms in words; a few kB in the JSON report).
+pub const CANDIDATE_BYTES: u64 = 8_192;
 
 /// The mass query a case's MS evidence asks, or `None` when it has no molecular ion.
 /// An m/z written as a whole number is taken as nominal (low-resolution GC-MS); any other
@@ -50,15 +64,24 @@ pub fn mass_query(case: &Case) -> Option<MassQuery> {
 /// best [`DEFAULT_FORMULA_LEADS`], and up to [`MAX_FORMULA_LEADS`] near the best score), and pools the candidates: best score first, ties broken
 /// by the formula's MS rank. Ruled-out groups, near misses, conflicts and discriminating
 /// checks are those of the best-placed formula lead, since they are per formula.
-pub fn solve_over_formula_leads(
+pub fn solve_over_formula_leads<M: Meter>(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     query: &MassQuery,
-) -> Outcome {
-    let found = match ms::candidate_formulas(query) {
-        Ok(found) => found,
-        Err(e) => return without_formula(case, catalogue, options, e.to_string()),
+    meter: &mut M,
+) -> Result<Outcome, M::Stop>
+where
+    M::Stop: std::fmt::Display,
+{
+    // Only the leading formulas can be solved, so only they are looked for (best first:
+    // the cost follows them, not every formula the mass allows).
+    let found = match ms::best_formulas_within(query, MAX_FORMULA_LEADS, meter) {
+        Ok(found) => found.best,
+        Err(ms::RankError::Limit(stop)) => return Err(stop),
+        Err(ms::RankError::Query(e)) => {
+            return without_formula(case, catalogue, options, e.to_string(), meter)
+        }
     };
     let Some(place) = case
         .ms
@@ -66,15 +89,26 @@ pub fn solve_over_formula_leads(
         .and_then(|m| m.molecular_ion.as_ref())
         .map(|(_, place)| place.clone())
     else {
-        return solve_stated(case, catalogue, options);
+        return solve_stated_within(case, catalogue, options, meter, Stage::LeadEnumeration);
     };
     let mut leads = Vec::new();
     let mut solved: Vec<(usize, Outcome)> = Vec::new();
+    let mut held = 0u64;
     let best_ms_score = found.first().map_or(0.0, |c| c.score.total);
     let chosen = found.iter().enumerate().take_while(|(i, c)| {
         *i < DEFAULT_FORMULA_LEADS
             || (*i < MAX_FORMULA_LEADS && c.score.total >= best_ms_score - LEAD_SCORE_WINDOW)
     });
+    let chosen: Vec<_> = chosen.collect();
+    // The enumeration limit holds for the pool as a whole: each lead may collect its
+    // share (at least the candidates shown), so forty leads near m/z 800 cost what one
+    // formula costs instead of forty times it. A lead that reaches its share says so
+    // (`enumeration_truncated`), like a stated formula reaching the limit.
+    let lead_options = SolveOptions {
+        enumeration_limit: (options.enumeration_limit / chosen.len().max(1))
+            .max(options.max_candidates),
+        ..options.clone()
+    };
     for (_, candidate) in chosen {
         let Some(formula) = Formula::from_composition(&candidate.composition) else {
             continue;
@@ -87,7 +121,18 @@ pub fn solve_over_formula_leads(
             place: place.clone(),
             parts: Vec::new(),
         });
-        let outcome = solve_stated(&with_formula, catalogue, options);
+        let outcome = solve_stated_within(
+            &with_formula,
+            catalogue,
+            &lead_options,
+            meter,
+            Stage::LeadEnumeration,
+        )?;
+        held += CANDIDATE_BYTES * outcome.candidates.len() as u64;
+        meter.hold(
+            CANDIDATE_BYTES * outcome.candidates.len() as u64,
+            Stage::Pooling,
+        )?;
         leads.push(FormulaLead {
             rank: candidate.rank,
             formula: candidate.formula.clone(),
@@ -104,9 +149,11 @@ pub fn solve_over_formula_leads(
             "no formula within the element ranges fits m/z {mz} as {}",
             query.ion.canonical()
         );
-        return without_formula(case, catalogue, options, detail);
+        return without_formula(case, catalogue, options, detail, meter);
     }
-    pool(solved, leads, options)
+    let pooled = pool(solved, leads, options);
+    meter.release(held);
+    Ok(pooled)
 }
 
 /// Pools per-formula outcomes into one.
@@ -160,19 +207,20 @@ fn pool(
 
 /// The outcome when the MS search gave no formula: nothing can be enumerated; the
 /// molecular-ion check says why.
-fn without_formula(
+fn without_formula<M: Meter>(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     detail: String,
-) -> Outcome {
-    let mut outcome = solve_stated(case, catalogue, options);
+    meter: &mut M,
+) -> Result<Outcome, M::Stop> {
+    let mut outcome = solve_stated_within(case, catalogue, options, meter, Stage::LeadEnumeration)?;
     outcome.evidence_checks.push(super::EvidenceCheck {
         item: EvidenceKind::MolecularIon,
         agrees: false,
         detail,
     });
-    outcome
+    Ok(outcome)
 }
 
 #[cfg(test)]

@@ -13,7 +13,7 @@
 //! strong bands the single-compound leader left unexplained. Without a known component the
 //! outcome says which bands a second compound would have to explain.
 
-use super::{solve_single, Outcome, SolveOptions};
+use super::{Outcome, SolveOptions};
 use crate::case::{Case, KnownComponent, ObservedBand, Place};
 use crate::ir::{Band, PickOptions, PreparedTrace, Strength};
 use crate::rules::Catalogue;
@@ -336,7 +336,7 @@ pub fn consider(
         if let Some(ir) = residual_case.ir.as_mut() {
             ir.bands = bands;
         }
-        let outcome = solve_single(&residual_case, catalogue, options);
+        let outcome = super::budget_free_single(&residual_case, catalogue, options);
         let explains_strong = strong_unexplained.iter().all(|&at| {
             fitted
                 .attributed_bands

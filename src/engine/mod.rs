@@ -27,6 +27,7 @@ pub mod testkit;
 pub use model::EvidenceItem;
 pub use outcome::*;
 
+use crate::budget::{self, Meter, Stage, Unmetered};
 use crate::case::Case;
 use crate::rules::Catalogue;
 use constraints::ms;
@@ -124,29 +125,86 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
 /// hydrate formula over its organic part (see [`salt`]); when one compound cannot explain
 /// the spectrum, a second component is considered (see [`mixture`]).
 pub fn solve(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
-    let single = solve_single(case, catalogue, options);
-    mixture::consider(case, catalogue, options, single)
+    budget::infallible(solve_within(case, catalogue, options, &mut Unmetered))
+}
+
+/// Like [`solve`], metered by `meter` (see [`crate::budget`]): a spent budget stops the
+/// case with the meter's stop instead of letting it grow without bound.
+pub fn solve_within<M: Meter>(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    meter: &mut M,
+) -> Result<Outcome, M::Stop>
+where
+    M::Stop: std::fmt::Display,
+{
+    let single = solve_single(case, catalogue, options, meter)?;
+    Ok(mixture::consider(case, catalogue, options, single))
+}
+
+/// [`solve_single`] unmetered (a mixture's residual is one more stated case).
+fn budget_free_single(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    budget::infallible(solve_single(case, catalogue, options, &mut Unmetered))
 }
 
 /// Solves a case as one compound (salt and hydrate readings included).
-fn solve_single(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+fn solve_single<M: Meter>(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    meter: &mut M,
+) -> Result<Outcome, M::Stop>
+where
+    M::Stop: std::fmt::Display,
+{
     if case.formula.is_none() {
         if let Some(query) = from_ms::mass_query(case) {
-            return from_ms::solve_over_formula_leads(case, catalogue, options, &query);
+            return from_ms::solve_over_formula_leads(case, catalogue, options, &query, meter);
         }
     }
     let readings = salt::readings(case);
     if !readings.is_empty() {
-        return salt::solve_readings(case, catalogue, options, &readings);
+        // Salt readings are solved unmetered: each is one stated formula, bounded by the
+        // enumeration limit.
+        return Ok(salt::solve_readings(case, catalogue, options, &readings));
     }
-    solve_stated(case, catalogue, options)
+    solve_stated_within(case, catalogue, options, meter, Stage::Enumeration)
 }
 
-/// Solves a case as stated (its formula, if any, taken as given).
+/// Estimated bytes one consistent combination holds while a formula is solved: its
+/// counts (in the list found, then scored), and its evidence signature in the collapse
+/// (kept twice: in the class list and its index).
+fn combination_bytes(problem: &Problem<'_>) -> u64 {
+    let counts = std::mem::size_of::<ScoredCombination>() + 4 * problem.groups.len();
+    let signature = 3 * std::mem::size_of::<Vec<u32>>()
+        + 4 * problem.groups.len()
+        + std::mem::size_of::<Option<i64>>() * problem.bands.len();
+    (counts + 2 * signature + std::mem::size_of::<(usize, Vec<usize>)>()) as u64
+}
+
 /// A consistent combination with its score: (score, concrete group counts, skeleton carbons).
 type ScoredCombination = (f64, Vec<u32>, u32);
 
+/// Solves a case as stated (its formula, if any, taken as given), unmetered.
 fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
+    budget::infallible(solve_stated_within(
+        case,
+        catalogue,
+        options,
+        &mut Unmetered,
+        Stage::Enumeration,
+    ))
+}
+
+/// Solves a case as stated (its formula, if any, taken as given).
+fn solve_stated_within<M: Meter>(
+    case: &Case,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    meter: &mut M,
+    stage: Stage,
+) -> Result<Outcome, M::Stop> {
     let problem = Problem::new(case, catalogue, options, &BTreeSet::new());
     let evidence_checks = formula_checks(case, &BTreeSet::new());
     let formula_ok = problem.formula_dbe.is_some() && evidence_checks.iter().all(|c| c.agrees);
@@ -159,19 +217,34 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
     // Enumerate the consistent combinations.
     let mut found: Vec<(Vec<u32>, u32)> = Vec::new();
     let mut enumeration_truncated = false;
+    let per_combination = combination_bytes(&problem);
+    let mut stop = None;
     if formula_ok {
         let allowed = problem.allowed_groups();
         enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
-            if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
+            let metered = if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
                 if found.len() >= options.enumeration_limit {
                     enumeration_truncated = true;
                     return Flow::Stop;
                 }
                 found.push((counts.to_vec(), skeleton_c));
+                meter.hold(per_combination, stage)
+            } else {
+                meter.tick(stage)
+            };
+            match metered {
+                Ok(()) => Flow::Continue,
+                Err(e) => {
+                    stop = Some(e);
+                    Flow::Stop
+                }
             }
-            Flow::Continue
         });
     }
+    if let Some(e) = stop {
+        return Err(e);
+    }
+    let held = per_combination * found.len() as u64;
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
     let scored: Vec<ScoredCombination> = found
         .into_iter()
@@ -272,7 +345,8 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
     };
     let discriminating_checks = discriminate::checks(&problem, &ranked, 12);
 
-    Outcome {
+    meter.release(held);
+    Ok(Outcome {
         case: case.id.clone(),
         formula: case.formula.as_ref().map(|f| f.composition.to_string()),
         dbe: case.formula.as_ref().and_then(|f| f.composition.dbe()),
@@ -293,7 +367,7 @@ fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> O
         formula_leads: Vec::new(),
         salt: None,
         mixture: None,
-    }
+    })
 }
 
 fn conflict_report(

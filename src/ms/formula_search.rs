@@ -63,22 +63,57 @@ pub fn nominal_mass_of(ranges: &ElementRanges, counts: &[u32]) -> u64 {
 /// Calls `visit` with the counts (aligned with `ranges.ranges()`) of every combination
 /// whose [`mass_of`] lies in `lo..=hi`. Output-sensitive; see the module documentation.
 pub fn search_mass(ranges: &ElementRanges, lo: f64, hi: f64, mut visit: impl FnMut(&[u32])) {
-    let plan = Plan::new(ranges, |r| r.element.monoisotopic_mass());
-    if plan.order.is_empty() || lo.is_nan() || hi.is_nan() || lo > hi {
-        return;
-    }
-    let mut counts = vec![0u32; ranges.ranges().len()];
-    descend_mass(&plan, ranges, 0, 0.0, lo, hi, &mut counts, &mut visit);
+    let _ = search_mass_while(ranges, lo, hi, |c| {
+        visit(c);
+        Walk::Continue
+    });
 }
 
 /// Calls `visit` with every combination whose nominal mass equals `nominal`.
 pub fn search_nominal(ranges: &ElementRanges, nominal: u64, mut visit: impl FnMut(&[u32])) {
-    let plan = Plan::new(ranges, |r| f64::from(r.element.nominal_mass()));
-    if plan.order.is_empty() {
-        return;
+    let _ = search_nominal_while(ranges, nominal, |c| {
+        visit(c);
+        Walk::Continue
+    });
+}
+
+/// Whether a search goes on after a hit.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Walk {
+    /// Keep searching.
+    Continue,
+    /// Stop the search now.
+    Stop,
+}
+
+/// Like [`search_mass`], stopping as soon as `visit` says [`Walk::Stop`]; returns
+/// [`Walk::Stop`] when it was stopped.
+pub fn search_mass_while(
+    ranges: &ElementRanges,
+    lo: f64,
+    hi: f64,
+    mut visit: impl FnMut(&[u32]) -> Walk,
+) -> Walk {
+    let plan = Plan::new(ranges, |r| r.element.monoisotopic_mass());
+    if plan.order.is_empty() || lo.is_nan() || hi.is_nan() || lo > hi {
+        return Walk::Continue;
     }
     let mut counts = vec![0u32; ranges.ranges().len()];
-    descend_nominal(&plan, 0, 0, nominal as i64, &mut counts, &mut visit);
+    descend_mass(&plan, ranges, 0, 0.0, lo, hi, &mut counts, &mut visit)
+}
+
+/// Like [`search_nominal`], stopping as soon as `visit` says [`Walk::Stop`].
+pub fn search_nominal_while(
+    ranges: &ElementRanges,
+    nominal: u64,
+    mut visit: impl FnMut(&[u32]) -> Walk,
+) -> Walk {
+    let plan = Plan::new(ranges, |r| f64::from(r.element.nominal_mass()));
+    if plan.order.is_empty() {
+        return Walk::Continue;
+    }
+    let mut counts = vec![0u32; ranges.ranges().len()];
+    descend_nominal(&plan, 0, 0, nominal as i64, &mut counts, &mut visit)
 }
 
 /// The elements in visiting order with the bounds the recursion needs.
@@ -197,18 +232,17 @@ fn descend_mass(
     lo: f64,
     hi: f64,
     counts: &mut [u32],
-    visit: &mut impl FnMut(&[u32]),
-) {
+    visit: &mut impl FnMut(&[u32]) -> Walk,
+) -> Walk {
     let n_positions = plan.order.len();
     if let Some(tail) = plan.tail.as_ref().filter(|t| t.enter_at == k) {
         let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
         if half_width < plan.mass[tail.anchor] / 2.0 {
-            solve_tail(plan, tail, ranges, used, lo, hi, counts, visit);
-            return;
+            return solve_tail(plan, tail, ranges, used, lo, hi, counts, visit);
         }
     }
     let Some((first, last)) = count_bounds(plan, k, used, lo, hi) else {
-        return;
+        return Walk::Continue;
     };
     let slot = plan.order[k];
     if k + 1 == n_positions {
@@ -216,16 +250,16 @@ fn descend_mass(
         for n in first..=last {
             counts[slot] = n;
             let mass = mass_of(ranges, counts);
-            if lo <= mass && mass <= hi {
-                visit(counts);
+            if lo <= mass && mass <= hi && visit(counts) == Walk::Stop {
+                return Walk::Stop;
             }
         }
         counts[slot] = 0;
-        return;
+        return Walk::Continue;
     }
     for n in first..=last {
         counts[slot] = n;
-        descend_mass(
+        if descend_mass(
             plan,
             ranges,
             k + 1,
@@ -234,9 +268,13 @@ fn descend_mass(
             hi,
             counts,
             visit,
-        );
+        ) == Walk::Stop
+        {
+            return Walk::Stop;
+        }
     }
     counts[slot] = 0;
+    Walk::Continue
 }
 
 /// The tail positions at once, in O(log |table| + hits): a count combination of the
@@ -255,13 +293,13 @@ fn solve_tail(
     lo: f64,
     hi: f64,
     counts: &mut [u32],
-    visit: &mut impl FnMut(&[u32]),
-) {
+    visit: &mut impl FnMut(&[u32]) -> Walk,
+) -> Walk {
     let m_anchor = plan.mass[tail.anchor];
     let centre = (lo + hi) / 2.0 - used;
     let half_width = (hi - lo) / 2.0 + PRUNE_SLACK;
     if centre + half_width < 0.0 {
-        return;
+        return Walk::Continue;
     }
     let q = centre.rem_euclid(m_anchor);
     let slot_anchor = plan.order[tail.anchor];
@@ -286,22 +324,24 @@ fn solve_tail(
                 counts[plan.order[*position]] = *x;
             }
             let mass = mass_of(ranges, counts);
-            if lo <= mass && mass <= hi {
-                visit(counts);
+            if lo <= mass && mass <= hi && visit(counts) == Walk::Stop {
+                return Walk::Stop;
             }
         }
+        Walk::Continue
     };
-    visit_range(q - half_width, q + half_width);
-    if q - half_width < 0.0 {
-        visit_range(q - half_width + m_anchor, m_anchor);
+    let mut flow = visit_range(q - half_width, q + half_width);
+    if flow == Walk::Continue && q - half_width < 0.0 {
+        flow = visit_range(q - half_width + m_anchor, m_anchor);
     }
-    if q + half_width >= m_anchor {
-        visit_range(0.0, q + half_width - m_anchor);
+    if flow == Walk::Continue && q + half_width >= m_anchor {
+        flow = visit_range(0.0, q + half_width - m_anchor);
     }
     counts[slot_anchor] = 0;
     for position in &tail.others {
         counts[plan.order[*position]] = 0;
     }
+    flow
 }
 
 fn descend_nominal(
@@ -310,8 +350,8 @@ fn descend_nominal(
     used: i64,
     target: i64,
     counts: &mut [u32],
-    visit: &mut impl FnMut(&[u32]),
-) {
+    visit: &mut impl FnMut(&[u32]) -> Walk,
+) -> Walk {
     let m = plan.mass[k] as i64;
     let rest_min = plan.suffix_min[k + 1] as i64;
     let rest_max = plan.suffix_max[k + 1] as i64;
@@ -328,15 +368,21 @@ fn descend_nominal(
     for n in first..=last {
         counts[slot] = n as u32;
         let used_now = used + n * m;
-        if k + 1 == plan.order.len() {
+        let flow = if k + 1 == plan.order.len() {
             if used_now == target {
-                visit(counts);
+                visit(counts)
+            } else {
+                Walk::Continue
             }
         } else {
-            descend_nominal(plan, k + 1, used_now, target, counts, visit);
+            descend_nominal(plan, k + 1, used_now, target, counts, visit)
+        };
+        if flow == Walk::Stop {
+            return Walk::Stop;
         }
     }
     counts[slot] = 0;
+    Walk::Continue
 }
 
 /// The nested-loop reference: visits every combination of every range (no pruning) and

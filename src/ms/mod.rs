@@ -10,6 +10,7 @@
 //! Depends on `chem` (masses, isotopes, SENIOR / LEWIS) and on `rules`' model types for
 //! the clues; knows nothing of IR.
 
+pub mod best;
 pub mod formula_search;
 pub mod fragments;
 pub mod heuristics;
@@ -18,6 +19,7 @@ pub mod isotope_fit;
 pub mod ranges;
 pub mod rank;
 
+pub use best::{best_formulas, best_formulas_within, BestFormulas};
 pub use fragments::{
     match_catalogue, match_fragments, FragmentMatch, ObservedFragment, DEFAULT_FRAGMENT_TOLERANCE,
 };
@@ -28,5 +30,6 @@ pub use isotope_fit::{
 };
 pub use ranges::{ElementRange, ElementRanges, RangeError, RangeErrorKind, DEFAULT_RANGES};
 pub use rank::{
-    candidate_formulas, FormulaCandidate, MassQuery, MeasuredMz, QueryError, ScoreParts, Tolerance,
+    candidate_formulas, candidate_formulas_within, FormulaCandidate, MassQuery, MeasuredMz,
+    QueryError, RankError, ScoreParts, Tolerance,
 };

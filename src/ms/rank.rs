@@ -18,11 +18,12 @@
 //! penalty per broken heuristic), which is why plain addition is meaningful. Ties keep
 //! the simpler formula first (fewer atoms, then Hill order), so output is deterministic.
 
-use super::formula_search::{mass_of, search_mass, search_nominal};
+use super::formula_search::{mass_of, search_mass_while, search_nominal_while, Walk};
 use super::heuristics::{assess, HeuristicNote};
 use super::ion::IonType;
 use super::isotope_fit::{fit, isotope_ratios_of_counts, IsotopeFit, MeasuredIsotopes};
 use super::ranges::ElementRanges;
+use crate::budget::{Meter, Stage, Unmetered};
 use crate::chem::{Composition, Formula};
 
 /// The measured molecular ion: accurate (high resolution) or nominal (integer, GC-MS).
@@ -186,25 +187,71 @@ pub fn validate(query: &MassQuery) -> Result<(), QueryError> {
 
 /// Every candidate formula for `query`, best first (see the module documentation).
 pub fn candidate_formulas(query: &MassQuery) -> Result<Vec<FormulaCandidate>, QueryError> {
-    validate(query)?;
+    candidate_formulas_within(query, &mut Unmetered).map_err(|e| match e {
+        RankError::Query(q) => q,
+        RankError::Limit(never) => match never {},
+    })
+}
+
+/// Why a metered query gave no list.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub enum RankError<S> {
+    /// The query's numbers are wrong.
+    #[error(transparent)]
+    Query(QueryError),
+    /// The meter stopped the search (a budget was spent).
+    #[error("{0}")]
+    Limit(S),
+}
+
+/// Like [`candidate_formulas`], metered: every raw hit of the search is a tick, every
+/// candidate kept is held (its [`FormulaCandidate::bytes_held`]) until the list is
+/// returned, so a budget stops a query that would hold millions of formulas.
+pub fn candidate_formulas_within<M: Meter>(
+    query: &MassQuery,
+    meter: &mut M,
+) -> Result<Vec<FormulaCandidate>, RankError<M::Stop>>
+where
+    M::Stop: std::fmt::Display,
+{
+    validate(query).map_err(RankError::Query)?;
     let ranges = &query.ranges;
     let mut out = Vec::new();
+    let mut held = 0u64;
+    let mut stop = None;
     let mut consider = |counts: &[u32]| {
-        if let Some(c) = evaluate(query, counts) {
-            out.push(c);
+        let kept = match evaluate(query, counts) {
+            Some(c) => {
+                let bytes = c.bytes_held();
+                out.push(c);
+                held += bytes;
+                meter.hold(bytes, Stage::FormulaSearch)
+            }
+            None => meter.tick(Stage::FormulaSearch),
+        };
+        match kept {
+            Ok(()) => Walk::Continue,
+            Err(e) => {
+                stop = Some(e);
+                Walk::Stop
+            }
         }
     };
     match query.mz {
         MeasuredMz::Accurate(mz) => {
             let neutral = query.ion.neutral_mass_of_mz(mz);
             let tol = query.tolerance.absolute(mz);
-            search_mass(ranges, neutral - tol, neutral + tol, &mut consider);
+            search_mass_while(ranges, neutral - tol, neutral + tol, &mut consider);
         }
         MeasuredMz::Nominal(n) => {
             if let Some(nominal) = query.ion.neutral_nominal_mass(n) {
-                search_nominal(ranges, u64::from(nominal), &mut consider);
+                search_nominal_while(ranges, u64::from(nominal), &mut consider);
             }
         }
+    }
+    meter.release(held);
+    if let Some(e) = stop {
+        return Err(RankError::Limit(e));
     }
     out.sort_by(|a, b| {
         b.score
@@ -217,6 +264,27 @@ pub fn candidate_formulas(query: &MassQuery) -> Result<Vec<FormulaCandidate>, Qu
         c.rank = i + 1;
     }
     Ok(out)
+}
+
+impl FormulaCandidate {
+    /// Estimated bytes this candidate holds (its size plus its heap parts), for a
+    /// [`Meter`].
+    pub fn bytes_held(&self) -> u64 {
+        let notes: usize = self
+            .heuristic_notes
+            .iter()
+            .map(|n| {
+                std::mem::size_of::<HeuristicNote>() + n.rule.capacity() + n.message.capacity()
+            })
+            .sum();
+        // A B-tree entry of the composition: the symbol's String, its count and the
+        // node's share (about 32 bytes per entry, from the standard library's node layout,
+        // from memory).
+        let composition =
+            self.composition.iter().count() * (std::mem::size_of::<String>() + 4 + 2 + 32);
+        (std::mem::size_of::<FormulaCandidate>() + self.formula.capacity() + notes + composition)
+            as u64
+    }
 }
 
 /// Filters and scores one combination; `None` when a filter rejects it.
