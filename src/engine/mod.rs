@@ -15,6 +15,7 @@ pub mod enumerate;
 pub mod evaluate;
 pub mod explain;
 pub mod from_ms;
+#[cfg(feature = "lp-check")]
 pub mod lp;
 pub mod mixture;
 pub mod model;
@@ -22,6 +23,7 @@ pub mod outcome;
 pub mod salt;
 pub mod score;
 pub mod structures;
+#[cfg(test)]
 pub mod testkit;
 
 pub use model::EvidenceItem;

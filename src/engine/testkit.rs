@@ -1,4 +1,4 @@
-//! A small hand-built catalogue for engine tests and benchmarks, independent of the shipped
+//! A small hand-built catalogue for the engine's unit tests (built with `cfg(test)` only), independent of the shipped
 //! rules data (so that engine tests do not change when the data does). Values are
 //! `common practice`, from memory; they are simplified on purpose and are not the shipped
 //! catalogue.
