@@ -1,7 +1,7 @@
-//! A small hand-built catalogue for the engine's unit tests (built with `cfg(test)` only), independent of the shipped
-//! rules data (so that engine tests do not change when the data does). Values are
-//! `common practice`, from memory; they are simplified on purpose and are not the shipped
-//! catalogue.
+//! A small hand-built catalogue for the engine's unit tests (built under `cfg(test)`
+//! only), independent of the shipped rules data (so that engine tests do not change when
+//! the data does). Values are `common practice`, from memory; they are simplified on
+//! purpose and are not the shipped catalogue.
 
 use crate::chem::Composition;
 use crate::rules::*;
