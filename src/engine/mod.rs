@@ -70,11 +70,14 @@ impl Default for SolveOptions {
     }
 }
 
-/// The cautions that go with every result.
-pub const CAUTIONS: [&str; 4] = [
-    "a screening lead, not an identification",
-    "confirm against a reference standard under the laboratory's validated method",
-    "treat the unknown as hazardous until identified",
+/// The cautions that go with every result, in every output (solve's text and JSON and
+/// every report format read them from the outcome; DESIGN.md and the product owner's
+/// rules).
+pub const CAUTIONS: [&str; 5] = [
+    "this is a screening lead, not an identification",
+    "confirm against a reference standard with the laboratory's validated method",
+    "combine independent techniques as the laboratory's accreditation requires",
+    "treat the unknown as hazardous until it is identified",
     "local regulations and licensed practice prevail",
 ];
 
