@@ -298,7 +298,9 @@ fn conflict_report(
     problem: &Problem<'_>,
     evidence_checks: &[EvidenceCheck],
 ) -> Vec<Conflict> {
-    let Some(items) = conflicts::minimal_conflict(case, catalogue, options) else {
+    let Some(conflicts::ConflictSearch { items, limits }) =
+        conflicts::minimal_conflict(case, catalogue, options)
+    else {
         return Vec::new();
     };
     let mut explanation = Vec::new();
@@ -384,6 +386,7 @@ fn conflict_report(
             .collect(),
         explanation,
         suggested_causes: conflicts::suggested_causes(case, &items),
+        search_limits: limits,
     }]
 }
 
