@@ -1,82 +1,11 @@
 //! Discriminating checks: for the top candidates, what to measure next to tell them
 //! apart — a band one predicts (a supporting band not yet seen) that the other cannot
-//! explain, an MS ion or loss, a simple wet test or an NMR region for the family.
+//! explain, an MS ion or loss, a simple wet test or an NMR region for the family (the
+//! catalogue's `checks:` of the group and its parents).
 
 use super::model::Problem;
 use super::outcome::DiscriminatingCheck;
 use crate::rules::MsClueKind;
-
-/// Wet tests and NMR regions by family id (common practice, from memory).
-const FAMILY_TESTS: &[(&str, &str, &str)] = &[
-    (
-        "aldehyde",
-        "wet_test",
-        "Tollens' or Fehling's test positive (aldehyde, not ketone)",
-    ),
-    (
-        "aldehyde",
-        "nmr",
-        "1H NMR: CHO singlet or triplet near 9.4–10.1 ppm",
-    ),
-    (
-        "ketone",
-        "wet_test",
-        "2,4-DNP precipitate with a negative Tollens' test (ketone)",
-    ),
-    (
-        "carboxylic_acid",
-        "wet_test",
-        "effervescence with aqueous NaHCO3 (acid)",
-    ),
-    (
-        "carboxylic_acid",
-        "nmr",
-        "1H NMR: exchangeable COOH near 10–13 ppm",
-    ),
-    ("ester", "nmr", "1H NMR: O–CH near 3.6–4.3 ppm"),
-    (
-        "alcohol",
-        "nmr",
-        "1H NMR: exchangeable O–H that vanishes on D2O shake",
-    ),
-    (
-        "alcohol",
-        "wet_test",
-        "ceric ammonium nitrate test colour change (alcohol)",
-    ),
-    ("phenol", "wet_test", "violet colour with FeCl3 (phenol)"),
-    (
-        "ether",
-        "nmr",
-        "1H NMR: O–CH near 3.3–4.0 ppm with no exchangeable H",
-    ),
-    (
-        "amine_primary",
-        "wet_test",
-        "Hinsberg test: sulfonamide soluble in base (primary amine)",
-    ),
-    (
-        "amine_secondary",
-        "wet_test",
-        "Hinsberg test: sulfonamide insoluble in base (secondary amine)",
-    ),
-    (
-        "amine_tertiary",
-        "wet_test",
-        "Hinsberg test: no sulfonamide (tertiary amine)",
-    ),
-    (
-        "alkene",
-        "wet_test",
-        "decolourises bromine water or dilute KMnO4 (C=C)",
-    ),
-    (
-        "aromatic_ring",
-        "nmr",
-        "1H NMR: aromatic H near 6.5–8.5 ppm",
-    ),
-    ("alkyne_terminal", "nmr", "1H NMR: ≡C–H near 1.8–3.1 ppm"),
-];
 
 /// Checks separating the best candidate from each of the next ones (at most `limit`).
 pub fn checks(
@@ -141,17 +70,24 @@ pub fn checks(
                         kind: "ms".into(),
                     });
                 }
-                for (family, kind, text) in FAMILY_TESTS {
-                    if g.lineage.iter().any(|l| l == family)
-                        && !b_families.iter().any(|f| f == family)
-                    {
+                // Wet tests and NMR regions of the catalogue: those of g's own family
+                // line, where b holds nothing of that family.
+                for family in &g.lineage {
+                    if b_families.contains(&family) {
+                        continue;
+                    }
+                    let Some(family_group) = problem.catalogue.group(family) else {
+                        continue;
+                    };
+                    for check in &family_group.checks {
                         out.push(DiscriminatingCheck {
                             between: [a_rank.min(b_rank), a_rank.max(b_rank)],
                             observation: format!(
-                                "{text} — expected for rank {a_rank}, not rank {b_rank}"
+                                "{} — expected for rank {a_rank}, not rank {b_rank}",
+                                check.text
                             ),
                             favours: a_rank,
-                            kind: (*kind).into(),
+                            kind: check.kind.word().into(),
                         });
                     }
                 }
