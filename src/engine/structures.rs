@@ -120,7 +120,7 @@ fn section(
         )),
         Ok(summary) => {
             let count = found.len();
-            let ranked = structure::rank_by_bands(found, bands, tolerance_cm1)
+            let ranked = structure::rank_by_bands(found, bands, tolerance_cm1, &catalogue.patterns)
                 .into_iter()
                 .map(|(s, score)| RankedStructure {
                     smiles: s.smiles,
