@@ -129,7 +129,6 @@ fn search(
         return None;
     }
     *steps -= 1;
-    let clash = |g: usize, chosen: &[u32]| problem.excludes[g].iter().any(|&j| chosen[j] > 0);
     // First band not yet explained (with sp3 skeleton assumed available).
     let pending = problem.explainers.iter().position(|ex| {
         ex.demanded
@@ -151,21 +150,10 @@ fn search(
                 && !problem.groups[g].group.requires_any.is_empty()
                 && !problem.requires[g].iter().any(|&j| chosen[j] > 0)
         });
-        let Some(g) = unmet else {
-            return Some(true);
+        return match unmet {
+            None => Some(true),
+            Some(g) => try_each(problem, allowed, chosen, steps, problem.requires[g].clone()),
         };
-        for j in problem.requires[g].clone() {
-            if !allowed[j] || clash(j, chosen) {
-                continue;
-            }
-            chosen[j] += 1;
-            let found = search(problem, allowed, chosen, steps);
-            chosen[j] -= 1;
-            if found != Some(false) {
-                return found;
-            }
-        }
-        return Some(false);
     };
     let ex = &problem.explainers[bi];
     let mut options: Vec<usize> = ex.groups.iter().map(|(g, _, _)| *g).collect();
@@ -177,8 +165,21 @@ fn search(
     }
     options.sort_unstable();
     options.dedup();
+    try_each(problem, allowed, chosen, steps, options)
+}
+
+/// Adds each of `options` in turn (those allowed and clashing with nothing chosen) and
+/// searches on: the first answer other than "not found" wins.
+fn try_each(
+    problem: &Problem<'_>,
+    allowed: &[bool],
+    chosen: &mut Vec<u32>,
+    steps: &mut u64,
+    options: Vec<usize>,
+) -> Option<bool> {
     for g in options {
-        if !allowed[g] || clash(g, chosen) {
+        let clash = problem.excludes[g].iter().any(|&j| chosen[j] > 0);
+        if !allowed[g] || clash {
             continue;
         }
         chosen[g] += 1;
