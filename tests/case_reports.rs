@@ -6,7 +6,8 @@
 
 use quiddity::cli::casefile::{load_case, report_text, solve as casefile_solve, LoadOptions};
 use quiddity::engine::SolveOptions;
-use quiddity::report::{Format, REPORT_CAUTIONS};
+use quiddity::engine::CAUTIONS;
+use quiddity::report::Format;
 use quiddity::rules::embedded_catalogue;
 use std::path::{Path, PathBuf};
 
@@ -76,7 +77,7 @@ fn every_report_format_carries_the_cautions_and_the_input_digests() {
     assert_eq!(loaded.inputs.len(), 2, "case file and spectrum file");
     for (format, _) in Format::ALL {
         let text = report_text(&loaded, &outcome, format, None);
-        for caution in REPORT_CAUTIONS {
+        for caution in CAUTIONS {
             let caution = if format == Format::Html {
                 quiddity::report::html::escape(caution)
             } else {

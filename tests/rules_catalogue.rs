@@ -63,3 +63,34 @@ fn developers_guide_names_every_rules_file() {
         );
     }
 }
+
+#[test]
+fn wet_tests_and_nmr_regions_come_from_the_catalogue_with_their_sources() {
+    // The discriminating checks outside IR and MS are catalogue data (`checks:`), each
+    // with a source and a place; the families that have long had one keep it.
+    let catalogue = shipped();
+    let mut n_checks = 0;
+    for g in &catalogue.groups {
+        for c in &g.checks {
+            n_checks += 1;
+            assert!(
+                !c.source.trim().is_empty(),
+                "{}: check without source",
+                g.id
+            );
+            assert!(!c.text.trim().is_empty(), "{}: empty check", g.id);
+            assert!(c.defined_at.line > 0, "{}: check without a line", g.id);
+        }
+    }
+    assert!(n_checks >= 10, "only {n_checks} checks in the catalogue");
+    let kinds = |id: &str| -> Vec<&str> {
+        catalogue
+            .group(id)
+            .map(|g| g.checks.iter().map(|c| c.kind.word()).collect())
+            .unwrap_or_default()
+    };
+    // common practice: an aldehyde has a wet test (silver mirror) and an NMR region (CHO
+    // near 9-10 ppm); a phenol a colour test with iron(III) chloride.
+    assert_eq!(kinds("aldehyde"), ["wet_test", "nmr"]);
+    assert_eq!(kinds("phenol"), ["wet_test"]);
+}

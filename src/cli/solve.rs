@@ -331,6 +331,11 @@ pub fn render_text(o: &Outcome) -> String {
             for e in &c.explanation {
                 s.push_str(&format!("    because {e}\n"));
             }
+            for limit in &c.search_limits {
+                s.push_str(&format!(
+                    "    search limit: {limit} (the set may not be minimal)\n"
+                ));
+            }
             s.push_str("  usual causes to check:\n");
             for cause in &c.suggested_causes {
                 s.push_str(&format!("    · {cause}\n"));

@@ -34,66 +34,101 @@ pub fn all_items(case: &Case) -> Vec<EvidenceItem> {
     items
 }
 
-/// True when some candidate meets every item not in `set_aside`.
+/// The answer of one consistency test.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Consistency {
+    /// Some candidate meets every item not set aside.
+    Consistent,
+    /// Proven: no candidate meets them.
+    Inconsistent,
+    /// The test stopped at its limit before it could decide (the words say which limit).
+    Undecided(String),
+}
+
+/// Whether some candidate meets every item not in `set_aside`.
 pub fn consistent(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     set_aside: &BTreeSet<EvidenceItem>,
-) -> bool {
+) -> Consistency {
     let problem = Problem::new(case, catalogue, options, set_aside);
     if problem.formula.is_none() {
         return free_composition_feasible(&problem);
     }
     if problem.formula_dbe.is_none() {
-        return false;
+        return Consistency::Inconsistent;
     }
     if formula_checks(case, set_aside).iter().any(|c| !c.agrees) {
-        return false;
+        return Consistency::Inconsistent;
     }
     let allowed = problem.allowed_groups();
-    let mut found = false;
+    let mut answer = Consistency::Inconsistent;
     let mut leaves = 0u64;
     super::enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
         leaves += 1;
-        // Out of budget: not proven inconsistent, so count it as consistent (the filter
-        // then keeps the item: the conflict stays true, if perhaps not minimal).
         if leaves > CONSISTENCY_BUDGET {
-            found = true;
+            answer = Consistency::Undecided(format!(
+                "a consistency test stopped after {CONSISTENCY_BUDGET} compositions"
+            ));
             return super::enumerate::Flow::Stop;
         }
         if super::evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
-            found = true;
+            answer = Consistency::Consistent;
             super::enumerate::Flow::Stop
         } else {
             super::enumerate::Flow::Continue
         }
     });
-    found
+    answer
 }
 
-/// Compositions one consistency test may examine before it gives up (and answers
-/// "consistent", which can only make a conflict larger, never wrong).
+/// Compositions one consistency test may examine before it stops undecided (the
+/// deletion filter then keeps the item: the conflict stays true, perhaps not minimal,
+/// and says so).
 pub const CONSISTENCY_BUDGET: u64 = 200_000;
+
+/// Search steps the free-composition test (no formula) may take before it stops
+/// undecided. Its depth needs no limit: every step adds a group not yet chosen.
+pub const FREE_SEARCH_BUDGET: u64 = 200_000;
 
 /// Without a formula: can some set of allowed groups explain every demanded band while
 /// respecting the relations? (Skeleton carbons can always be added, so `sp3_carbon`
-/// holds.) A small depth-first search over the bands' explainers.
-pub fn free_composition_feasible(problem: &Problem<'_>) -> bool {
+/// holds.) A depth-first search over the bands' explainers, at most
+/// [`FREE_SEARCH_BUDGET`] steps.
+pub fn free_composition_feasible(problem: &Problem<'_>) -> Consistency {
+    free_composition_feasible_within(problem, FREE_SEARCH_BUDGET)
+}
+
+/// [`free_composition_feasible`] with at most `budget` search steps.
+pub fn free_composition_feasible_within(problem: &Problem<'_>, budget: u64) -> Consistency {
     let allowed: Vec<bool> = problem
         .groups
         .iter()
         .map(|g: &GroupData<'_>| g.presence.missing.is_empty())
         .collect();
     let mut chosen = vec![0u32; problem.groups.len()];
-    search(problem, &allowed, &mut chosen, 0)
+    let mut steps = budget;
+    match search(problem, &allowed, &mut chosen, &mut steps) {
+        Some(true) => Consistency::Consistent,
+        Some(false) => Consistency::Inconsistent,
+        None => Consistency::Undecided(format!(
+            "a consistency test without the formula stopped after {budget} search steps"
+        )),
+    }
 }
 
-fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth: usize) -> bool {
-    if depth > 12 {
-        return false;
+/// `Some(found)` when the search finished, `None` when it ran out of steps (`steps` left).
+fn search(
+    problem: &Problem<'_>,
+    allowed: &[bool],
+    chosen: &mut Vec<u32>,
+    steps: &mut u64,
+) -> Option<bool> {
+    if *steps == 0 {
+        return None;
     }
-    let clash = |g: usize, chosen: &[u32]| problem.excludes[g].iter().any(|&j| chosen[j] > 0);
+    *steps -= 1;
     // First band not yet explained (with sp3 skeleton assumed available).
     let pending = problem.explainers.iter().position(|ex| {
         ex.demanded
@@ -116,16 +151,8 @@ fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth:
                 && !problem.requires[g].iter().any(|&j| chosen[j] > 0)
         });
         return match unmet {
-            None => true,
-            Some(g) => problem.requires[g].clone().into_iter().any(|j| {
-                if !allowed[j] || clash(j, chosen) {
-                    return false;
-                }
-                chosen[j] += 1;
-                let ok = search(problem, allowed, chosen, depth + 1);
-                chosen[j] -= 1;
-                ok
-            }),
+            None => Some(true),
+            Some(g) => try_each(problem, allowed, chosen, steps, problem.requires[g].clone()),
         };
     };
     let ex = &problem.explainers[bi];
@@ -138,30 +165,57 @@ fn search(problem: &Problem<'_>, allowed: &[bool], chosen: &mut Vec<u32>, depth:
     }
     options.sort_unstable();
     options.dedup();
+    try_each(problem, allowed, chosen, steps, options)
+}
+
+/// Adds each of `options` in turn (those allowed and clashing with nothing chosen) and
+/// searches on: the first answer other than "not found" wins.
+fn try_each(
+    problem: &Problem<'_>,
+    allowed: &[bool],
+    chosen: &mut Vec<u32>,
+    steps: &mut u64,
+    options: Vec<usize>,
+) -> Option<bool> {
     for g in options {
-        if !allowed[g] || clash(g, chosen) {
+        let clash = problem.excludes[g].iter().any(|&j| chosen[j] > 0);
+        if !allowed[g] || clash {
             continue;
         }
         chosen[g] += 1;
-        let ok = search(problem, allowed, chosen, depth + 1);
+        let found = search(problem, allowed, chosen, steps);
         chosen[g] -= 1;
-        if ok {
-            return true;
+        if found != Some(false) {
+            return found;
         }
     }
-    false
+    Some(false)
+}
+
+/// A conflict found by the deletion filter, with the limits its tests stopped at.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ConflictSearch {
+    /// The items that cannot hold together.
+    pub items: Vec<EvidenceItem>,
+    /// One sentence per test that stopped at its limit (empty when every test decided):
+    /// the conflict then still holds, but may not be minimal.
+    pub limits: Vec<String>,
 }
 
 /// The deletion filter: a minimal inconsistent subset of the case's evidence, or `None`
-/// when the whole evidence is consistent.
+/// when the whole evidence is proven consistent. A test that stops undecided keeps its
+/// item (the conflict stays true) and is named in [`ConflictSearch::limits`].
 pub fn minimal_conflict(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
-) -> Option<Vec<EvidenceItem>> {
+) -> Option<ConflictSearch> {
     let items = all_items(case);
-    if consistent(case, catalogue, options, &BTreeSet::new()) {
-        return None;
+    let mut limits = Vec::new();
+    match consistent(case, catalogue, options, &BTreeSet::new()) {
+        Consistency::Consistent => return None,
+        Consistency::Inconsistent => {}
+        Consistency::Undecided(why) => limits.push(format!("{why} on the whole evidence")),
     }
     let mut keep: Vec<EvidenceItem> = items.clone();
     for item in items {
@@ -170,11 +224,19 @@ pub fn minimal_conflict(
             .into_iter()
             .filter(|i| !trial.contains(i))
             .collect();
-        if !consistent(case, catalogue, options, &set_aside) {
-            keep = trial;
+        match consistent(case, catalogue, options, &set_aside) {
+            Consistency::Inconsistent => keep = trial,
+            Consistency::Consistent => {}
+            Consistency::Undecided(why) => limits.push(format!(
+                "{why} with {} set aside; it was kept",
+                describe_item(case, item)
+            )),
         }
     }
-    Some(keep)
+    Some(ConflictSearch {
+        items: keep,
+        limits,
+    })
 }
 
 /// Words for an item, with its place.

@@ -1,91 +1,12 @@
 //! Discriminating checks: for the top candidates, what to measure next to tell them
 //! apart — a band one predicts (a supporting band not yet seen) that the other cannot
-//! explain, an MS ion or loss, a simple wet test or an NMR region for the family.
+//! explain, an MS ion or loss, a simple wet test or an NMR region for the family (the
+//! catalogue's `checks:` of the group and its parents).
 
 use super::model::Problem;
 use super::outcome::CheckKind;
 use super::outcome::DiscriminatingCheck;
 use crate::rules::MsClueKind;
-
-/// Wet tests and NMR regions by family id (common practice, from memory).
-const FAMILY_TESTS: &[(&str, CheckKind, &str)] = &[
-    (
-        "aldehyde",
-        CheckKind::WetTest,
-        "Tollens' or Fehling's test positive (aldehyde, not ketone)",
-    ),
-    (
-        "aldehyde",
-        CheckKind::Nmr,
-        "1H NMR: CHO singlet or triplet near 9.4–10.1 ppm",
-    ),
-    (
-        "ketone",
-        CheckKind::WetTest,
-        "2,4-DNP precipitate with a negative Tollens' test (ketone)",
-    ),
-    (
-        "carboxylic_acid",
-        CheckKind::WetTest,
-        "effervescence with aqueous NaHCO3 (acid)",
-    ),
-    (
-        "carboxylic_acid",
-        CheckKind::Nmr,
-        "1H NMR: exchangeable COOH near 10–13 ppm",
-    ),
-    ("ester", CheckKind::Nmr, "1H NMR: O–CH near 3.6–4.3 ppm"),
-    (
-        "alcohol",
-        CheckKind::Nmr,
-        "1H NMR: exchangeable O–H that vanishes on D2O shake",
-    ),
-    (
-        "alcohol",
-        CheckKind::WetTest,
-        "ceric ammonium nitrate test colour change (alcohol)",
-    ),
-    (
-        "phenol",
-        CheckKind::WetTest,
-        "violet colour with FeCl3 (phenol)",
-    ),
-    (
-        "ether",
-        CheckKind::Nmr,
-        "1H NMR: O–CH near 3.3–4.0 ppm with no exchangeable H",
-    ),
-    (
-        "amine_primary",
-        CheckKind::WetTest,
-        "Hinsberg test: sulfonamide soluble in base (primary amine)",
-    ),
-    (
-        "amine_secondary",
-        CheckKind::WetTest,
-        "Hinsberg test: sulfonamide insoluble in base (secondary amine)",
-    ),
-    (
-        "amine_tertiary",
-        CheckKind::WetTest,
-        "Hinsberg test: no sulfonamide (tertiary amine)",
-    ),
-    (
-        "alkene",
-        CheckKind::WetTest,
-        "decolourises bromine water or dilute KMnO4 (C=C)",
-    ),
-    (
-        "aromatic_ring",
-        CheckKind::Nmr,
-        "1H NMR: aromatic H near 6.5–8.5 ppm",
-    ),
-    (
-        "alkyne_terminal",
-        CheckKind::Nmr,
-        "1H NMR: ≡C–H near 1.8–3.1 ppm",
-    ),
-];
 
 /// Checks separating the best candidate from each of the next ones (at most `limit`).
 pub fn checks(
@@ -150,17 +71,27 @@ pub fn checks(
                         kind: CheckKind::Ms,
                     });
                 }
-                for (family, kind, text) in FAMILY_TESTS {
-                    if g.lineage.iter().any(|l| l == family)
-                        && !b_families.iter().any(|f| f == family)
-                    {
+                // Wet tests and NMR regions of the catalogue: those of g's own family
+                // line, where b holds nothing of that family.
+                for family in &g.lineage {
+                    if b_families.contains(&family) {
+                        continue;
+                    }
+                    let Some(family_group) = problem.catalogue.group(family) else {
+                        continue;
+                    };
+                    for check in &family_group.checks {
                         out.push(DiscriminatingCheck {
                             between: [a_rank.min(b_rank), a_rank.max(b_rank)],
                             observation: format!(
-                                "{text} — expected for rank {a_rank}, not rank {b_rank}"
+                                "{} — expected for rank {a_rank}, not rank {b_rank}",
+                                check.text
                             ),
                             favours: a_rank,
-                            kind: *kind,
+                            kind: match check.kind {
+                                crate::rules::CheckKind::WetTest => CheckKind::WetTest,
+                                crate::rules::CheckKind::Nmr => CheckKind::Nmr,
+                            },
                         });
                     }
                 }

@@ -114,7 +114,7 @@ where
     for (b, needs) in problem.band_needs.iter().enumerate() {
         if let Some(set) = needs {
             let last = (0..problem.groups.len())
-                .filter(|&g| GroupSet::of([g]).intersects(set))
+                .filter(|&g| set.contains(g))
                 .filter_map(|g| position[g])
                 .max();
             band_expiring[last.map_or(0, |l| l + 1)].push(b);

@@ -8,6 +8,10 @@
 //! 0.2 ms against 140 ms for the unpruned walk over every composition of the
 //! 25-heavy-atom case), so it stays as an independent check: tests compare the smallest
 //! number of group instances both find, formula by formula.
+//!
+//! Built only with the `lp-check` feature (off by default; the tests and benchmarks turn
+//! it on through the crate's dev-dependency on itself), so the solver is not part of
+//! the release build.
 
 use super::model::Problem;
 use good_lp::{constraint, microlp, variable, Expression, ProblemVariables, Solution, SolverModel};

@@ -15,6 +15,7 @@ pub mod enumerate;
 pub mod evaluate;
 pub mod explain;
 pub mod from_ms;
+#[cfg(feature = "lp-check")]
 pub mod lp;
 pub mod mixture;
 pub mod model;
@@ -22,6 +23,7 @@ pub mod outcome;
 pub mod salt;
 pub mod score;
 pub mod structures;
+#[cfg(test)]
 pub mod testkit;
 
 pub use model::EvidenceItem;
@@ -69,11 +71,14 @@ impl Default for SolveOptions {
     }
 }
 
-/// The cautions that go with every result.
-pub const CAUTIONS: [&str; 4] = [
-    "a screening lead, not an identification",
-    "confirm against a reference standard under the laboratory's validated method",
-    "treat the unknown as hazardous until identified",
+/// The cautions that go with every result, in every output (solve's text and JSON and
+/// every report format read them from the outcome; DESIGN.md and the product owner's
+/// rules).
+pub const CAUTIONS: [&str; 5] = [
+    "this is a screening lead, not an identification",
+    "confirm against a reference standard with the laboratory's validated method",
+    "combine independent techniques as the laboratory's accreditation requires",
+    "treat the unknown as hazardous until it is identified",
     "local regulations and licensed practice prevail",
 ];
 
@@ -377,7 +382,9 @@ fn conflict_report(
     problem: &Problem<'_>,
     evidence_checks: &[EvidenceCheck],
 ) -> Vec<Conflict> {
-    let Some(items) = conflicts::minimal_conflict(case, catalogue, options) else {
+    let Some(conflicts::ConflictSearch { items, limits }) =
+        conflicts::minimal_conflict(case, catalogue, options)
+    else {
         return Vec::new();
     };
     let mut explanation = Vec::new();
@@ -464,6 +471,7 @@ fn conflict_report(
         evidence: items.to_vec(),
         explanation,
         suggested_causes: conflicts::suggested_causes(case, &items),
+        search_limits: limits,
     }]
 }
 

@@ -27,27 +27,31 @@ pub enum EvidenceItem {
     MPlus2,
 }
 
-/// Most concrete groups a catalogue may have for the engine (bit sets are fixed-size).
-pub const MAX_CONCRETE_GROUPS: usize = 512;
-
-/// A set of concrete group indices (a fixed-size bit set, cheap to copy and intersect).
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
-pub struct GroupSet([u64; MAX_CONCRETE_GROUPS / 64]);
+/// A set of concrete group indices: a bit set that grows with the largest index, so a
+/// catalogue may hold any number of groups.
+#[derive(Clone, Debug, Default)]
+pub struct GroupSet(Vec<u64>);
 
 impl GroupSet {
     /// Adds group `i`.
     pub fn insert(&mut self, i: usize) {
-        self.0[i / 64] |= 1 << (i % 64);
+        let word = i / 64;
+        if word >= self.0.len() {
+            self.0.resize(word + 1, 0);
+        }
+        self.0[word] |= 1 << (i % 64);
     }
 
     /// Removes group `i`.
     pub fn remove(&mut self, i: usize) {
-        self.0[i / 64] &= !(1 << (i % 64));
+        if let Some(w) = self.0.get_mut(i / 64) {
+            *w &= !(1 << (i % 64));
+        }
     }
 
-    /// True when the set holds group `i`.
+    /// True when group `i` is in the set.
     pub fn contains(&self, i: usize) -> bool {
-        self.0[i / 64] & (1 << (i % 64)) != 0
+        self.0.get(i / 64).is_some_and(|w| w & (1 << (i % 64)) != 0)
     }
 
     /// How many groups the two sets share.
@@ -73,6 +77,16 @@ impl GroupSet {
         s
     }
 }
+
+impl PartialEq for GroupSet {
+    /// Equal when they hold the same groups (trailing empty words do not count).
+    fn eq(&self, other: &GroupSet) -> bool {
+        let n = self.0.len().max(other.0.len());
+        (0..n).all(|k| self.0.get(k).unwrap_or(&0) == other.0.get(k).unwrap_or(&0))
+    }
+}
+
+impl Eq for GroupSet {}
 
 /// A concrete group with its numbers pulled out.
 #[derive(Clone, Debug)]
@@ -208,8 +222,6 @@ impl<'c> Problem<'c> {
             .as_ref()
             .and_then(super::constraints::dbe::whole_dbe);
 
-        // Beyond MAX_CONCRETE_GROUPS the bit sets cannot count; the shipped catalogue holds
-        // well under a hundred, and `rules check` keeps a lab's own catalogue in view.
         let concrete: Vec<(usize, &Group)> = catalogue
             .groups
             .iter()
@@ -217,7 +229,6 @@ impl<'c> Problem<'c> {
             .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
             // Salt forms only where the formula pairs a counter-ion with them.
             .filter(|(_, g)| g.ionic.is_none_or(|side| options.ionic_sites.admits(side)))
-            .take(MAX_CONCRETE_GROUPS)
             .collect();
         let groups: Vec<GroupData> = concrete
             .iter()

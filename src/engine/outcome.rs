@@ -330,6 +330,11 @@ pub struct Conflict {
     pub explanation: Vec<String>,
     /// Usual causes to check.
     pub suggested_causes: Vec<String>,
+    /// Tests of the conflict search that stopped at their limit, in words (empty when
+    /// every test decided). Non-empty means: the items cannot hold together, but the set
+    /// may not be minimal.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub search_limits: Vec<String>,
 }
 
 /// An observation that would separate two candidates.

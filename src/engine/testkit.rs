@@ -1,7 +1,7 @@
-//! A small hand-built catalogue for engine tests and benchmarks, independent of the shipped
-//! rules data (so that engine tests do not change when the data does). Values are
-//! `common practice`, from memory; they are simplified on purpose and are not the shipped
-//! catalogue.
+//! A small hand-built catalogue for the engine's unit tests (built under `cfg(test)`
+//! only), independent of the shipped rules data (so that engine tests do not change when
+//! the data does). Values are `common practice`, from memory; they are simplified on
+//! purpose and are not the shipped catalogue.
 
 use crate::chem::Composition;
 use crate::rules::*;
@@ -81,12 +81,14 @@ pub fn group(
         name: id.replace('_', " "),
         atoms: Composition::from_pairs(atoms.iter().copied()),
         dbe,
+        ring_closures: 0,
         bonds,
         subtype_of: Vec::new(),
         excludes: Vec::new(),
         requires_any: Vec::new(),
         bands,
         ms: Vec::new(),
+        checks: Vec::new(),
         ionic: None,
         salt_of: None,
         note: None,

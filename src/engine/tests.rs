@@ -474,3 +474,60 @@ fn the_generator_builds_the_molecules_it_claims() {
     let g = generate(2, &[4], &[2], None).unwrap_or_else(|| panic!("generated"));
     assert_eq!(g.formula, "C8H9Cl1");
 }
+
+#[test]
+fn a_catalogue_past_512_concrete_groups_is_not_cut() {
+    // The group bit sets grow: a group placed after 600 others is still enumerated.
+    let mut cat = small_catalogue();
+    let chloro = cat.group("chloro").cloned().expect("testkit has chloro");
+    let mut late_ketone = cat.group("ketone").cloned().expect("testkit has ketone");
+    for k in 0..600 {
+        let mut pad = chloro.clone();
+        pad.id = format!("padding_{k}");
+        cat.groups.push(pad);
+    }
+    late_ketone.id = "ketone_late".into();
+    cat.groups.push(late_ketone);
+    let c = case(
+        "formula: C3H6O\nir:\n  technique: film\n  bands:\n    - { at: 2965, strength: medium }\n    - { at: 1715, strength: strong }\n",
+    );
+    let options = SolveOptions::default();
+    let problem = Problem::new(&c, &cat, &options, &BTreeSet::new());
+    let late = problem
+        .groups
+        .iter()
+        .position(|g| g.group.id == "ketone_late")
+        .expect("the late group is in the problem");
+    assert!(late > 512, "index {late}");
+    let o = solve(&c, &cat, &options);
+    assert!(
+        o.candidates
+            .iter()
+            .any(|cand| cand.groups.contains_key("ketone_late")),
+        "{:?}",
+        families(&o)
+    );
+}
+
+#[test]
+fn the_free_composition_search_reports_its_limit_instead_of_answering_no() {
+    // The formula set aside: the search must find groups for the 1715 and 2230 bands.
+    // With one step it cannot decide and must say so; with its normal budget it decides.
+    let c = case(
+        "formula: C8H7NO\nir:\n  technique: film\n  bands:\n    - { at: 2230, strength: medium }\n    - { at: 1715, strength: strong }\n",
+    );
+    let cat = small_catalogue();
+    let options = SolveOptions::default();
+    let problem = Problem::new(&c, &cat, &options, &BTreeSet::from([EvidenceItem::Formula]));
+    assert!(problem.formula.is_none());
+    match conflicts::free_composition_feasible_within(&problem, 1) {
+        conflicts::Consistency::Undecided(why) => {
+            assert!(why.contains("stopped after 1 search steps"), "{why}")
+        }
+        other => panic!("expected a reported limit, got {other:?}"),
+    }
+    assert_eq!(
+        conflicts::free_composition_feasible(&problem),
+        conflicts::Consistency::Consistent
+    );
+}

@@ -244,13 +244,7 @@ pub fn bands_from_file_contents(
                         relative_height: relative,
                         prominence: height,
                         fwhm: None,
-                        strength: if relative >= pick::STRONG_FRACTION {
-                            Strength::Strong
-                        } else if relative >= pick::MEDIUM_FRACTION {
-                            Strength::Medium
-                        } else {
-                            Strength::Weak
-                        },
+                        strength: pick::classify_strength(relative),
                         shape: None,
                         kind: BandKind::Peak,
                     }

@@ -180,7 +180,9 @@ pub fn noise_sigma(y: &[f64]) -> f64 {
     1.4826 * median(&mut d2) / 6f64.sqrt()
 }
 
-fn classify_strength(relative: f64) -> Strength {
+/// The strength class of a band `relative` times the tallest band's height (the one
+/// implementation of the strength scale, used for picked bands and for peak tables).
+pub fn classify_strength(relative: f64) -> Strength {
     if relative >= STRONG_FRACTION {
         Strength::Strong
     } else if relative >= MEDIUM_FRACTION {

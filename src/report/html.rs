@@ -296,6 +296,13 @@ pub fn render(v: &ReportView) -> String {
             for x in &c.explanation {
                 let _ = writeln!(s, "<li>because {}</li>", escape(x));
             }
+            for x in &c.search_limits {
+                let _ = writeln!(
+                    s,
+                    "<li>search limit: {} (the set may not be minimal)</li>",
+                    escape(x)
+                );
+            }
             for x in &c.suggested_causes {
                 let _ = writeln!(s, "<li>check: {}</li>", escape(x));
             }

@@ -213,6 +213,12 @@ pub fn render(v: &ReportView) -> String {
             for x in &c.explanation {
                 push(format!("- because {}", md(x)));
             }
+            for x in &c.search_limits {
+                push(format!(
+                    "- search limit: {} (the set may not be minimal)",
+                    md(x)
+                ));
+            }
             for x in &c.suggested_causes {
                 push(format!("- check: {}", md(x)));
             }

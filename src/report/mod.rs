@@ -68,14 +68,5 @@ pub fn render(view: &ReportView, format: Format) -> String {
     }
 }
 
-/// The cautions every report carries (DESIGN.md and the product owner's rules).
-pub const REPORT_CAUTIONS: [&str; 5] = [
-    "this is a screening lead, not an identification",
-    "confirm against a reference standard with the laboratory's validated method",
-    "combine independent techniques as the laboratory's accreditation requires",
-    "treat the unknown as hazardous until it is identified",
-    "local regulations and licensed practice prevail",
-];
-
 #[cfg(test)]
 mod tests;

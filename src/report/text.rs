@@ -278,6 +278,12 @@ pub fn render(v: &ReportView) -> String {
             for e in &c.explanation {
                 line(&mut s, format!("    because {e}"));
             }
+            for limit in &c.search_limits {
+                line(
+                    &mut s,
+                    format!("    search limit: {limit} (the set may not be minimal)"),
+                );
+            }
             for cause in &c.suggested_causes {
                 line(&mut s, format!("    check: {cause}"));
             }

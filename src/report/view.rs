@@ -3,7 +3,6 @@
 //! the engine or the case directly, so every format says the same thing.
 
 use super::plot::PlotTrace;
-use super::REPORT_CAUTIONS;
 use crate::case::{Case, Review, Sample};
 use crate::engine::{Conflict, DiscriminatingCheck, EvidenceCheck, NearMiss, Outcome, RuledOut};
 use serde::Serialize;
@@ -523,7 +522,7 @@ pub fn build(
         near_misses: outcome.near_misses.clone(),
         conflicts: outcome.conflicts.clone(),
         discriminating_checks: outcome.discriminating_checks.clone(),
-        cautions: REPORT_CAUTIONS.iter().map(|c| (*c).to_owned()).collect(),
+        cautions: outcome.cautions.clone(),
         provenance,
         plot,
         library: None,

@@ -19,11 +19,11 @@
 //! - every id of [`REQUIRED_GROUP_IDS`] exists.
 
 use super::model::{
-    ArtefactRule, BandOverride, BandRule, Catalogue, Group, Ionic, MsClue, MsClueKind, OpenBonds,
-    PatternRule, Range, RuleRef, Shift, SkeletonRule, TechniqueEffect,
+    ArtefactRule, BandOverride, BandRule, Catalogue, Group, GroupCheck, Ionic, MsClue, MsClueKind,
+    OpenBonds, PatternRule, Range, RuleRef, Shift, SkeletonRule, TechniqueEffect,
 };
 use super::raw::{
-    RawArtefact, RawBand, RawGroup, RawMsClue, RawPattern, RawRange, RawSkeleton,
+    RawArtefact, RawBand, RawCheck, RawGroup, RawMsClue, RawPattern, RawRange, RawSkeleton,
     RawTechniqueEffect, SECTIONS,
 };
 use super::REQUIRED_GROUP_IDS;
@@ -496,6 +496,17 @@ impl<'a> Loader<'a> {
         })
     }
 
+    fn check(&mut self, place: &Place, raw: RawCheck) -> GroupCheck {
+        self.check_text(place, "text", &raw.text);
+        let source = self.check_source(place, &raw.source);
+        GroupCheck {
+            kind: raw.kind,
+            text: raw.text,
+            source,
+            defined_at: self.rule_ref(place),
+        }
+    }
+
     fn add_group(&mut self, mut raw: RawGroup, place: Place) {
         self.check_id(&place, &raw.id);
         self.check_text(&place, "name", &raw.name);
@@ -586,6 +597,10 @@ impl<'a> Loader<'a> {
                 ms.push(clue);
             }
         }
+        let mut checks = Vec::new();
+        for (i, c) in std::mem::take(&mut raw.checks).into_iter().enumerate() {
+            checks.push(self.check(&place.key("checks").index(i), c));
+        }
         let ionic = self.ionic(&raw, &place);
         let group = Group {
             ionic,
@@ -594,12 +609,14 @@ impl<'a> Loader<'a> {
             name: raw.name,
             atoms,
             dbe: raw.dbe,
+            ring_closures: raw.ring_closures,
             bonds,
             subtype_of: raw.subtype_of,
             excludes: raw.excludes,
             requires_any: raw.requires_any,
             bands,
             ms,
+            checks,
             note: raw.note,
             source,
             defined_at: self.rule_ref(&place),

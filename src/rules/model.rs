@@ -240,6 +240,41 @@ pub struct MsClue {
     pub defined_at: RuleRef,
 }
 
+/// The kind of a check outside IR and MS.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CheckKind {
+    /// A simple wet-chemical test (colour, precipitate, effervescence).
+    WetTest,
+    /// A region of the NMR spectrum.
+    Nmr,
+}
+
+impl CheckKind {
+    /// The catalogue word (`wet_test`, `nmr`), also used in outcomes.
+    pub fn word(self) -> &'static str {
+        match self {
+            CheckKind::WetTest => "wet_test",
+            CheckKind::Nmr => "nmr",
+        }
+    }
+}
+
+/// A check outside IR and MS that tells a group apart (a wet test, an NMR region):
+/// offered as a discriminating check when one candidate holds the group and another
+/// does not. A subtype inherits the checks of its parents.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct GroupCheck {
+    /// Wet test or NMR.
+    pub kind: CheckKind,
+    /// What to do and what a positive result looks like.
+    pub text: String,
+    /// Source.
+    pub source: String,
+    /// Where the check is defined.
+    pub defined_at: RuleRef,
+}
+
 /// A functional group.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Group {
@@ -251,6 +286,9 @@ pub struct Group {
     pub atoms: Composition,
     /// Rings plus pi bonds inside the group.
     pub dbe: u32,
+    /// Rings the group closes through atoms outside it (lactone, lactam: 1); counted in
+    /// `dbe`.
+    pub ring_closures: u32,
     /// Open valences.
     pub bonds: OpenBonds,
     /// Parent ids this group refines.
@@ -264,6 +302,8 @@ pub struct Group {
     pub bands: Vec<BandRule>,
     /// MS clues.
     pub ms: Vec<MsClue>,
+    /// Wet tests and NMR regions for the group (its parents' apply too).
+    pub checks: Vec<GroupCheck>,
     /// The group as it stands in a salt, when it is a salt form (its atoms are then the
     /// neutral parent's: the engine deduces the free base or free acid).
     pub ionic: Option<Ionic>,

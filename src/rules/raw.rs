@@ -6,7 +6,7 @@
 //! with any of the sections listed in [`SECTIONS`]; each section is a list, and the loader
 //! hands each list item to serde on its own so that one bad item does not hide the others.
 
-use super::model::{BandRole, ExpectedShape, ExpectedStrength, Technique};
+use super::model::{BandRole, CheckKind, ExpectedShape, ExpectedStrength, Technique};
 use serde::Deserialize;
 use std::collections::BTreeMap;
 
@@ -70,6 +70,22 @@ pub struct RawGroup {
     /// MS clues.
     #[serde(default)]
     pub ms: Vec<RawMsClue>,
+    /// Checks outside IR and MS (wet tests, NMR regions) that tell the group apart.
+    #[serde(default)]
+    pub checks: Vec<RawCheck>,
+}
+
+/// One item of a group's `checks:` — a wet test or an NMR region for the group.
+#[derive(Clone, Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCheck {
+    /// `wet_test | nmr`.
+    pub kind: CheckKind,
+    /// What to do and what a positive result looks like.
+    pub text: String,
+    /// Source.
+    #[serde(default)]
+    pub source: Option<String>,
 }
 
 /// `bonds:` of a group; omitted kinds are 0.

@@ -3,14 +3,19 @@
 //! alkyne, carbonyl conjugation, alcohol class — and a simple scoring of those features
 //! against observed bands, each check with its explanation.
 //!
-//! The band expectations below are facts of the trade (`common practice`, values
-//! `from memory`); they support or weaken a structure and never rule one out (most lie in
-//! the fingerprint region, DESIGN.md evidence rule 4). The engine may later replace them by
-//! the catalogue's own pattern rules; the feature struct is the interface.
+//! Ring and alkene substitution patterns are read from the rules catalogue's `patterns:`
+//! (one source for the engine and the structure ranking): each pattern feature names the
+//! catalogue pattern ids it stands for ([`RingPattern::pattern_ids`],
+//! [`AlkenePattern::pattern_ids`]), and a test keeps every named id in the shipped
+//! catalogue. A feature whose pattern the catalogue lacks has nothing to check. The
+//! alkyne, carbonyl and alcohol expectations below are facts of the trade
+//! (`common practice`, values `from memory`). All of them support or weaken a structure
+//! and never rule one out (most lie in the fingerprint region, DESIGN.md evidence rule 4).
 
 use super::aromatic::aromatic_rings;
 use super::molecule::{Bond, Element, Molecule};
 use crate::ir::{Band, Strength};
+use crate::rules::{ExpectedStrength, PatternRule};
 use std::fmt;
 
 /// Substitution pattern of one benzene ring.
@@ -373,57 +378,95 @@ pub struct Expectation {
     pub any_of: bool,
     /// Weakest band strength that counts.
     pub min_strength: Strength,
-    /// What the bands are.
-    pub assignment: &'static str,
+    /// What the bands are (and, for a catalogue pattern, its id).
+    pub assignment: String,
 }
 
-fn expect(
-    ranges: &[(f64, f64)],
-    min_strength: Strength,
-    assignment: &'static str,
-) -> Option<Expectation> {
+fn expect(ranges: &[(f64, f64)], min_strength: Strength, assignment: &str) -> Option<Expectation> {
     Some(Expectation {
         ranges: ranges.to_vec(),
         any_of: false,
         min_strength,
-        assignment,
+        assignment: assignment.to_owned(),
     })
 }
 
-/// The band expectation of a ring pattern (`common practice`, `from memory`:
-/// C–H out-of-plane bending of substituted benzenes).
-pub fn ring_expectation(p: RingPattern) -> Option<Expectation> {
-    use RingPattern as R;
-    let oop = "aromatic C-H out-of-plane bend";
-    match p {
-        R::Mono => expect(&[(730.0, 770.0), (690.0, 710.0)], Strength::Medium, oop),
-        R::Ortho => expect(&[(735.0, 770.0)], Strength::Medium, oop),
-        R::Meta => expect(&[(750.0, 810.0), (690.0, 710.0)], Strength::Medium, oop),
-        R::Para => expect(&[(800.0, 860.0)], Strength::Medium, oop),
-        R::Tri124 => expect(&[(805.0, 825.0), (870.0, 885.0)], Strength::Medium, oop),
-        R::Tri123 => expect(&[(760.0, 800.0)], Strength::Medium, oop),
-        R::Tri135 => expect(&[(810.0, 865.0)], Strength::Medium, oop),
-        _ => None,
+impl RingPattern {
+    /// The catalogue pattern ids (`patterns:` in `rules/patterns.yaml`) this ring
+    /// pattern stands for; empty when the catalogue has none for it.
+    pub fn pattern_ids(self) -> &'static [&'static str] {
+        match self {
+            RingPattern::Mono => &["benzene_monosubstituted_oop"],
+            RingPattern::Ortho => &["benzene_ortho_oop"],
+            RingPattern::Meta => &["benzene_meta_oop"],
+            RingPattern::Para => &["benzene_para_oop"],
+            _ => &[],
+        }
     }
 }
 
-/// The band expectation of an alkene pattern (`common practice`, `from memory`:
-/// =C–H out-of-plane bending).
-pub fn alkene_expectation(p: AlkenePattern) -> Option<Expectation> {
-    use AlkenePattern as A;
-    let oop = "=C-H out-of-plane bend";
-    match p {
-        A::Vinyl => expect(&[(985.0, 995.0), (905.0, 915.0)], Strength::Medium, oop),
-        A::Vinylidene => expect(&[(885.0, 895.0)], Strength::Medium, oop),
-        A::Disubstituted12 => Some(Expectation {
-            ranges: vec![(960.0, 980.0), (665.0, 730.0)],
-            any_of: true,
-            min_strength: Strength::Medium,
-            assignment: "=C-H out-of-plane bend (trans 980-960, cis 730-665)",
-        }),
-        A::Trisubstituted => expect(&[(790.0, 840.0)], Strength::Medium, oop),
-        A::Unsubstituted | A::Tetrasubstituted => None,
+impl AlkenePattern {
+    /// The catalogue pattern ids this alkene pattern stands for (a 1,2-disubstituted C=C
+    /// is cis or trans, which the constitution does not tell: either pattern will do).
+    pub fn pattern_ids(self) -> &'static [&'static str] {
+        match self {
+            AlkenePattern::Vinyl => &["alkene_vinyl_oop"],
+            AlkenePattern::Vinylidene => &["alkene_vinylidene_oop"],
+            AlkenePattern::Disubstituted12 => &["alkene_cis_oop", "alkene_trans_oop"],
+            AlkenePattern::Trisubstituted => &["alkene_trisubstituted_oop"],
+            AlkenePattern::Unsubstituted | AlkenePattern::Tetrasubstituted => &[],
+        }
     }
+}
+
+/// The weakest observed strength that stands for an expected one: one class weaker (the
+/// engine's rule without technique weakening, `engine::constraints::diagnostic_bands`).
+fn weakest_for(expected: ExpectedStrength) -> Strength {
+    match expected {
+        ExpectedStrength::Strong => Strength::Medium,
+        ExpectedStrength::Medium | ExpectedStrength::Weak | ExpectedStrength::Variable => {
+            Strength::Weak
+        }
+    }
+}
+
+/// The band expectation of catalogue patterns `ids` (the bands of one pattern all
+/// expected together; with several ids, one pattern's bands are enough): `None` when the
+/// catalogue lacks every id.
+pub fn pattern_expectation(ids: &[&str], patterns: &[PatternRule]) -> Option<Expectation> {
+    let found: Vec<&PatternRule> = ids
+        .iter()
+        .filter_map(|id| patterns.iter().find(|p| p.id == *id))
+        .collect();
+    let any_of = found.len() > 1;
+    let mut ranges = Vec::new();
+    let mut min_strength = Strength::Strong;
+    let mut words = Vec::new();
+    for p in &found {
+        // With several patterns, each contributes its first band (one of them suffices).
+        let bands = if any_of {
+            &p.bands[..1.min(p.bands.len())]
+        } else {
+            &p.bands[..]
+        };
+        for b in bands {
+            ranges.push((b.range.lo, b.range.hi));
+            min_strength = min_strength.min(weakest_for(b.strength));
+        }
+        words.push(format!(
+            "{} ({}:{})",
+            p.id, p.defined_at.file, p.defined_at.line
+        ));
+    }
+    if ranges.is_empty() {
+        return None;
+    }
+    Some(Expectation {
+        ranges,
+        any_of,
+        min_strength,
+        assignment: format!("catalogue pattern {}", words.join(" or ")),
+    })
 }
 
 /// The band expectation of an alkyne (`common practice`, `from memory`).
@@ -509,20 +552,24 @@ pub struct FeatureScore {
     pub checks: Vec<FeatureCheck>,
 }
 
-/// Scores `f` against `bands`; a band matches a range when it lies within `tolerance`
-/// cm⁻¹ of it and is at least the expected strength.
-pub fn score_features(f: &StructureFeatures, bands: &[Band], tolerance: f64) -> FeatureScore {
+/// Scores `f` against `bands`, ring and alkene patterns from the catalogue's `patterns`;
+/// a band matches a range when it lies within `tolerance` cm⁻¹ of it and is at least the
+/// expected strength.
+pub fn score_features(
+    f: &StructureFeatures,
+    bands: &[Band],
+    tolerance: f64,
+    patterns: &[PatternRule],
+) -> FeatureScore {
     let mut items: Vec<(String, Option<Expectation>)> = Vec::new();
-    items.extend(
-        f.rings
-            .iter()
-            .map(|&p| (format!("benzene ring: {p}"), ring_expectation(p))),
-    );
-    items.extend(
-        f.alkenes
-            .iter()
-            .map(|&p| (format!("C=C: {p}"), alkene_expectation(p))),
-    );
+    items.extend(f.rings.iter().map(|&p| {
+        let e = pattern_expectation(p.pattern_ids(), patterns);
+        (format!("benzene ring: {p}"), e)
+    }));
+    items.extend(f.alkenes.iter().map(|&p| {
+        let e = pattern_expectation(p.pattern_ids(), patterns);
+        (format!("C=C: {p}"), e)
+    }));
     items.extend(
         f.alkynes
             .iter()
@@ -685,8 +732,11 @@ mod tests {
             band(1684.0, Strength::Strong),
             band(820.0, Strength::Strong),
         ];
+        let patterns = crate::rules::embedded_catalogue()
+            .expect("shipped catalogue")
+            .patterns;
         let para = of("CC(=O)c1ccc(C)cc1");
-        let s = score_features(&para, &bands, 10.0);
+        let s = score_features(&para, &bands, 10.0, &patterns);
         assert_eq!(s.score, 2.0);
         assert!(s
             .checks
@@ -699,7 +749,7 @@ mod tests {
         );
         // the ortho isomer expects 770-735: not seen, so it scores lower
         let ortho = of("CC(=O)c1ccccc1C");
-        let t = score_features(&ortho, &bands, 10.0);
+        let t = score_features(&ortho, &bands, 10.0, &patterns);
         assert_eq!(t.score, 0.0);
         assert!(t
             .checks
@@ -707,7 +757,68 @@ mod tests {
             .any(|c| c.verdict == FeatureVerdict::NotSeen));
         // an unconjugated ketone expects 1725-1705: the 1684 band is outside
         let plain = of("CCCCCC(C)=O");
-        let u = score_features(&plain, &bands, 10.0);
+        let u = score_features(&plain, &bands, 10.0, &patterns);
         assert_eq!(u.checks[0].verdict, FeatureVerdict::NotSeen);
+    }
+
+    #[test]
+    fn every_pattern_the_structure_code_names_is_a_catalogue_pattern_of_its_group() {
+        // One source: the ring and alkene checks read the catalogue's patterns, so every
+        // id they name must exist there and support the group the feature belongs to.
+        let catalogue = crate::rules::embedded_catalogue().expect("shipped catalogue");
+        use AlkenePattern as A;
+        use RingPattern as R;
+        let rings = [
+            R::Unsubstituted,
+            R::Mono,
+            R::Ortho,
+            R::Meta,
+            R::Para,
+            R::Tri123,
+            R::Tri124,
+            R::Tri135,
+            R::Tetra1234,
+            R::Tetra1235,
+            R::Tetra1245,
+            R::Penta,
+            R::Hexa,
+        ];
+        let alkenes = [
+            A::Unsubstituted,
+            A::Vinyl,
+            A::Vinylidene,
+            A::Disubstituted12,
+            A::Trisubstituted,
+            A::Tetrasubstituted,
+        ];
+        let named: Vec<(&str, &str)> = rings
+            .iter()
+            .flat_map(|p| p.pattern_ids().iter().map(|id| (*id, "aromatic_ring")))
+            .chain(
+                alkenes
+                    .iter()
+                    .flat_map(|p| p.pattern_ids().iter().map(|id| (*id, "alkene"))),
+            )
+            .collect();
+        assert!(named.len() >= 9, "{named:?}");
+        for (id, group) in named {
+            let p = catalogue.patterns.iter().find(|p| p.id == id);
+            let p = p.unwrap_or_else(|| panic!("pattern {id} is not in the catalogue"));
+            assert_eq!(p.supports, group, "{id}");
+        }
+        // and every catalogue pattern is used by the structure ranking
+        for p in &catalogue.patterns {
+            let used = rings
+                .iter()
+                .any(|r| r.pattern_ids().contains(&p.id.as_str()))
+                || alkenes
+                    .iter()
+                    .any(|a| a.pattern_ids().contains(&p.id.as_str()));
+            assert!(
+                used,
+                "catalogue pattern {} is not checked on structures",
+                p.id
+            );
+        }
     }
 }

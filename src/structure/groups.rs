@@ -254,6 +254,30 @@ impl GroupsError {
 
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn every_group_id_the_code_names_is_in_the_shipped_catalogue_with_its_dbe() {
+        // The generator's ids are the code's own names for groups: each must exist in the
+        // shipped catalogue, be a required id (or `ring`), and consume the catalogue's DBE.
+        let catalogue = crate::rules::embedded_catalogue().expect("shipped catalogue");
+        for g in GroupId::ALL {
+            let entry = catalogue.group(g.id());
+            let entry = entry.unwrap_or_else(|| panic!("{} is not in the catalogue", g.id()));
+            assert!(
+                g.id() == "ring" || crate::rules::REQUIRED_GROUP_IDS.contains(&g.id()),
+                "{} is neither a required id nor ring",
+                g.id()
+            );
+            assert_eq!(g.dbe(), entry.dbe, "DBE of {}", g.id());
+        }
+        // and every required id is one the generator can build
+        for id in crate::rules::REQUIRED_GROUP_IDS {
+            assert!(
+                GroupId::from_id(id).is_some(),
+                "no structure template for {id}"
+            );
+        }
+    }
+
     use super::*;
 
     #[test]

@@ -28,6 +28,7 @@ pub use smiles::{parse_smiles, to_smiles, SmilesError};
 
 use crate::chem::Formula;
 use crate::ir::Band;
+use crate::rules::PatternRule;
 use std::ops::ControlFlow;
 
 /// One generated structure with what the report needs.
@@ -55,9 +56,10 @@ impl Structure {
         }
     }
 
-    /// Scores the structure's features against observed bands (tolerance in cm⁻¹).
-    pub fn score(&self, bands: &[Band], tolerance: f64) -> FeatureScore {
-        score_features(&self.features, bands, tolerance)
+    /// Scores the structure's features against observed bands (tolerance in cm⁻¹), ring
+    /// and alkene patterns from the catalogue's `patterns`.
+    pub fn score(&self, bands: &[Band], tolerance: f64, patterns: &[PatternRule]) -> FeatureScore {
+        score_features(&self.features, bands, tolerance, patterns)
     }
 }
 
@@ -109,16 +111,18 @@ pub fn enumerate_with_progress(
 }
 
 /// Structures ranked best first by the score of their features against `bands`
-/// (tolerance in cm⁻¹); equal scores keep their order (SMILES order from [`enumerate`]).
+/// (tolerance in cm⁻¹; ring and alkene patterns from the catalogue's `patterns`); equal
+/// scores keep their order (SMILES order from [`enumerate`]).
 pub fn rank_by_bands(
     structures: Vec<Structure>,
     bands: &[Band],
     tolerance: f64,
+    patterns: &[PatternRule],
 ) -> Vec<(Structure, FeatureScore)> {
     let mut ranked: Vec<(Structure, FeatureScore)> = structures
         .into_iter()
         .map(|s| {
-            let score = s.score(bands, tolerance);
+            let score = s.score(bands, tolerance, patterns);
             (s, score)
         })
         .collect();
@@ -153,7 +157,8 @@ mod tests {
         let formula = Formula::parse("C10H12O").expect("formula");
         let groups = GroupCounts::parse("ketone:1,aromatic_ring:1").expect("groups");
         let e = enumerate(&formula, Some(&groups), None).expect("enumerate");
-        let ranked = rank_by_bands(e.structures, &bands, 10.0);
+        let catalogue = crate::rules::embedded_catalogue().expect("shipped catalogue");
+        let ranked = rank_by_bands(e.structures, &bands, 10.0, &catalogue.patterns);
         let best: Vec<&str> = ranked
             .iter()
             .filter(|(_, score)| score.score == 2.0)

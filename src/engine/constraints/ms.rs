@@ -6,39 +6,18 @@
 //! Characteristic ions and neutral losses of the catalogue are soft evidence for groups.
 
 use crate::case::{IonType, MsEvidence};
-use crate::chem::{aggregated_pattern, Formula};
-use crate::rules::{Group, MsClueKind};
+use crate::chem::Formula;
+use crate::ms::{match_fragments, ObservedFragment};
+use crate::rules::{Group, MsClue, MsClueKind};
 
-/// How far a fragment m/z may sit from a clue's nominal m/z (unit-resolution EI data).
-pub const FRAGMENT_TOLERANCE: f64 = 0.5;
+/// How far a fragment m/z may sit from a clue's nominal m/z (unit-resolution EI data):
+/// the MS layer's own tolerance.
+pub const FRAGMENT_TOLERANCE: f64 = crate::ms::DEFAULT_FRAGMENT_TOLERANCE;
 
-/// The ion formula added to (or removed from) M, as (formula text, sign, charge).
-fn adduct(ion: IonType) -> (Option<&'static str>, i32, i32) {
-    match ion {
-        IonType::RadicalCation => (None, 0, 1),
-        IonType::Protonated => (Some("H"), 1, 1),
-        IonType::Sodiated => (Some("Na"), 1, 1),
-        IonType::Potassiated => (Some("K"), 1, 1),
-        IonType::Ammoniated => (Some("NH4"), 1, 1),
-        IonType::Deprotonated => (Some("H"), -1, -1),
-    }
-}
-
-/// The monoisotopic m/z and nominal m/z of `formula` as ion type `ion`.
+/// The monoisotopic m/z and nominal m/z of `formula` as ion type `ion`: the m/z of the
+/// ion's formula as [`IonType::ion_formula`] builds it (electron mass included).
 pub fn ion_mz(formula: &Formula, ion: IonType) -> Option<(f64, i64)> {
-    let (extra, sign, charge) = adduct(ion);
-    let species = match extra {
-        None => formula.clone(),
-        Some(text) => {
-            let a = Formula::parse(text).ok()?;
-            if sign > 0 {
-                formula.plus(&a).ok()?
-            } else {
-                formula.minus(&a).ok()?
-            }
-        }
-    };
-    let species = species.with_charge(charge);
+    let species = ion.ion_formula(formula)?;
     Some((species.mz()?, species.nominal_mass() as i64))
 }
 
@@ -85,22 +64,11 @@ pub fn check_molecular_ion(formula: &Formula, ms: &MsEvidence, observed: f64) ->
     }
 }
 
-/// The formula's M+1 and M+2 in percent of M (the monoisotopic peak).
+/// The formula's M+1 and M+2 in percent of M (the monoisotopic peak), as the MS layer
+/// computes them ([`crate::ms::isotope_ratios`]).
 pub fn isotope_percentages(formula: &Formula) -> (f64, f64) {
-    let pattern = aggregated_pattern(formula);
-    let m = formula.monoisotopic_mass();
-    let near = |offset: f64| {
-        pattern
-            .peaks()
-            .iter()
-            .find(|p| (p.mz - m - offset).abs() < 0.5)
-            .map_or(0.0, |p| p.probability)
-    };
-    let base = near(0.0);
-    if base <= 0.0 {
-        return (0.0, 0.0);
-    }
-    (near(1.0) / base * 100.0, near(2.0) / base * 100.0)
+    let ratios = crate::ms::isotope_ratios(formula);
+    (ratios.m1, ratios.m2)
 }
 
 /// Compares a stated isotope percentage with the calculated one. Tolerance: the larger of
@@ -131,33 +99,38 @@ pub fn m_plus_2_reading(observed: f64) -> String {
     }
 }
 
-/// MS clues of `group` that the stated fragments match, in words.
+/// MS clues of `group` that the stated fragments match, in words: the MS layer's
+/// [`match_fragments`] (losses from the nominal molecular ion), the most intense matching
+/// fragment per clue.
 pub fn matched_clues(
     group: &Group,
     ms: &MsEvidence,
     molecular_nominal: Option<f64>,
 ) -> Vec<String> {
+    let clues: Vec<(&str, &MsClue)> = group.ms.iter().map(|c| (group.id.as_str(), c)).collect();
+    let observed: Vec<ObservedFragment> = ms
+        .fragments
+        .iter()
+        .map(|((mz, relative_intensity), _)| ObservedFragment {
+            mz: *mz,
+            relative_intensity: *relative_intensity,
+        })
+        .collect();
+    let matches = match_fragments(&clues, molecular_nominal, &observed, FRAGMENT_TOLERANCE);
     let mut out = Vec::new();
     for clue in &group.ms {
-        let hit = match clue.kind {
-            MsClueKind::Ion { mz } => ms
-                .fragments
-                .iter()
-                .find(|((f, _), _)| (f - mz).abs() <= FRAGMENT_TOLERANCE)
-                .map(|((f, _), _)| format!("m/z {f}")),
-            MsClueKind::Loss { mass } => molecular_nominal.and_then(|m| {
-                ms.fragments
-                    .iter()
-                    .find(|((f, _), _)| (m - mass - f).abs() <= FRAGMENT_TOLERANCE)
-                    .map(|((f, _), _)| format!("m/z {f} = M − {mass}"))
-            }),
+        let Some(hit) = matches.iter().find(|m| std::ptr::eq(m.clue, clue)) else {
+            continue;
         };
-        if let Some(h) = hit {
-            out.push(format!(
-                "{} ({h}; {}:{})",
-                clue.label, clue.defined_at.file, clue.defined_at.line
-            ));
-        }
+        let f = hit.observed.mz;
+        let what = match clue.kind {
+            MsClueKind::Ion { .. } => format!("m/z {f}"),
+            MsClueKind::Loss { mass } => format!("m/z {f} = M − {mass}"),
+        };
+        out.push(format!(
+            "{} ({what}; {}:{})",
+            clue.label, clue.defined_at.file, clue.defined_at.line
+        ));
     }
     out
 }
