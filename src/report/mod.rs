@@ -67,7 +67,7 @@ pub fn render(view: &ReportView, format: Format) -> String {
     }
 }
 
-/// The cautions every report carries (DESIGN.md and the product owner's rules).
+/// The cautions every report carries (a screening lead, never an identification; see README.md).
 pub const REPORT_CAUTIONS: [&str; 5] = [
     "this is a screening lead, not an identification",
     "confirm against a reference standard with the laboratory's validated method",

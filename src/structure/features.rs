@@ -5,7 +5,8 @@
 //!
 //! The band expectations below are facts of the trade (`common practice`, values
 //! `from memory`); they support or weaken a structure and never rule one out (most lie in
-//! the fingerprint region, DESIGN.md evidence rule 4). The engine may later replace them by
+//! the fingerprint region, where bands support or weaken and alone rule nothing out;
+//! see docs/engine.md, evidence semantics 4). The engine may later replace them by
 //! the catalogue's own pattern rules; the feature struct is the interface.
 
 use super::aromatic::aromatic_rings;
