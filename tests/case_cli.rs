@@ -1,25 +1,25 @@
 //! The case commands as a user runs them: `solve --report/--record`, `review`, `batch`,
-//! `new-case`, comparing exit status and the words on stdout/stderr.
+//! `new-case`, each run in a scratch copy of the demo folder and compared in full (stdout,
+//! stderr, exit status; see `tests/support/cli.rs`, expectations in `tests/expect/case/`).
+//! The files the commands write are checked beside.
 
 #![allow(clippy::unwrap_used, clippy::expect_used)] // a test panics on purpose
 
+#[path = "support/cli.rs"]
+mod cli;
+use cli::Ran;
 use std::path::Path;
-use std::process::{Command, Output};
 
-fn quiddity(args: &[&str], cwd: &Path) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .args(args)
-        .current_dir(cwd)
-        .output()
-        .expect("the binary runs")
+fn quiddity(args: &[&str], cwd: &Path) -> Ran {
+    cli::quiddity(args.iter().copied()).cwd(cwd).run()
 }
 
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
+fn stdout(o: &Ran) -> String {
+    o.stdout.clone()
 }
 
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
+fn stderr(o: &Ran) -> String {
+    o.stderr.clone()
 }
 
 /// A temp copy of the demo directory.
@@ -70,7 +70,7 @@ fn solve_record_review_then_tamper() {
         ],
         dir.path(),
     );
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    o.expect_file("case/solve-report-record");
     assert!(stderr(&o).contains("record written: cases/lab-0111-spectrum-ketone.record.json"));
     assert!(dir.path().join("out/r.html").exists() && dir.path().join("out/r.json").exists());
     assert_eq!(
@@ -79,9 +79,13 @@ fn solve_record_review_then_tamper() {
         "the case file is never modified"
     );
 
-    let o = quiddity(&["review", case], dir.path());
-    assert_eq!(o.status.code(), Some(0), "{}{}", stdout(&o), stderr(&o));
-    assert!(stdout(&o).starts_with(&format!("review of {case}: agrees with the record")));
+    quiddity(&["review", case], dir.path()).expect(
+        0,
+        &format!(
+            "review of {case}: agrees with the record cases/lab-0111-spectrum-ketone.record.json\n"
+        ),
+        "",
+    );
 
     let spectrum = dir.path().join("cases/spectra/aromatic-ketone-like.jdx");
     let text = std::fs::read_to_string(&spectrum).unwrap();
@@ -91,7 +95,7 @@ fn solve_record_review_then_tamper() {
     )
     .unwrap();
     let o = quiddity(&["review", case], dir.path());
-    assert_eq!(o.status.code(), Some(1));
+    o.expect_file("case/review-after-tamper");
     assert!(
         stdout(&o)
             .contains("  - spectrum file spectra/aromatic-ketone-like.jdx changed since recording"),
@@ -99,7 +103,8 @@ fn solve_record_review_then_tamper() {
         stdout(&o)
     );
     let o = quiddity(&["review", case, "--json"], dir.path());
-    let json: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    o.expect_file("case/review-after-tamper-json");
+    let json = o.json();
     assert_eq!(json["agrees"], false);
     assert_eq!(json["differences"][0]["kind"], "input_changed");
 }
@@ -111,7 +116,7 @@ fn an_unknown_report_extension_is_bad_usage() {
         &["solve", "cases/lab-0105-ester.yaml", "--report", "r.pdf"],
         dir.path(),
     );
-    assert_eq!(o.status.code(), Some(2));
+    o.expect_file("case/solve-report-pdf");
     assert!(stderr(&o).contains("cannot tell the report format from the extension \"pdf\""));
 }
 
@@ -122,7 +127,7 @@ fn batch_writes_one_report_per_case_and_a_summary() {
         &["batch", "cases", "--out", "out/reports", "--threads", "2"],
         dir.path(),
     );
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    o.expect_file("case/batch");
     let n_cases = std::fs::read_dir(dir.path().join("cases"))
         .unwrap()
         .flatten()
@@ -140,25 +145,25 @@ fn batch_writes_one_report_per_case_and_a_summary() {
     assert!(out.contains(&format!("{n_cases} case(s): {n_cases} reported, 0 failed")));
     // Again without --force: every report exists, nothing is overwritten, exit 2.
     let o = quiddity(&["batch", "cases", "--out", "out/reports"], dir.path());
-    assert_eq!(o.status.code(), Some(2));
+    o.expect_file("case/batch-again");
     assert!(stdout(&o).contains("exists; not overwritten (use --force)"));
     let o = quiddity(
         &["batch", "cases", "--out", "out/reports", "--force"],
         dir.path(),
     );
-    assert_eq!(o.status.code(), Some(0));
+    o.expect_file("case/batch-force");
 }
 
 #[test]
 fn new_case_writes_a_template_that_solves_and_never_overwrites() {
     let dir = tempfile::tempdir().unwrap();
-    let o = quiddity(&["new-case", "c.yaml"], dir.path());
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
-    let o = quiddity(&["solve", "c.yaml"], dir.path());
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
-    let o = quiddity(&["new-case", "c.yaml"], dir.path());
-    assert_eq!(o.status.code(), Some(2));
-    assert!(stderr(&o).contains("the file exists; refusing to overwrite it"));
+    quiddity(&["new-case", "c.yaml"], dir.path()).expect(0, "template written: c.yaml\n", "");
+    quiddity(&["solve", "c.yaml"], dir.path()).expect_file("case/solve-new-template");
+    quiddity(&["new-case", "c.yaml"], dir.path()).expect(
+        2,
+        "",
+        "error: c.yaml: the file exists; refusing to overwrite it\n  = help: choose another path or move the file away\n",
+    );
 }
 
 #[test]
@@ -173,7 +178,8 @@ fn a_report_into_a_folder_that_does_not_exist_yet_is_written() {
         ],
         dir.path(),
     );
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    o.status_is(0);
+    assert_eq!(stderr(&o), "report written: out/r.html\n");
     let page = std::fs::read_to_string(dir.path().join("out/r.html")).unwrap();
     assert!(page.contains("<svg"), "the page holds its plot");
 }

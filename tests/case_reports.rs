@@ -1,6 +1,11 @@
 //! Every demo case under `cases/` against its golden reports in `cases/expected/`, in all
 //! four formats. `UPDATE_EXPECT=1 cargo test --test case_reports` rewrites the golden files
 //! on purpose (review the diff before committing it). The walk fails when it finds no case.
+//!
+//! The golden files pin **layout only** (sections, wording, order, escaping): they record
+//! the program's own earlier output, so they cannot tell a right answer from a wrong one.
+//! Whether each demo case gives its designed answer is checked against
+//! `tests/corpus/demo.tsv` by `tests/corpus_measured.rs`.
 
 #![allow(clippy::unwrap_used, clippy::expect_used)] // a test panics on purpose
 

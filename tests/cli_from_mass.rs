@@ -1,22 +1,29 @@
-//! Black-box tests of `quiddity from-mass`: stdout, stderr and exit status.
+//! Black-box tests of `quiddity from-mass`: stdout, stderr and exit status compared in
+//! full (see `tests/support/cli.rs`); the formulas that matter are also checked against
+//! published masses.
 
-use std::process::{Command, Output};
+#[path = "support/cli.rs"]
+mod cli;
+use cli::Ran;
 
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .arg("from-mass")
-        .args(args)
-        .output()
-        .expect("run quiddity")
+/// Runs `quiddity from-mass ARGS` and compares the whole run with
+/// `tests/expect/from-mass/NAME.txt`.
+fn run(args: &[&str], name: &str) -> Ran {
+    let ran = cli::quiddity(std::iter::once("from-mass").chain(args.iter().copied())).run();
+    ran.expect_file(&format!("from-mass/{name}"));
+    ran
 }
 
 #[test]
 fn protonated_caffeine_json_lists_caffeine() {
     // Done-when of the issue: caffeine's formula C8H10N4O2 (published monoisotopic mass
     // 194.0804; common practice) among the candidates for [M+H]+ 195.0877 at 5 ppm.
-    let out = run(&["195.0877", "--ion", "[M+H]+", "--ppm", "5", "--json"]);
-    assert_eq!(out.status.code(), Some(0));
-    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).expect("one JSON document");
+    let out = run(
+        &["195.0877", "--ion", "[M+H]+", "--ppm", "5", "--json"],
+        "caffeine-cation-json",
+    );
+    out.status_is(0);
+    let doc = out.json();
     let candidates = doc["candidates"].as_array().expect("candidates");
     let caffeine = candidates
         .iter()
@@ -39,9 +46,12 @@ fn protonated_caffeine_json_lists_caffeine() {
 
 #[test]
 fn human_output_is_a_table_with_the_caution() {
-    let out = run(&["195.0877", "--ion", "[M+H]+", "--m1", "10.3", "--m2", "0.9"]);
-    assert_eq!(out.status.code(), Some(0));
-    let text = String::from_utf8(out.stdout).unwrap();
+    let out = run(
+        &["195.0877", "--ion", "[M+H]+", "--m1", "10.3", "--m2", "0.9"],
+        "caffeine-cation-text",
+    );
+    out.status_is(0);
+    let text = out.stdout;
     let first_row = text
         .lines()
         .find(|l| l.trim_start().starts_with("1 "))
@@ -53,53 +63,71 @@ fn human_output_is_a_table_with_the_caution() {
 
 #[test]
 fn bad_input_exits_2_with_the_place() {
-    let cases: &[(&[&str], &str)] = &[
-        (&["-5"], "error: <m/z>:1:1: m/z must be positive"),
-        (&["195.08x7"], "error: <m/z>:1:7: m/z must be a number"),
+    let cases: &[(&[&str], &str, &str)] = &[
+        (
+            &["-5"],
+            "error: <m/z>:1:1: m/z must be positive",
+            "negative",
+        ),
+        (
+            &["195.08x7"],
+            "error: <m/z>:1:7: m/z must be a number",
+            "not-a-number",
+        ),
         (
             &["99999.1"],
             "error: <m/z>:1:1: m/z must be positive and at most 5000",
+            "too-large",
         ),
         (
             &["195.0877", "--elements", "C0-30Xx0-4"],
             "error: --elements:1:6: unknown element \"Xx\"",
+            "unknown-element",
         ),
         (
             &["195.0877", "--ion", "[M+Hh]+"],
             "error: --ion:1:1: unknown ion type \"[M+Hh]+\"",
+            "unknown-ion",
         ),
         (
             &["195.0877", "--ppm", "-3"],
             "error: --ppm: tolerance must be positive",
+            "ppm-negative",
         ),
     ];
-    for (args, expected) in cases {
-        let out = run(args);
-        let stderr = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{args:?}: {stderr}");
+    for (args, expected, name) in cases {
+        let out = run(args, &format!("bad-{name}"));
+        let stderr = &out.stderr;
+        assert_eq!(out.status, Some(2), "{args:?}: {stderr}");
         assert!(
             stderr.lines().next().unwrap_or("").starts_with(expected),
             "{args:?}: {stderr}"
         );
         assert!(out.stdout.is_empty(), "{args:?}");
     }
-    let out = run(&["195.0877", "--ion", "[M+Hh]+"]);
-    assert!(String::from_utf8_lossy(&out.stderr).contains("did you mean \"[M+H]+\""));
+    let out = run(&["195.0877", "--ion", "[M+Hh]+"], "bad-ion-text");
+    assert!(out.stderr.contains("did you mean \"[M+H]+\""));
 }
 
 #[test]
 fn no_formula_exits_1() {
     // Only carbon allowed: nothing lies at m/z 195.0877 within 1 ppm.
-    let out = run(&["195.0877", "--elements", "C0-20", "--ppm", "1"]);
-    assert_eq!(out.status.code(), Some(1));
-    assert!(String::from_utf8_lossy(&out.stdout).contains("0 candidate formula(s)"));
+    let out = run(
+        &["195.0877", "--elements", "C0-20", "--ppm", "1"],
+        "carbon-only-none",
+    );
+    out.status_is(1);
+    assert!(out.stdout.contains("0 candidate formula(s)"));
 }
 
 #[test]
 fn nominal_mz_uses_the_radical_cation() {
-    let out = run(&["120", "--elements", "C0-10H0-20O0-2", "--json"]);
-    assert_eq!(out.status.code(), Some(0));
-    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let out = run(
+        &["120", "--elements", "C0-10H0-20O0-2", "--json"],
+        "nominal-120-json",
+    );
+    out.status_is(0);
+    let doc = out.json();
     assert_eq!(doc["query"]["mode"], "nominal");
     assert_eq!(doc["query"]["ion"], "M+.");
     // Acetophenone C8H8O (nominal mass 120; common practice) is among them.

@@ -1,31 +1,19 @@
-//! Black-box tests of `quiddity solve`: stdout JSON shape, stderr places, exit status.
+//! Black-box tests of `quiddity solve`: the JSON contract's shape on every demo case,
+//! and stdout, stderr and exit status compared in full (see `tests/support/cli.rs`): the
+//! human output of every demo case against `tests/expect/solve/`, bad input inline.
+//! Whether the answers are right is `tests/corpus_measured.rs`'s job (the demo cases'
+//! designed truths are in `tests/corpus/demo.tsv`); these files pin the layout.
 
+#[path = "support/cli.rs"]
+mod cli;
+use cli::quiddity;
 use std::path::Path;
-use std::process::{Command, Output};
 
-fn quiddity(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .unwrap_or_else(|e| panic!("cannot run quiddity: {e}"))
-}
-
-fn json(out: &Output) -> serde_json::Value {
-    serde_json::from_slice(&out.stdout).unwrap_or_else(|e| {
-        panic!(
-            "stdout is not one JSON document ({e}):\n{}",
-            String::from_utf8_lossy(&out.stdout)
-        )
-    })
-}
-
-fn temp_case(name: &str, text: &str) -> std::path::PathBuf {
-    let dir = std::env::temp_dir().join(format!("quiddity-cli-solve-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{e}"));
-    let path = dir.join(name);
-    std::fs::write(&path, text).unwrap_or_else(|e| panic!("{e}"));
-    path
+/// A scratch directory holding one case file `name` with `text`.
+fn temp_case(name: &str, text: &str) -> tempfile::TempDir {
+    let dir = tempfile::tempdir().unwrap_or_else(|e| panic!("{e}"));
+    std::fs::write(dir.path().join(name), text).unwrap_or_else(|e| panic!("{e}"));
+    dir
 }
 
 #[test]
@@ -39,23 +27,33 @@ fn every_demo_case_solves_with_the_json_contract() {
             continue;
         }
         n += 1;
+        let stem = path
+            .file_stem()
+            .unwrap_or_default()
+            .to_string_lossy()
+            .into_owned();
+        let relative = format!("cases/{stem}.yaml");
+        quiddity(["solve", relative.as_str()])
+            .run()
+            .expect_file(&format!("solve/{stem}"));
         let text = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("{e}"));
         assert!(
             text.to_lowercase().contains("invented"),
             "{} must say it is invented",
             path.display()
         );
-        let out = quiddity(&["solve", path.to_str().unwrap_or_default(), "--json"]);
-        let v = json(&out);
+        let out = quiddity(["solve", relative.as_str(), "--json"]).run();
+        assert_eq!(out.stderr, "", "{relative}: nothing on stderr");
+        let v = out.json();
         let candidates = v["candidates"]
             .as_array()
             .unwrap_or_else(|| panic!("candidates array"));
         assert!(v["ruled_out"].is_array() && v["conflicts"].is_array());
         if candidates.is_empty() {
-            assert_eq!(out.status.code(), Some(1), "{}", path.display());
+            out.status_is(1);
             assert!(!v["conflicts"].as_array().unwrap_or(&Vec::new()).is_empty());
         } else {
-            assert_eq!(out.status.code(), Some(0), "{}", path.display());
+            out.status_is(0);
             assert!(v["conflicts"].as_array().is_some_and(|c| c.is_empty()));
             for (i, c) in candidates.iter().enumerate() {
                 assert_eq!(c["rank"].as_u64(), Some(i as u64 + 1));
@@ -78,8 +76,9 @@ fn every_demo_case_solves_with_the_json_contract() {
 
 #[test]
 fn the_carbonyl_demo_ranks_an_aryl_ketone_first() {
-    let out = quiddity(&["solve", "cases/lab-0101-carbonyl.yaml", "--json"]);
-    let v = json(&out);
+    let out = quiddity(["solve", "cases/lab-0101-carbonyl.yaml", "--json"]).run();
+    out.status_is(0);
+    let v = out.json();
     let top = &v["candidates"][0];
     assert_eq!(top["families"]["ketone"].as_u64(), Some(1), "{top}");
     assert_eq!(top["families"]["aromatic_ring"].as_u64(), Some(1), "{top}");
@@ -87,9 +86,11 @@ fn the_carbonyl_demo_ranks_an_aryl_ketone_first() {
 
 #[test]
 fn the_conflict_demo_exits_1_and_names_its_evidence() {
-    let out = quiddity(&["solve", "cases/lab-0104-conflict.yaml"]);
-    assert_eq!(out.status.code(), Some(1));
-    let text = String::from_utf8_lossy(&out.stdout);
+    // The whole run is compared with tests/expect/solve/lab-0104-conflict.txt by the
+    // walk above; these are the words the conflict must hold whatever the layout.
+    let out = quiddity(["solve", "cases/lab-0104-conflict.yaml"]).run();
+    out.status_is(1);
+    let text = &out.stdout;
     assert!(text.contains("conflict"), "{text}");
     assert!(text.contains("formula C6H14"), "{text}");
     assert!(text.contains("band at 1716"), "{text}");
@@ -101,45 +102,66 @@ fn the_conflict_demo_exits_1_and_names_its_evidence() {
 
 #[test]
 fn bad_input_exits_2_with_the_place_on_stderr() {
-    let path = temp_case(
+    let dir = temp_case(
         "bad.yaml",
         "formula: C3H6O\nir:\n  bands:\n    - { at: 1715, strength: strnog }\n",
     );
-    let out = quiddity(&["solve", path.to_str().unwrap_or_default(), "--json"]);
-    assert_eq!(out.status.code(), Some(2));
-    assert!(out.stdout.is_empty(), "nothing on stdout");
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert!(
-        err.contains("bad.yaml:4:29: ir.bands[0].strength: unknown strength \"strnog\""),
-        "{err}"
-    );
-    assert!(err.contains("did you mean \"strong\"?"), "{err}");
+    quiddity(["solve", "bad.yaml", "--json"])
+        .cwd(dir.path())
+        .run()
+        .expect(
+            2,
+            "",
+            concat!(
+                "error: bad.yaml:4:29: ir.bands[0].strength: unknown strength \"strnog\"\n",
+                "  |\n",
+                "4 |     - { at: 1715, strength: strnog }\n",
+                "  |                             ^\n",
+                "  = help: did you mean \"strong\"?\n",
+            ),
+        );
 
-    let path = temp_case(
+    let dir = temp_case(
         "far.yaml",
         "formula: C3H6O\nir:\n  bands:\n    - { at: 4500, strength: strong }\n",
     );
-    let out = quiddity(&["solve", path.to_str().unwrap_or_default()]);
-    assert_eq!(out.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&out.stderr).contains("outside 400–4000"));
+    quiddity(["solve", "far.yaml"])
+        .cwd(dir.path())
+        .run()
+        .expect_file("solve/bad-band-outside-window");
 
-    let out = quiddity(&["solve", "cases/does-not-exist.yaml"]);
-    assert_eq!(out.status.code(), Some(2));
+    quiddity(["solve", "cases/does-not-exist.yaml"])
+        .run()
+        .expect_file("solve/bad-missing-case");
 
-    let out = quiddity(&["solve", "cases/lab-0101-carbonyl.yaml", "--tolerance", "-3"]);
-    assert_eq!(out.status.code(), Some(2));
+    quiddity(["solve", "cases/lab-0101-carbonyl.yaml", "--tolerance", "-3"])
+        .run()
+        .expect_file("solve/bad-negative-tolerance");
+    // The same value glued to its option reaches the tolerance check itself.
+    quiddity(["solve", "cases/lab-0101-carbonyl.yaml", "--tolerance=-3"])
+        .run()
+        .expect(
+            2,
+            "",
+            "error: --tolerance: tolerance -3 cm⁻¹ must be between 0 and 100\n",
+        );
 }
 
 #[test]
 fn max_limits_the_list_and_says_so() {
-    let out = quiddity(&[
+    let out = quiddity([
         "solve",
         "cases/lab-0101-carbonyl.yaml",
         "--json",
         "--max",
         "2",
-    ]);
-    let v = json(&out);
+    ])
+    .run();
+    out.status_is(0);
+    let v = out.json();
     assert_eq!(v["candidates"].as_array().map(Vec::len), Some(2));
     assert_eq!(v["list_truncated"].as_bool(), Some(true));
+    quiddity(["solve", "cases/lab-0101-carbonyl.yaml", "--max", "2"])
+        .run()
+        .expect_file("solve/lab-0101-carbonyl-max-2");
 }

@@ -12,7 +12,8 @@ use quiddity::ir::pick::{MEDIUM_FRACTION, STRONG_FRACTION};
 use quiddity::ir::synth::{synthesize, SynthBand};
 use quiddity::ir::{bands_from_file_contents, PickOptions, Shape, Strength};
 use std::path::PathBuf;
-use std::process::Command;
+#[path = "support/cli.rs"]
+mod cli;
 
 struct Demo {
     file: &'static str,
@@ -213,19 +214,10 @@ fn bands_of_the_demo_spectra_come_back() {
 /// The binary on a demo file: exit 0, the contract's JSON words, nothing else on stdout.
 #[test]
 fn quiddity_bands_json_on_a_demo_file() {
-    let path = spectra_dir().join("aromatic-ketone-like.jdx");
-    let out = Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .args(["bands", "--json"])
-        .arg(&path)
-        .output()
-        .unwrap();
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let out = cli::quiddity(["bands", "--json", "cases/spectra/aromatic-ketone-like.jdx"]).run();
+    out.expect_file("bands/aromatic-ketone-like-json");
+    assert_eq!(out.stderr, "");
+    let doc = out.json();
     let bands = doc["bands"].as_array().unwrap();
     let carbonyl = bands
         .iter()
@@ -241,14 +233,17 @@ fn quiddity_bands_json_on_a_demo_file() {
 /// The human report shows the header and an aligned table, and filters work.
 #[test]
 fn quiddity_bands_text_report_with_filters() {
-    let path = spectra_dir().join("alcohol-like.jdx");
-    let out = Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .args(["bands", "--min-strength", "strong", "--region", "1000-4000"])
-        .arg(&path)
-        .output()
-        .unwrap();
-    assert_eq!(out.status.code(), Some(0));
-    let text = String::from_utf8(out.stdout).unwrap();
+    let out = cli::quiddity([
+        "bands",
+        "--min-strength",
+        "strong",
+        "--region",
+        "1000-4000",
+        "cases/spectra/alcohol-like.jdx",
+    ])
+    .run();
+    out.expect_file("bands/alcohol-like-strong-text");
+    let text = out.stdout.clone();
     let field = |key: &str, value: &str| {
         text.lines()
             .any(|l| l.starts_with(key) && l[key.len()..].trim_start().starts_with(value))
@@ -278,21 +273,16 @@ fn quiddity_bands_text_report_with_filters() {
 /// Bad input: exit status 2 and the place on stderr.
 #[test]
 fn quiddity_bands_on_a_bad_file_exits_2_naming_the_line() {
-    let dir = std::env::temp_dir().join(format!("quiddity-bands-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
-    let path = dir.join("bad.jdx");
-    std::fs::write(&path, "##TITLE=t\n##XUNITS=1/CM\n##YUNITS=ABSORBANCE\n##FIRSTX=1\n##LASTX=3\n##XYDATA=(X++(Y..Y))\n1 1 ? 3\n##END=\n").unwrap();
-    let out = Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .arg("bands")
-        .arg(&path)
-        .output()
-        .unwrap();
-    assert_eq!(out.status.code(), Some(2));
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("bad.jdx"), "##TITLE=t\n##XUNITS=1/CM\n##YUNITS=ABSORBANCE\n##FIRSTX=1\n##LASTX=3\n##XYDATA=(X++(Y..Y))\n1 1 ? 3\n##END=\n").unwrap();
+    let out = cli::quiddity(["bands", "bad.jdx"]).cwd(dir.path()).run();
+    out.expect_file("bands/bad-value");
+    out.status_is(2);
     assert!(out.stdout.is_empty());
-    let err = String::from_utf8(out.stderr).unwrap();
     assert!(
-        err.contains("bad.jdx:7:5: missing or not-a-number value \"?\""),
-        "{err}"
+        out.stderr
+            .contains("bad.jdx:7:5: missing or not-a-number value \"?\""),
+        "{}",
+        out.stderr
     );
-    std::fs::remove_dir_all(&dir).unwrap();
 }

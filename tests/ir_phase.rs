@@ -5,6 +5,8 @@
 //! medium diagnostic bands of its own — water-vapour lines, CO2 and the P/R branches of
 //! vapour contours must not turn into extra bands the engine would have to explain.
 
+#[path = "support/cli.rs"]
+mod cli;
 #[path = "support/phase_compounds.rs"]
 mod compounds;
 
@@ -252,17 +254,12 @@ fn the_bands_command_picks_a_vapour_when_asked() {
     let path = dir.path().join("acetone-vapour.csv");
     std::fs::write(&path, compounds::vapour_text(&COMPOUNDS[0], 4.0, 101)).expect("write");
     let run = |phase: &str| {
-        let out = std::process::Command::new(env!("CARGO_BIN_EXE_quiddity"))
-            .args(["bands", "--json", "--phase", phase])
-            .arg(&path)
-            .output()
-            .expect("runs");
-        assert!(
-            out.status.success(),
-            "{}",
-            String::from_utf8_lossy(&out.stderr)
-        );
-        let json: serde_json::Value = serde_json::from_slice(&out.stdout).expect("JSON");
+        let out = cli::quiddity(["bands", "--json", "--phase", phase, "acetone-vapour.csv"])
+            .cwd(dir.path())
+            .run();
+        out.expect_file(&format!("bands/acetone-vapour-as-{phase}-json"));
+        out.status_is(0);
+        let json = out.json();
         json["bands"]
             .as_array()
             .expect("bands")
@@ -278,10 +275,8 @@ fn the_bands_command_picks_a_vapour_when_asked() {
     assert!(!condensed
         .iter()
         .any(|k| k == "contour" || k == "line-forest"));
-    let bad = std::process::Command::new(env!("CARGO_BIN_EXE_quiddity"))
-        .args(["bands", "--phase", "plasma"])
-        .arg(&path)
-        .output()
-        .expect("runs");
-    assert_eq!(bad.status.code(), Some(2));
+    cli::quiddity(["bands", "--phase", "plasma", "acetone-vapour.csv"])
+        .cwd(dir.path())
+        .run()
+        .expect_file("bands/bad-phase");
 }

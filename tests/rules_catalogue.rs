@@ -54,12 +54,12 @@ fn every_rules_file_is_embedded() {
 }
 
 #[test]
-fn developers_guide_names_every_rules_file() {
-    let guide = include_str!("../DEVELOPERS.md");
+fn rules_manual_names_every_rules_file() {
+    let guide = include_str!("../docs/rules.md");
     for (name, _) in EMBEDDED_FILES {
         assert!(
             guide.contains(name),
-            "DEVELOPERS.md does not mention rules/{name}"
+            "docs/rules.md does not mention rules/{name}"
         );
     }
 }

@@ -464,7 +464,7 @@ fn ms_clues_match_the_textbook_fragments() {
 
 #[test]
 fn every_value_names_its_source() {
-    // DESIGN.md, "Sources and data": every rule carries its source.
+    // Every rule carries its source (docs/rules.md, "Sources").
     let c = catalogue();
     let mut n = 0;
     for g in &c.groups {

@@ -3,7 +3,7 @@
 //! recalled: Silverstein, Webster & Kiemle, Spectrometric Identification of Organic
 //! Compounds, 7th ed., spectra and ch. 2 tables; Nyquist, Interpreting Infrared, Raman,
 //! and NMR Spectra, vol. 1, for the vapour phase — all `from memory`), this test plays the
-//! two IR rules of DESIGN.md against the catalogue alone, without the engine:
+//! two IR rules of the evidence semantics (docs/engine.md) against the catalogue alone, without the engine:
 //! 1. every diagnostic band of each of the compound's groups is seen (unless it may be
 //!    absent; one band per `one_of` set suffices);
 //! 2. every strong or medium band at or above 1500 cm⁻¹ is covered by a band of its

@@ -8,7 +8,7 @@ use crate::ir::{Band, PickOptions, Shape, Strength};
 use crate::rules::Technique;
 use crate::yaml::{locate, locate_value, KeyPath};
 
-/// Lowest and highest wavenumber a mid-IR band may have, cm⁻¹ (DESIGN.md, case files).
+/// Lowest and highest wavenumber a mid-IR band may have, cm⁻¹ (the mid-IR window; docs/cases.md).
 pub const BAND_LIMITS_CM1: (f64, f64) = (400.0, 4000.0);
 
 /// Default ppm tolerance for an accurate molecular ion (common practice for

@@ -40,7 +40,7 @@ pub struct FormulaArgs {
     resolution: Option<f64>,
 }
 
-/// The `--json` document (the DESIGN.md contract plus extra fields).
+/// The `--json` document (the contract of DEVELOPERS.md, "Contracts", plus extra fields).
 #[derive(Debug, serde::Serialize)]
 struct FormulaReport {
     formula: String,

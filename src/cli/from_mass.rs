@@ -385,7 +385,7 @@ fn write_text(out: &mut dyn Write, r: &FromMassReport<'_>) -> std::io::Result<()
     writeln!(out)?;
     writeln!(
         out,
-        "score = mass fit + isotope fit + heuristics (0 is perfect; see DEVELOPERS.md)"
+        "score = mass fit + isotope fit + heuristics (0 is perfect; see docs/mass-spectra.md)"
     )?;
     writeln!(out, "{CAUTION}")?;
     Ok(())

@@ -24,7 +24,7 @@ use std::ffi::OsString;
 use std::io::Write;
 use std::process::ExitCode;
 
-const EXIT_STATUS_HELP: &str = "\
+pub(crate) const EXIT_STATUS_HELP: &str = "\
 Exit status:
   0  success; for solve, at least one consistent candidate
   1  no consistent candidate (the conflicting evidence is shown)

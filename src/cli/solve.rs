@@ -19,6 +19,7 @@ use std::path::{Path, PathBuf};
 
 /// Arguments of `quiddity solve`.
 #[derive(Debug, Args)]
+#[command(after_help = super::EXIT_STATUS_HELP)]
 pub struct SolveArgs {
     /// The case file (YAML).
     case: PathBuf,

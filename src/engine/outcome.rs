@@ -1,5 +1,5 @@
 //! The engine's result: serialisable view types that renderers (text, JSON, reports)
-//! consume. Field names are part of the `solve --json` contract (DESIGN.md).
+//! consume. Field names are part of the `solve --json` contract (DEVELOPERS.md, "Contracts").
 
 use serde::Serialize;
 use std::collections::BTreeMap;

@@ -55,7 +55,7 @@ pub const P_PER_EXTRA_INSTANCE: f64 = 0.5;
 
 /// Penalty for an unexplained band (a demanded band never reaches it: it rules out). A
 /// medium band above 1500 cm⁻¹ costs more than a strong fingerprint band: the diagnostic
-/// region is where groups show themselves (DESIGN.md, evidence semantics 3 and 4).
+/// region is where groups show themselves (docs/engine.md, evidence semantics 3 and 4).
 pub fn unexplained_penalty(at: f64, strength: Strength) -> f64 {
     if at >= crate::ir::band::FINGERPRINT_BELOW_CM1 {
         match strength {

@@ -3,7 +3,7 @@
 //! full width at half prominence by linear interpolation, width and strength classes, and
 //! shoulders on strong bands from minima of the second derivative.
 //!
-//! Thresholds (all documented in DEVELOPERS.md, "Spectrum files"):
+//! Thresholds (all documented in docs/spectra.md):
 //! * noise σ = 1.4826 · MAD(second difference) / √6 — robust to bands, since the second
 //!   difference of a smooth band is small while that of white noise has variance 6σ²;
 //! * a band needs prominence ≥ [`NOISE_PROMINENCE`]·σ and ≥ [`RELATIVE_PROMINENCE`] of

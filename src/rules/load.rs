@@ -5,7 +5,7 @@
 //! with `file:line:column`, the key path (`groups[3].bands[0].range`) and, for unknown
 //! keys and ids, a "did you mean" hint. Only the CLI reads files; this module takes text.
 //!
-//! What is checked (DEVELOPERS.md, "Rules catalogue and how to add a rule", keeps the
+//! What is checked (docs/rules.md keeps the
 //! list for authors):
 //! - YAML syntax; unknown keys and wrong value types (via the raw serde types);
 //! - ranges: `lo < hi`, both inside 400–4000 cm⁻¹ (shifts: `lo <= hi`, within ±1200);
@@ -937,7 +937,9 @@ impl<'a> Loader<'a> {
                 "<catalogue>",
                 format!("required group ids missing: {}", missing.join(", ")),
             )
-            .with_help("every catalogue defines the group ids of DESIGN.md, \"Contracts\""),
+            .with_help(
+                "every catalogue defines the required group ids (DEVELOPERS.md, \"Contracts\")",
+            ),
         );
     }
 }

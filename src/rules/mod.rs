@@ -15,7 +15,7 @@ pub use load::{digest, load, load_checked, MAX_WAVENUMBER, MIN_WAVENUMBER, SP3_C
 pub use lookup::{rules_at, Coverage, CoverageKind};
 pub use model::*;
 /// Group ids every catalogue must define, with the meaning the trade gives the name
-/// (DESIGN.md, "Contracts"). Finer subtypes map onto these through `subtype_of`.
+/// (DEVELOPERS.md, "Contracts"). Finer subtypes map onto these through `subtype_of`.
 pub const REQUIRED_GROUP_IDS: &[&str] = &[
     "alkene",
     "alkyne_terminal",

@@ -10,7 +10,8 @@
 //! catalogue. A feature whose pattern the catalogue lacks has nothing to check. The
 //! alkyne, carbonyl and alcohol expectations below are facts of the trade
 //! (`common practice`, values `from memory`). All of them support or weaken a structure
-//! and never rule one out (most lie in the fingerprint region, DESIGN.md evidence rule 4).
+//! and never rule one out (most lie in the fingerprint region, where bands support or weaken and alone rule
+//! nothing out; see docs/engine.md, evidence semantics 4).
 
 use super::aromatic::aromatic_rings;
 use super::molecule::{Bond, Element, Molecule};

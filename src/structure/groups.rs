@@ -1,4 +1,4 @@
-//! Functional-group ids (the DESIGN.md required list plus `ring`) and group multisets,
+//! Functional-group ids (the required list of `rules::REQUIRED_GROUP_IDS` plus `ring`) and group multisets,
 //! with a positioned parser for the `id:count,id:count` form the command line takes.
 
 use crate::diag::{closest_match, Diagnostic};

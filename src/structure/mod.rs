@@ -5,7 +5,7 @@
 //! Entry points: [`enumerate`] (a sorted list, capped), [`count_structures`] (a count),
 //! [`for_each_structure`] (streaming) and [`score_features`] (features against bands).
 //! Isomers are constitutional: cis/trans and optical isomers are not told apart. See
-//! DEVELOPERS.md, "Structures", for the method, the group definitions and the checks
+//! docs/structures.md for the method, the group definitions and the checks
 //! against outside sources.
 
 pub mod aromatic;

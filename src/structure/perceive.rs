@@ -5,7 +5,7 @@
 //! silently carries a heteroatom-bearing group outside the multiset it was built for.
 //!
 //! The definitions (written as patterns; `C` any carbon, `[CX4]` a carbon with four single
-//! bonds, `c` an aromatic carbon, `R` a carbon or H) are in DEVELOPERS.md, "Structures".
+//! bonds, `c` an aromatic carbon, `R` a carbon or H) are in docs/structures.md.
 
 use super::aromatic::aromatic_rings;
 use super::groups::{GroupCounts, GroupId};

@@ -1,4 +1,4 @@
-//! Explanation of observed bands (DESIGN.md, evidence semantics 3 and 4), graded by how
+//! Explanation of observed bands (docs/engine.md, evidence semantics 3 and 4), graded by how
 //! far a band list can be trusted.
 //!
 //! What a band list may misreport — shape words, widths, rotational wings, overtones,

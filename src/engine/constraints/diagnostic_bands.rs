@@ -1,4 +1,4 @@
-//! Band matching and diagnostic-band presence (DESIGN.md, evidence semantics 2).
+//! Band matching and diagnostic-band presence (docs/engine.md, evidence semantics 2).
 //!
 //! A band rule is first made *effective* for the case's technique (its `by_technique`
 //! override applied; when the technique is unknown every variant counts, which can only

@@ -1,4 +1,4 @@
-//! Mass-spectrum constraints (DESIGN.md, evidence semantics 5): the stated molecular ion
+//! Mass-spectrum constraints (docs/engine.md, evidence semantics 5): the stated molecular ion
 //! must agree with the formula for the stated ion type (electron mass included; within
 //! the ppm tolerance for an accurate m/z, exactly for a nominal one, where the nitrogen
 //! rule is the usual reading of a parity mismatch); the M+1 and M+2 percentages must
