@@ -43,7 +43,13 @@ fn every_demo_case_solves_with_the_json_contract() {
             path.display()
         );
         let out = quiddity(["solve", relative.as_str(), "--json"]).run();
-        assert_eq!(out.stderr, "", "{relative}: nothing on stderr");
+        // stderr carries notes only (a demo library without its index file is indexed in
+        // memory, and says so); never an error.
+        assert!(
+            out.stderr.lines().all(|l| l.starts_with("note: ")),
+            "{relative}: only notes on stderr, got {}",
+            out.stderr
+        );
         let v = out.json();
         let candidates = v["candidates"]
             .as_array()

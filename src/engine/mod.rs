@@ -72,8 +72,8 @@ impl Default for SolveOptions {
 }
 
 /// The cautions that go with every result, in every output (solve's text and JSON and
-/// every report format read them from the outcome; DESIGN.md and the product owner's
-/// rules).
+/// every report format read them from the outcome; the usual cautions of the trade: a lead
+/// to confirm, never an identification).
 pub const CAUTIONS: [&str; 5] = [
     "this is a screening lead, not an identification",
     "confirm against a reference standard with the laboratory's validated method",
@@ -170,9 +170,7 @@ where
     }
     let readings = salt::readings(case);
     if !readings.is_empty() {
-        // Salt readings are solved unmetered: each is one stated formula, bounded by the
-        // enumeration limit.
-        return Ok(salt::solve_readings(case, catalogue, options, &readings));
+        return salt::solve_readings(case, catalogue, options, &readings, meter);
     }
     solve_stated_within(case, catalogue, options, meter, Stage::Enumeration)
 }
@@ -190,17 +188,6 @@ fn combination_bytes(problem: &Problem<'_>) -> u64 {
 
 /// A consistent combination with its score: (score, concrete group counts, skeleton carbons).
 type ScoredCombination = (f64, Vec<u32>, u32);
-
-/// Solves a case as stated (its formula, if any, taken as given), unmetered.
-fn solve_stated(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Outcome {
-    budget::infallible(solve_stated_within(
-        case,
-        catalogue,
-        options,
-        &mut Unmetered,
-        Stage::Enumeration,
-    ))
-}
 
 /// Solves a case as stated (its formula, if any, taken as given).
 fn solve_stated_within<M: Meter>(

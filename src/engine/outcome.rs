@@ -212,19 +212,19 @@ impl ExplanationKind {
 
 impl std::fmt::Display for ExplanationKind {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(self.word())
+        f.pad(self.word())
     }
 }
 
 impl std::fmt::Display for EvidenceKind {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(self.word())
+        f.pad(self.word())
     }
 }
 
 impl std::fmt::Display for CheckKind {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.write_str(self.word())
+        f.pad(self.word())
     }
 }
 

@@ -21,7 +21,8 @@
 //!   the hydrohalide reading is solved.
 
 use super::constraints::ionic::IonicSites;
-use super::{solve_stated, Outcome, SolveOptions};
+use super::{solve_stated_within, Outcome, SolveOptions};
+use crate::budget::{Meter, Stage};
 use crate::case::{Case, StatedFormula};
 use crate::chem::{Composition, Formula};
 use crate::rules::{Catalogue, Group, Ionic};
@@ -393,19 +394,20 @@ fn halide_word(x: &str) -> &'static str {
 /// Solves every reading, shows the best supported one (a reading with candidates before
 /// one without, then the higher best score, then the earlier reading: the covalent one
 /// first) and names the others.
-pub fn solve_readings(
+pub fn solve_readings<M: Meter>(
     case: &Case,
     catalogue: &Catalogue,
     options: &SolveOptions,
     readings: &[Reading],
-) -> Outcome {
+    meter: &mut M,
+) -> Result<Outcome, M::Stop> {
     let Some(stated) = &case.formula else {
-        return solve_stated(case, catalogue, options);
+        return solve_stated_within(case, catalogue, options, meter, Stage::Enumeration);
     };
-    let mut solved: Vec<Outcome> = readings
-        .iter()
-        .map(|r| solve_reading(case, stated, catalogue, options, r))
-        .collect();
+    let mut solved: Vec<Outcome> = Vec::with_capacity(readings.len());
+    for r in readings {
+        solved.push(solve_reading(case, stated, catalogue, options, r, meter)?);
+    }
     let best = (0..solved.len())
         .max_by(|&a, &b| {
             let key = |i: usize| {
@@ -481,7 +483,7 @@ pub fn solve_readings(
         checks,
         alternatives,
     });
-    outcome
+    Ok(outcome)
 }
 
 /// A short word for a reading.
@@ -520,16 +522,17 @@ fn dbe_statement(stated: &Composition, organic: &Composition, reading: &Reading)
     )
 }
 
-fn solve_reading(
+fn solve_reading<M: Meter>(
     case: &Case,
     stated: &StatedFormula,
     catalogue: &Catalogue,
     options: &SolveOptions,
     reading: &Reading,
-) -> Outcome {
+    meter: &mut M,
+) -> Result<Outcome, M::Stop> {
     let mut organic_case = case.clone();
     let Some(formula) = Formula::from_composition(&reading.organic) else {
-        return solve_stated(case, catalogue, options);
+        return solve_stated_within(case, catalogue, options, meter, Stage::Enumeration);
     };
     organic_case.formula = Some(StatedFormula {
         text: reading.organic.to_string(),
@@ -543,7 +546,13 @@ fn solve_reading(
         ionic_sites: reading.sites,
         ..options.clone()
     };
-    solve_stated(&organic_case, &catalogue, &options)
+    solve_stated_within(
+        &organic_case,
+        &catalogue,
+        &options,
+        meter,
+        Stage::Enumeration,
+    )
 }
 
 /// The catalogue with its water-of-crystallisation bands among the artefacts when the
