@@ -13,9 +13,7 @@
 //!
 //! The best-scored combination of a class stands for it; the others are its alternatives.
 
-use super::constraints::band_explanation::has_sp3_group;
 use super::model::Problem;
-use super::score::best_explanation;
 
 /// True when concrete group `gi` is hydrocarbon unsaturation (no heteroatom, DBE > 0).
 pub fn is_split_group(problem: &Problem<'_>, gi: usize) -> bool {
@@ -37,9 +35,9 @@ pub struct Signature {
     bands: Vec<Option<i64>>,
 }
 
-/// The signature of a combination.
-pub fn signature(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Signature {
-    let sp3_group = has_sp3_group(problem, counts);
+/// The signature of a combination, from its per-band best explanation qualities (as
+/// `score::score_noting` notes them, one per active band).
+pub fn signature(problem: &Problem<'_>, counts: &[u32], band_quality: &[Option<f64>]) -> Signature {
     let fixed = counts
         .iter()
         .enumerate()
@@ -50,11 +48,9 @@ pub fn signature(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Sign
         .filter(|&g| counts[g] > 0 && problem.split_group[g])
         .filter(|&g| !problem.groups[g].presence.matched.is_empty())
         .collect();
-    let bands = (0..problem.bands.len())
-        .map(|bi| {
-            best_explanation(problem, bi, counts, skeleton_c, sp3_group)
-                .map(|q| (q * 1000.0).round() as i64)
-        })
+    let bands = band_quality
+        .iter()
+        .map(|q| q.map(|q| (q * 1000.0).round() as i64))
         .collect();
     Signature {
         fixed,
@@ -63,28 +59,21 @@ pub fn signature(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> Sign
     }
 }
 
-/// Collapses `ranked` (best first) into classes: each entry is the index of the class's
-/// best member and the indices of the others, in rank order.
-pub fn collapse<T>(
-    problem: &Problem<'_>,
-    ranked: &[T],
-    combination: impl Fn(&T) -> (&[u32], u32),
-) -> Vec<(usize, Vec<usize>)> {
-    let mut classes: Vec<(Signature, usize, Vec<usize>)> = Vec::new();
-    let mut index: std::collections::HashMap<Signature, usize> = std::collections::HashMap::new();
-    for (i, item) in ranked.iter().enumerate() {
-        let (counts, sk) = combination(item);
-        let sig = signature(problem, counts, sk);
-        match index.get(&sig) {
-            Some(&c) => classes[c].2.push(i),
+/// Collapses combinations (best first) by their signatures: each entry is the index of a
+/// class's best member and the indices of the others, in rank order.
+pub fn collapse(signatures: &[Signature]) -> Vec<(usize, Vec<usize>)> {
+    let mut classes: Vec<(usize, Vec<usize>)> = Vec::new();
+    // Signatures are hashed once per combination (thousands of them): a fast,
+    // non-cryptographic hash suits keys the program builds itself.
+    let mut index: foldhash::HashMap<&Signature, usize> = foldhash::HashMap::default();
+    for (i, sig) in signatures.iter().enumerate() {
+        match index.get(sig) {
+            Some(&c) => classes[c].1.push(i),
             None => {
-                index.insert(sig.clone(), classes.len());
-                classes.push((sig, i, Vec::new()));
+                index.insert(sig, classes.len());
+                classes.push((i, Vec::new()));
             }
         }
     }
     classes
-        .into_iter()
-        .map(|(_, best, rest)| (best, rest))
-        .collect()
 }

@@ -238,24 +238,29 @@ fn solve_stated_within<M: Meter>(
     }
     let held = per_combination * found.len() as u64;
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
-    let scored: Vec<ScoredCombination> = found
+    // Score and evidence signature in one pass over the bands; then best score first, ties
+    // to fewer group instances, then catalogue order (the counts compared as a whole). The
+    // instance sums are computed once, not per comparison.
+    let mut band_quality = Vec::new();
+    let mut keyed: Vec<(u32, collapse::Signature, ScoredCombination)> = found
         .into_iter()
-        .map(|(counts, sk)| (score::score(&problem, &counts, sk, &parts), counts, sk))
+        .map(|(counts, sk)| {
+            band_quality.clear();
+            let s = score::score_noting(&problem, &counts, sk, &parts, &mut band_quality);
+            let sig = collapse::signature(&problem, &counts, &band_quality);
+            (counts.iter().sum::<u32>(), sig, (s, counts, sk))
+        })
         .collect();
-    // Best score first; ties to fewer group instances, then catalogue order (the counts
-    // compared as a whole). The instance sums are computed once, not per comparison.
-    let mut keyed: Vec<(u32, ScoredCombination)> = scored
-        .into_iter()
-        .map(|x| (x.1.iter().sum::<u32>(), x))
-        .collect();
-    keyed.sort_by(|(na, a), (nb, b)| {
+    keyed.sort_by(|(na, _, a), (nb, _, b)| {
         b.0.total_cmp(&a.0)
             .then_with(|| na.cmp(nb))
             .then_with(|| b.1.cmp(&a.1))
     });
-    let scored: Vec<ScoredCombination> = keyed.into_iter().map(|(_, x)| x).collect();
+    let (signatures, scored): (Vec<collapse::Signature>, Vec<ScoredCombination>) =
+        keyed.into_iter().map(|(_, sig, x)| (sig, x)).unzip();
     let n_combinations = scored.len();
-    let classes = collapse::collapse(&problem, &scored, |(_, c, s)| (c.as_slice(), *s));
+    let classes = collapse::collapse(&signatures);
+    drop(signatures);
     let n_consistent = classes.len();
     let mut in_some_candidate = vec![false; problem.groups.len()];
     for (_, counts, _) in &scored {

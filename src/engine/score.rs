@@ -212,6 +212,18 @@ pub fn candidate_terms(
     skeleton_c: u32,
     parts: &Parts,
 ) -> Vec<ScoreTerm> {
+    candidate_terms_noting(problem, counts, skeleton_c, parts, &mut Vec::new())
+}
+
+/// [`candidate_terms`], also noting each active band's best explanation quality in
+/// `band_quality` (the collapse of equivalent splits compares them).
+fn candidate_terms_noting(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    parts: &Parts,
+    band_quality: &mut Vec<Option<f64>>,
+) -> Vec<ScoreTerm> {
     let sp3_group = has_sp3_group(problem, counts);
     let mut terms = Vec::new();
     let mut best = vec![0.0f64; problem.bands.len()];
@@ -232,7 +244,9 @@ pub fn candidate_terms(
     let mut explained = 0.0;
     let mut unexplained = 0.0;
     for (bi, (_, b)) in problem.bands.iter().enumerate() {
-        match best_explanation(problem, bi, counts, skeleton_c, sp3_group) {
+        let q = best_explanation(problem, bi, counts, skeleton_c, sp3_group);
+        band_quality.push(q);
+        match q {
             Some(q) => explained += W_EXPLAINED * q,
             None => unexplained += unexplained_penalty(b.band.at, b.band.strength),
         }
@@ -354,13 +368,25 @@ pub fn groups_without_own_band(problem: &Problem<'_>, counts: &[u32]) -> Vec<usi
 /// The score of a consistent candidate: Σ group parts of its groups + its candidate
 /// terms, rounded to 2 decimals. `parts` comes from [`group_parts`].
 pub fn score(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, parts: &Parts) -> f64 {
+    score_noting(problem, counts, skeleton_c, parts, &mut Vec::new())
+}
+
+/// [`score`], also noting each active band's best explanation quality (see
+/// `engine::collapse`), so that scoring and collapsing share one pass over the bands.
+pub fn score_noting(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    parts: &Parts,
+    band_quality: &mut Vec<Option<f64>>,
+) -> f64 {
     let groups: f64 = counts
         .iter()
         .zip(&parts.group)
         .filter(|(n, _)| **n > 0)
         .map(|(_, p)| *p)
         .sum();
-    let rest: f64 = candidate_terms(problem, counts, skeleton_c, parts)
+    let rest: f64 = candidate_terms_noting(problem, counts, skeleton_c, parts, band_quality)
         .iter()
         .map(|t| t.value)
         .sum();
