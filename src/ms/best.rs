@@ -23,11 +23,12 @@
 //! 127 halogen/S/P/Si subsets is searched: the cost follows the answer, not the millions
 //! of formulas a nominal mass allows near m/z 800.
 
-use super::formula_search::{search_mass_while, search_nominal_while, Walk};
+use super::formula_search::Walk;
 use super::heuristics::PER_EXTRA_ELEMENT;
 use super::ranges::ElementRanges;
 use super::rank::{
-    evaluate, validate, FormulaCandidate, MassQuery, MeasuredMz, QueryError, RankError,
+    evaluate, rank_order, search_query_while, validate, FormulaCandidate, MassQuery, QueryError,
+    RankError,
 };
 use crate::budget::{Meter, Stage, Unmetered};
 use std::cmp::Ordering;
@@ -56,11 +57,7 @@ struct Kept(FormulaCandidate);
 impl Kept {
     fn cmp_rank(a: &FormulaCandidate, b: &FormulaCandidate) -> Ordering {
         // The full ranking's order: better first.
-        b.score
-            .total
-            .total_cmp(&a.score.total)
-            .then(a.composition.n_atoms().cmp(&b.composition.n_atoms()))
-            .then(a.formula.cmp(&b.formula))
+        rank_order(a, b)
     }
 }
 
@@ -174,18 +171,7 @@ pub fn best_formulas_within<M: Meter>(
         };
         // `evaluate` reads counts aligned with the query's ranges: `sub` keeps the same
         // elements in the same order, only their bounds differ.
-        match query.mz {
-            MeasuredMz::Accurate(mz) => {
-                let neutral = query.ion.neutral_mass_of_mz(mz);
-                let tol = query.tolerance.absolute(mz);
-                search_mass_while(&ranges, neutral - tol, neutral + tol, &mut consider);
-            }
-            MeasuredMz::Nominal(n) => {
-                if let Some(nominal) = query.ion.neutral_nominal_mass(n) {
-                    search_nominal_while(&ranges, u64::from(nominal), &mut consider);
-                }
-            }
-        }
+        search_query_while(query, &ranges, &mut consider);
         if stop.is_some() {
             break;
         }
@@ -209,7 +195,7 @@ pub fn best_formulas_within<M: Meter>(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::ms::{candidate_formulas, IonType, MeasuredIsotopes, Tolerance};
+    use crate::ms::{candidate_formulas, IonType, MeasuredIsotopes, MeasuredMz, Tolerance};
 
     fn same_prefix(q: &MassQuery, k: usize) -> BestFormulas {
         let all = candidate_formulas(q).unwrap_or_else(|e| panic!("{e}"));

@@ -237,29 +237,12 @@ where
             }
         }
     };
-    match query.mz {
-        MeasuredMz::Accurate(mz) => {
-            let neutral = query.ion.neutral_mass_of_mz(mz);
-            let tol = query.tolerance.absolute(mz);
-            search_mass_while(ranges, neutral - tol, neutral + tol, &mut consider);
-        }
-        MeasuredMz::Nominal(n) => {
-            if let Some(nominal) = query.ion.neutral_nominal_mass(n) {
-                search_nominal_while(ranges, u64::from(nominal), &mut consider);
-            }
-        }
-    }
+    search_query_while(query, ranges, &mut consider);
     meter.release(held);
     if let Some(e) = stop {
         return Err(RankError::Limit(e));
     }
-    out.sort_by(|a, b| {
-        b.score
-            .total
-            .total_cmp(&a.score.total)
-            .then(a.composition.n_atoms().cmp(&b.composition.n_atoms()))
-            .then(a.formula.cmp(&b.formula))
-    });
+    out.sort_by(rank_order);
     for (i, c) in out.iter_mut().enumerate() {
         c.rank = i + 1;
     }
@@ -285,6 +268,35 @@ impl FormulaCandidate {
         (std::mem::size_of::<FormulaCandidate>() + self.formula.capacity() + notes + composition)
             as u64
     }
+}
+
+/// Walks the formulas of `ranges` that fit the query's m/z (accurate within its
+/// tolerance, or at its nominal mass), stopping when `visit` says so.
+pub(super) fn search_query_while(
+    query: &MassQuery,
+    ranges: &ElementRanges,
+    visit: impl FnMut(&[u32]) -> Walk,
+) -> Walk {
+    match query.mz {
+        MeasuredMz::Accurate(mz) => {
+            let neutral = query.ion.neutral_mass_of_mz(mz);
+            let tol = query.tolerance.absolute(mz);
+            search_mass_while(ranges, neutral - tol, neutral + tol, visit)
+        }
+        MeasuredMz::Nominal(n) => match query.ion.neutral_nominal_mass(n) {
+            Some(nominal) => search_nominal_while(ranges, u64::from(nominal), visit),
+            None => Walk::Continue,
+        },
+    }
+}
+
+/// The ranking order: better score first, then fewer atoms, then the formula text.
+pub(super) fn rank_order(a: &FormulaCandidate, b: &FormulaCandidate) -> std::cmp::Ordering {
+    b.score
+        .total
+        .total_cmp(&a.score.total)
+        .then(a.composition.n_atoms().cmp(&b.composition.n_atoms()))
+        .then(a.formula.cmp(&b.formula))
 }
 
 /// Filters and scores one combination; `None` when a filter rejects it.
