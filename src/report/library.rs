@@ -268,22 +268,7 @@ pub fn overlay_svg(o: &LibraryOverlay) -> String {
         "<rect class=\"fingerprint\" x=\"{fp_left:.1}\" y=\"{TOP}\" width=\"{:.1}\" height=\"{plot_h}\" fill=\"#efe9dc\"/>",
         (px(low) - fp_left).max(0.0)
     );
-    let _ = writeln!(
-        s,
-        "<line x1=\"{LEFT}\" y1=\"{base_y}\" x2=\"{}\" y2=\"{base_y}\" stroke=\"#333\"/>",
-        WIDTH - RIGHT
-    );
-    let mut tick = (high / 500.0).floor() * 500.0;
-    while tick >= low {
-        let x = px(tick);
-        let _ = writeln!(
-            s,
-            "<line x1=\"{x:.1}\" y1=\"{base_y}\" x2=\"{x:.1}\" y2=\"{:.1}\" stroke=\"#333\"/><text x=\"{x:.1}\" y=\"{:.1}\" font-size=\"11\" text-anchor=\"middle\">{tick:.0}</text>",
-            base_y + 5.0,
-            base_y + 18.0
-        );
-        tick -= 500.0;
-    }
+    super::svg::wavenumber_axis(&mut s, px, (low, high), base_y);
     let _ = writeln!(
         s,
         "<text x=\"{:.1}\" y=\"{:.1}\" font-size=\"12\" text-anchor=\"middle\">wavenumber / cm⁻¹ (decreasing to the right); absorbance scaled to 1</text>",

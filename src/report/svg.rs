@@ -28,6 +28,35 @@ fn colour(kind: &str) -> &'static str {
     }
 }
 
+/// The horizontal axis of a spectrum plot (shared by every plot the reports draw, so their
+/// axes look alike): the base line and a tick with its label every 500 cm⁻¹, wavenumber
+/// decreasing to the right through `px`.
+pub(super) fn wavenumber_axis(
+    s: &mut String,
+    px: impl Fn(f64) -> f64,
+    (low, high): (f64, f64),
+    base_y: f64,
+) {
+    let _ = writeln!(
+        s,
+        "<line x1=\"{LEFT}\" y1=\"{base_y}\" x2=\"{}\" y2=\"{base_y}\" stroke=\"#333\"/>",
+        WIDTH - RIGHT
+    );
+    let mut tick = (high / 500.0).floor() * 500.0;
+    while tick >= low {
+        let x = px(tick);
+        let _ = writeln!(
+            s,
+            "<line x1=\"{0}\" y1=\"{base_y}\" x2=\"{0}\" y2=\"{1}\" stroke=\"#333\"/><text x=\"{0}\" y=\"{2}\" font-size=\"11\" text-anchor=\"middle\">{3:.0}</text>",
+            fmt(x),
+            fmt(base_y + 5.0),
+            fmt(base_y + 18.0),
+            tick
+        );
+        tick -= 500.0;
+    }
+}
+
 fn fmt(v: f64) -> String {
     format!("{v:.1}")
 }
@@ -81,25 +110,7 @@ pub fn render(view: &ReportView) -> String {
         fmt(fp_left + 6.0),
         fmt(base_y - 6.0)
     );
-    // Axes and ticks every 500 cm⁻¹.
-    let _ = writeln!(
-        s,
-        "<line x1=\"{LEFT}\" y1=\"{base_y}\" x2=\"{}\" y2=\"{base_y}\" stroke=\"#333\"/>",
-        WIDTH - RIGHT
-    );
-    let mut tick = (high / 500.0).floor() * 500.0;
-    while tick >= low {
-        let x = px(tick);
-        let _ = writeln!(
-            s,
-            "<line x1=\"{0}\" y1=\"{base_y}\" x2=\"{0}\" y2=\"{1}\" stroke=\"#333\"/><text x=\"{0}\" y=\"{2}\" font-size=\"11\" text-anchor=\"middle\">{3:.0}</text>",
-            fmt(x),
-            fmt(base_y + 5.0),
-            fmt(base_y + 18.0),
-            tick
-        );
-        tick -= 500.0;
-    }
+    wavenumber_axis(&mut s, px, (low, high), base_y);
     let _ = writeln!(
         s,
         "<text x=\"{}\" y=\"{}\" font-size=\"12\" text-anchor=\"middle\">wavenumber / cm⁻¹ (decreasing to the right)</text>",
