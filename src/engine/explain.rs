@@ -7,7 +7,7 @@ use super::evaluate::{describe, Failure};
 use super::model::Problem;
 use super::outcome::*;
 use crate::case::MsEvidence;
-use crate::rules::RuleRef;
+use crate::rules::{ExpectedShape, RuleRef};
 use std::collections::BTreeMap;
 
 fn at(r: &RuleRef) -> String {
@@ -57,15 +57,15 @@ pub fn candidate(
     for (bi, (_, ob)) in problem.bands.iter().enumerate() {
         let ex = &problem.explainers[bi];
         let mut list: Vec<Explanation> = Vec::new();
-        // Rules expecting a sharp band, by (kind, id, label), to say when a band labelled
+        // Ids of the rules here that expect a sharp band, to say when a band labelled
         // broad was taken as one of them.
-        let mut sharp_rules: Vec<(String, String)> = Vec::new();
+        let mut sharp_rules: Vec<&str> = Vec::new();
         for (g, r, q) in &ex.groups {
             if counts[*g] > 0 {
                 let gd = problem.groups[*g].group;
                 let rule = &gd.bands[*r];
                 if rule.shape == crate::rules::ExpectedShape::Sharp {
-                    sharp_rules.push((gd.id.clone(), rule.label.clone()));
+                    sharp_rules.push(&gd.id);
                 }
                 list.push(Explanation {
                     kind: ExplanationKind::Group,
@@ -96,7 +96,7 @@ pub fn candidate(
                 {
                     // Skeleton rules are C–H stretches and bends: sharp by nature
                     // (common practice), whatever shape the rule leaves open.
-                    sharp_rules.push((sr.id.clone(), sr.band.label.clone()));
+                    sharp_rules.push(&sr.id);
                 }
                 list.push(Explanation {
                     kind: ExplanationKind::Skeleton,
@@ -147,8 +147,8 @@ pub fn candidate(
                 )
             }
             Some(best)
-                if diagnostic_bands::observed_shape(&ob.band) == Some(crate::ir::Shape::Broad)
-                    && sharp_rules.iter().any(|(id, _)| *id == best.id) =>
+                if diagnostic_bands::broad_taken_as_sharp(&ob.band, ExpectedShape::Sharp)
+                    && sharp_rules.contains(&best.id.as_str()) =>
             {
                 Some(format!(
                     "{:.0}, labelled broad{}, taken as the {} envelope",

@@ -60,6 +60,15 @@ impl Shape {
         }
     }
 
+    /// The shape a full width at half height (cm⁻¹) gives (broad from [`BROAD_FROM_CM1`]).
+    pub fn from_width(fwhm: f64) -> Shape {
+        if fwhm >= BROAD_FROM_CM1 {
+            Shape::Broad
+        } else {
+            Shape::Sharp
+        }
+    }
+
     /// Parses the case-file word (exact, lower case).
     pub fn from_word(word: &str) -> Option<Shape> {
         [Shape::Broad, Shape::Sharp]
@@ -93,9 +102,10 @@ pub struct Band {
 /// Lower edge of the diagnostic region; below it lies the fingerprint region (common practice).
 pub const FINGERPRINT_BELOW_CM1: f64 = 1500.0;
 
-/// Full width at half height from which a band reads as broad, cm⁻¹: condensed-phase
-/// C–H, C=O, C≡N and ring modes are about 5–40 cm⁻¹ wide, C–O stretches up to about 60;
-/// hydrogen-bonded O–H and N–H envelopes are about 100–500 (common practice).
+/// A band at least this wide (FWHM, cm⁻¹) is broad. In condensed-phase FTIR, sharp
+/// stretches and bends (C–H, C=O, C≡N, ring modes) have FWHM of about 5–40 cm⁻¹ and C–O
+/// stretches up to about 60 cm⁻¹, while hydrogen-bonded O–H and N–H and the acid O–H
+/// envelope span about 100–500 cm⁻¹ (common practice). 75 cm⁻¹ sits in the gap.
 pub const BROAD_FROM_CM1: f64 = 75.0;
 
 impl Band {

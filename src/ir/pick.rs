@@ -28,11 +28,9 @@ pub const NOISE_PROMINENCE: f64 = 5.0;
 /// reads a band off a plotted spectrum.
 pub const RELATIVE_PROMINENCE: f64 = 0.01;
 
-/// A band at least this wide (FWHM, cm⁻¹) is broad. In condensed-phase FTIR, sharp
-/// stretches and bends (C–H, C=O, C≡N, ring modes) have FWHM of about 5–40 cm⁻¹ and C–O
-/// stretches up to about 60 cm⁻¹, while hydrogen-bonded O–H and N–H and the acid O–H
-/// envelope span about 100–500 cm⁻¹ (common practice). 75 cm⁻¹ sits in the gap.
-pub const BROAD_FWHM_CM1: f64 = 75.0;
+/// A band at least this wide (FWHM, cm⁻¹) is broad (the one threshold that case files and
+/// the engine use too: [`crate::ir::band::BROAD_FROM_CM1`]).
+pub const BROAD_FWHM_CM1: f64 = crate::ir::band::BROAD_FROM_CM1;
 
 /// A band at least this fraction of the tallest band's height is strong. With the
 /// strongest band near A = 1 (10 %T), 0.45 is about 35 %T: analysts call bands that dip
@@ -189,14 +187,6 @@ pub fn classify_strength(relative: f64) -> Strength {
         Strength::Medium
     } else {
         Strength::Weak
-    }
-}
-
-fn classify_shape(fwhm: f64) -> Shape {
-    if fwhm >= BROAD_FWHM_CM1 {
-        Shape::Broad
-    } else {
-        Shape::Sharp
     }
 }
 
@@ -460,7 +450,7 @@ pub fn pick_bands_noted(
             prominence: m.prominence,
             fwhm,
             strength: Strength::Weak,
-            shape: fwhm.map(classify_shape),
+            shape: fwhm.map(Shape::from_width),
             kind: BandKind::Peak,
         });
     }
@@ -549,7 +539,7 @@ pub fn pick_bands_noted(
                     prominence: 0.0,
                     fwhm: Some(width),
                     strength: Strength::Weak,
-                    shape: Some(classify_shape(width)),
+                    shape: Some(Shape::from_width(width)),
                     kind: BandKind::Shoulder,
                 });
             }
@@ -916,7 +906,7 @@ fn merge_contours(
             prominence: tallest.prominence,
             fwhm: Some(width),
             strength: Strength::Weak,
-            shape: Some(classify_shape(width)),
+            shape: Some(Shape::from_width(width)),
             kind: BandKind::Contour,
         });
         i += members;

@@ -21,7 +21,6 @@
 //! before enumeration, and the missing band is the decisive evidence.
 
 use crate::case::ObservedBand;
-use crate::ir::band::BROAD_FROM_CM1;
 use crate::ir::{Band, Shape, Strength};
 use crate::rules::{
     BandRole, BandRule, Catalogue, ExpectedShape, ExpectedStrength, Range, Technique,
@@ -155,13 +154,9 @@ pub fn quality(band: &Band, eff: &Effective, tolerance: f64) -> Option<f64> {
 pub const VERY_BROAD_CM1: f64 = 200.0;
 
 /// The shape a band shows: its measured width decides when known (broad from
-/// [`BROAD_FROM_CM1`]), else the shape word, which is a hint.
+/// [`crate::ir::band::BROAD_FROM_CM1`]), else the shape word, which is a hint.
 pub fn observed_shape(band: &Band) -> Option<Shape> {
-    match band.width {
-        Some(w) if w >= BROAD_FROM_CM1 => Some(Shape::Broad),
-        Some(_) => Some(Shape::Sharp),
-        None => band.shape,
-    }
+    band.width.map(Shape::from_width).or(band.shape)
 }
 
 /// True when the band reads as broad (by width or word) where the rule expects a sharp
