@@ -3,6 +3,7 @@
 
 pub mod composition;
 pub mod elements;
+pub mod fine_structure;
 pub mod formula;
 pub mod isotopes;
 
@@ -13,5 +14,6 @@ pub use formula::{
     NitrogenRule, SeniorCheck,
 };
 pub use isotopes::{
-    aggregated_pattern, fine_structure_pattern, IsotopePattern, Peak, RelativePeak,
+    aggregated_pattern, fine_isotopologues, fine_structure_pattern, IsotopePattern, Peak,
+    RelativePeak,
 };
