@@ -240,7 +240,7 @@ pub fn metadata(
     let mut diagnostics = Vec::new();
     let raw = match read_side(side) {
         Ok(raw) => raw,
-        Err(d) => return (None, vec![d]),
+        Err(d) => return (None, vec![*d]),
     };
     let side_origin = side.map_or(origin, |(_, o)| o);
     let mut m = Metadata::default();
@@ -268,7 +268,7 @@ pub fn metadata(
             }
         }
         Err(d) => {
-            diagnostics.push(d);
+            diagnostics.push(*d);
             return (None, diagnostics);
         }
     }
@@ -286,13 +286,11 @@ pub fn metadata(
 }
 
 /// The side file `(text, origin)` read (empty when there is none or it is empty).
-fn read_side(side: Option<(&str, &str)>) -> Result<RawSide, Diagnostic> {
+fn read_side(side: Option<(&str, &str)>) -> Result<RawSide, Box<Diagnostic>> {
     let Some((src, side_origin)) = side else {
         return Ok(RawSide::default());
     };
-    crate::yaml::from_str::<Option<RawSide>>(src, side_origin)
-        .map(Option::unwrap_or_default)
-        .map_err(|d| *d)
+    crate::yaml::from_str::<Option<RawSide>>(src, side_origin).map(Option::unwrap_or_default)
 }
 
 /// Where a reference's metadata comes from, for diagnostics.
@@ -359,10 +357,10 @@ fn phase(
     header: Option<&HeaderSummary>,
     side: Option<(&str, &str)>,
     side_origin: &str,
-) -> Result<Option<(Phase, String)>, Diagnostic> {
+) -> Result<Option<(Phase, String)>, Box<Diagnostic>> {
     if let Some(word) = &raw.phase {
         let Some(p) = Phase::from_word(word) else {
-            return Err(unknown_phase(word, side, side_origin));
+            return Err(Box::new(unknown_phase(word, side, side_origin)));
         };
         return Ok(Some((p, "side file".to_owned())));
     }
