@@ -302,6 +302,22 @@ mod tests {
     }
 
     #[test]
+    fn a_bad_required_value_is_not_also_reported_missing() {
+        // `id` is required: blanking its bad value to look further must not add "missing
+        // field id"; an item whose only key is misspelt is not also "not an item".
+        let text = "items:\n  - id: [1]\n    n: 2\n  - idd: b\n";
+        let found = errors(text);
+        assert_eq!(found.len(), 2, "{found:#?}");
+        assert_eq!(found[0].2.as_deref(), Some("items[0].id"), "{found:#?}");
+        assert!(found[0].3.starts_with("invalid type"), "{found:#?}");
+        assert_eq!(found[1].2.as_deref(), Some("items[1]"), "{found:#?}");
+        assert!(
+            found[1].3.starts_with("unknown field \"idd\""),
+            "{found:#?}"
+        );
+    }
+
+    #[test]
     fn a_single_error_is_the_one_serde_yaml_reports() {
         let text = "items:\n  - { id: a, n: -1 }\n";
         let one = errors(text);
