@@ -210,37 +210,7 @@ fn carbonyl_groups() -> Vec<Group> {
             None,
         )],
     );
-    let aldehyde = group(
-        "aldehyde",
-        &[("C", 1), ("H", 1), ("O", 1)],
-        1,
-        carbon(0, 1),
-        vec![
-            band("C=O stretch", 1720.0, 1740.0, Strong, Any, Diagnostic),
-            one_of(
-                band(
-                    "C–H stretch (Fermi pair, low)",
-                    2695.0,
-                    2750.0,
-                    Medium,
-                    Sharp,
-                    Diagnostic,
-                ),
-                "aldehyde_ch",
-            ),
-            one_of(
-                band(
-                    "C–H stretch (Fermi pair, high)",
-                    2800.0,
-                    2860.0,
-                    Medium,
-                    Sharp,
-                    Diagnostic,
-                ),
-                "aldehyde_ch",
-            ),
-        ],
-    );
+    let aldehyde = aldehyde();
     let acid = group(
         "carboxylic_acid",
         &[("C", 1), ("O", 2), ("H", 1)],
@@ -273,6 +243,44 @@ fn carbonyl_groups() -> Vec<Group> {
         ],
     );
     vec![aldehyde, ketone, acid, ester]
+}
+
+/// Aldehyde: C=O with the Fermi pair of C–H stretches (either one enough).
+fn aldehyde() -> Group {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
+    group(
+        "aldehyde",
+        &[("C", 1), ("H", 1), ("O", 1)],
+        1,
+        carbon(0, 1),
+        vec![
+            band("C=O stretch", 1720.0, 1740.0, Strong, Any, Diagnostic),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, low)",
+                    2695.0,
+                    2750.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, high)",
+                    2800.0,
+                    2860.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
+        ],
+    )
 }
 
 /// Nitrile, primary amine, chloro.
