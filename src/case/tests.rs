@@ -124,6 +124,11 @@ fn every_schema_error_of_a_case_is_reported_at_once_with_its_place() {
         ],
         "{diagnostics:#?}"
     );
+    let one = *parse_raw(&src, "t.yaml").expect_err("a schema error");
+    assert!(
+        diagnostics.contains(&one),
+        "the first error is among them: {one:?}"
+    );
     assert_eq!(
         diagnostics[0].help.as_deref(),
         Some("did you mean \"title\"?")

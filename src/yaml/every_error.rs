@@ -20,8 +20,9 @@ use serde::de::DeserializeOwned;
 use std::marker::PhantomData;
 use std::ops::Range;
 
-/// Deserialises `src` into `T`; on failure, every schema error found (at least one), each
-/// with its place, key path and "did you mean" hint, in file order.
+/// Deserialises `src` into `T`; on failure, every schema error found (at least the one
+/// [`super::from_str`] reports), each with its place, key path and "did you mean" hint, in
+/// file order.
 pub fn from_str_every_error<T: DeserializeOwned>(
     src: &str,
     origin: &str,
@@ -41,10 +42,15 @@ pub fn from_str_every_error<T: DeserializeOwned>(
         target: PhantomData,
     };
     search.node(&root, src.as_bytes(), &mut Vec::new());
-    if search.found.is_empty() {
-        return Err(vec![translate_error(&first, src, origin)]);
-    }
     let mut found = search.found;
+    // Never lose the error the one-error reader reports.
+    let first = translate_error(&first, src, origin);
+    if !found
+        .iter()
+        .any(|d| d.position == first.position && d.message == first.message)
+    {
+        found.push(first);
+    }
     found.sort_by_key(|d| d.position.map(|p| (p.line, p.column)));
     found.dedup();
     Err(found)
