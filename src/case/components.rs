@@ -2,9 +2,9 @@
 //! laboratory suspects, with its reference spectrum file or its band list. Validated here
 //! like the case's own IR evidence; the engine subtracts them (`engine::mixture`).
 
-use super::model::{KnownComponent, ObservedBand, Place, ReferencedFile};
+use super::model::{KnownComponent, ReferencedFile};
 use super::raw::RawComponent;
-use super::validate::{validate_bands, Ctx};
+use super::validate::{observed_picked_bands, supplied_file, validate_bands, Ctx};
 use crate::ir::{PickOptions, PreparedTrace, SpectrumData};
 use crate::yaml::KeyPath;
 
@@ -68,15 +68,7 @@ pub(super) fn validate_components(
             }
             (Some(written), None) => {
                 let spath = path.with_key("spectrum");
-                let Some(file) = files.iter().find(|f| &f.written == written) else {
-                    ctx.error(
-                        &spath,
-                        format!("the spectrum file \"{written}\" was not read"),
-                        Some(
-                            "run the case through the quiddity command, which reads the files it names"
-                                .to_owned(),
-                        ),
-                    );
+                let Some(file) = supplied_file(ctx, &spath, written, files) else {
                     continue;
                 };
                 match crate::ir::bands_from_file_contents(
@@ -85,19 +77,7 @@ pub(super) fn validate_components(
                     &PickOptions::default(),
                 ) {
                     Ok(picked) => {
-                        let bands = picked
-                            .bands()
-                            .into_iter()
-                            .enumerate()
-                            .map(|(k, band)| ObservedBand {
-                                band,
-                                place: Place {
-                                    origin: file.origin.clone(),
-                                    position: None,
-                                    key_path: format!("picked band {}", k + 1),
-                                },
-                            })
-                            .collect();
+                        let bands = observed_picked_bands(&picked, &file.origin);
                         out.push(KnownComponent {
                             name: c.name.clone(),
                             place,

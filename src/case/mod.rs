@@ -33,10 +33,16 @@ pub fn parse_raw(src: &str, origin: &str) -> Result<RawCase, Box<Diagnostic>> {
 /// Parses and validates case-file text: the case when it is usable, and every problem
 /// found (errors and warnings) with file, line, column and key path.
 pub fn parse(src: &str, origin: &str) -> (Option<Case>, Vec<Diagnostic>) {
-    match parse_raw(src, origin) {
+    match parse_raw_every_error(src, origin) {
         Ok(raw) => validate(&raw, src, origin),
-        Err(d) => (None, vec![*d]),
+        Err(diagnostics) => (None, diagnostics),
     }
+}
+
+/// Like [`parse_raw`], but a file that does not fit the schema comes back with every
+/// schema error found (each with file, line, column and key path), not only the first.
+pub fn parse_raw_every_error(src: &str, origin: &str) -> Result<RawCase, Vec<Diagnostic>> {
+    crate::yaml::from_str_every_error::<RawCase>(src, origin)
 }
 
 #[cfg(test)]

@@ -92,6 +92,54 @@ fn bad_inputs_are_reported_with_place_key_path_and_hint() {
 }
 
 #[test]
+fn every_schema_error_of_a_case_is_reported_at_once_with_its_place() {
+    // Three independent problems: a misspelt top-level key, a misspelt band key, and a
+    // molecular ion that is not a number. Each comes with file:line:col and key path, in
+    // file order, and none is invented by the search (no "missing field").
+    let src = GOOD
+        .replacen("title:", "titl:", 1)
+        .replacen("strength: strong, shape", "strenght: strong, shape", 1)
+        .replacen("molecular_ion: 58", "molecular_ion: fifty-eight", 1);
+    let (case, diagnostics) = parse(&src, "t.yaml");
+    assert!(case.is_none());
+    let shown: Vec<String> = diagnostics
+        .iter()
+        .map(|d| {
+            let p = d.position.expect("a place");
+            format!(
+                "{}:{} {} {}",
+                p.line + 1,
+                p.column + 1,
+                d.key_path.as_deref().unwrap_or("-"),
+                d.message.split(',').next().unwrap_or("")
+            )
+        })
+        .collect();
+    assert_eq!(
+        shown,
+        [
+            "3:1 - unknown field \"titl\"",
+            "6:18 ms.molecular_ion invalid type: string \"fifty-eight\"",
+            "12:19 ir.bands[1] unknown field \"strenght\"",
+        ],
+        "{diagnostics:#?}"
+    );
+    let one = *parse_raw(&src, "t.yaml").expect_err("a schema error");
+    assert!(
+        diagnostics.contains(&one),
+        "the first error is among them: {one:?}"
+    );
+    assert_eq!(
+        diagnostics[0].help.as_deref(),
+        Some("did you mean \"title\"?")
+    );
+    assert_eq!(
+        diagnostics[2].help.as_deref(),
+        Some("did you mean \"strength\"?")
+    );
+}
+
+#[test]
 fn unknown_keys_are_errors_with_a_suggestion() {
     let src = GOOD.replacen("strength: strong, shape", "strenght: strong, shape", 1);
     let d = first_error(&src);

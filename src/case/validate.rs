@@ -240,6 +240,48 @@ fn validate_review(ctx: &mut Ctx<'_>, raw: &RawReview) -> Review {
     }
 }
 
+/// The file the case names as `written` at `path`; `None`, with an error, when the caller
+/// did not supply it (only the command line reads files).
+pub(super) fn supplied_file<'f>(
+    ctx: &mut Ctx<'_>,
+    path: &KeyPath,
+    written: &str,
+    files: &'f [ReferencedFile],
+) -> Option<&'f ReferencedFile> {
+    let file = files.iter().find(|f| f.written == written);
+    if file.is_none() {
+        ctx.error(
+            path,
+            format!("the spectrum file \"{written}\" was not read"),
+            Some(
+                "run the case through the quiddity command, which reads the files it names"
+                    .to_owned(),
+            ),
+        );
+    }
+    file
+}
+
+/// The bands picked from the file `origin`, each placed as `picked band N`.
+pub(super) fn observed_picked_bands(
+    picked: &crate::ir::PickedSpectrum,
+    origin: &str,
+) -> Vec<ObservedBand> {
+    picked
+        .bands()
+        .into_iter()
+        .enumerate()
+        .map(|(i, band)| ObservedBand {
+            band,
+            place: Place {
+                origin: origin.to_owned(),
+                position: None,
+                key_path: format!("picked band {}", i + 1),
+            },
+        })
+        .collect()
+}
+
 /// Picks the bands of the named spectrum file; `None` (with an error) when the file was
 /// not supplied or cannot be read.
 fn pick_spectrum(
@@ -249,17 +291,7 @@ fn pick_spectrum(
     technique: Option<Technique>,
 ) -> Option<(SpectrumSource, Vec<ObservedBand>)> {
     let path = KeyPath::key("ir").with_key("spectrum");
-    let Some(file) = files.iter().find(|f| f.written == written) else {
-        ctx.error(
-            &path,
-            format!("the spectrum file \"{written}\" was not read"),
-            Some(
-                "run the case through the quiddity command, which reads the files it names"
-                    .to_owned(),
-            ),
-        );
-        return None;
-    };
+    let file = supplied_file(ctx, &path, written, files)?;
     // A gas-phase case is picked as a vapour spectrum (P/R contours merged, water-vapour
     // lines and CO2 kept weak); every other technique is a condensed phase.
     let mut options = PickOptions::default();
@@ -268,19 +300,7 @@ fn pick_spectrum(
     }
     match crate::ir::bands_from_file_contents(&file.bytes, &file.origin, &options) {
         Ok(picked) => {
-            let bands = picked
-                .bands()
-                .into_iter()
-                .enumerate()
-                .map(|(i, band)| ObservedBand {
-                    band,
-                    place: Place {
-                        origin: file.origin.clone(),
-                        position: None,
-                        key_path: format!("picked band {}", i + 1),
-                    },
-                })
-                .collect::<Vec<_>>();
+            let bands = observed_picked_bands(&picked, &file.origin);
             let source = SpectrumSource {
                 written: written.to_owned(),
                 origin: file.origin.clone(),

@@ -329,131 +329,219 @@ pub fn consider(
         return single;
     };
     let mut tried = Vec::new();
-    let mut best: Option<(Outcome, ComponentFit, Vec<f64>)> = None;
+    let mut best: Option<Trial> = None;
     for component in &case.components {
+        let trial = Trial::run(case, catalogue, options, component);
+        let helps = trial.helps(&single, &strong_unexplained);
+        tried.push(trial.summary(helps));
+        let better = best
+            .as_ref()
+            .is_none_or(|b| trial.leader_score() > b.leader_score());
+        if helps && better {
+            best = Some(trial);
+        }
+    }
+    let reading = Reading {
+        trigger_text,
+        strong_unexplained,
+        tried,
+    };
+    match best {
+        Some(trial) => reading.with_component(&single, trial),
+        None => reading.without_component(case, single),
+    }
+}
+
+/// One known component subtracted and the residual deduced.
+struct Trial<'c> {
+    /// The component as written.
+    component: &'c KnownComponent,
+    /// The residual's outcome.
+    outcome: Outcome,
+    /// How the component was fitted and which bands it took.
+    fitted: ComponentFit,
+    /// The residual's bands (`at` cm⁻¹).
+    residual: Vec<f64>,
+}
+
+impl<'c> Trial<'c> {
+    /// Subtracts `component` from the case's bands and solves what is left.
+    fn run(
+        case: &Case,
+        catalogue: &Catalogue,
+        options: &SolveOptions,
+        component: &'c KnownComponent,
+    ) -> Self {
         let (bands, fitted) = residual_bands(case, component);
         let mut residual_case = case.clone();
         if let Some(ir) = residual_case.ir.as_mut() {
             ir.bands = bands;
         }
         let outcome = super::budget_free_single(&residual_case, catalogue, options);
+        let residual = residual_case
+            .ir
+            .iter()
+            .flat_map(|ir| ir.bands.iter().map(|b| b.band.at))
+            .collect();
+        Self {
+            component,
+            outcome,
+            fitted,
+            residual,
+        }
+    }
+
+    /// Whether the residual reading helps: it has candidates, needs no second component
+    /// itself, and either one compound had none or the component takes the strong bands
+    /// the single leader left unexplained.
+    fn helps(&self, single: &Outcome, strong_unexplained: &[f64]) -> bool {
         let explains_strong = strong_unexplained.iter().all(|&at| {
-            fitted
+            self.fitted
                 .attributed_bands
                 .iter()
                 .any(|&b| (b - at).abs() <= MATCH_CM1)
         });
-        let helps = !outcome.candidates.is_empty()
+        !self.outcome.candidates.is_empty()
             && (single.candidates.is_empty() || explains_strong)
-            && trigger(&outcome).is_none();
-        tried.push(format!(
+            && trigger(&self.outcome).is_none()
+    }
+
+    /// The residual leader's score, if any.
+    fn leader_score(&self) -> Option<f64> {
+        self.outcome.candidates.first().map(|c| c.score)
+    }
+
+    /// One line for the `tried` list.
+    fn summary(&self, helps: bool) -> String {
+        format!(
             "{} ({}): {} band(s) attributed, residual gives {} consistent combination(s){}",
-            component.name,
-            fitted.method,
-            fitted.attributed_bands.len(),
-            outcome.n_consistent,
+            self.component.name,
+            self.fitted.method,
+            self.fitted.attributed_bands.len(),
+            self.outcome.n_consistent,
             if helps { "" } else { " — not taken" }
+        )
+    }
+}
+
+/// What is known of the mixture reading before choosing the outcome to show.
+struct Reading {
+    /// Why a second component was considered.
+    trigger_text: String,
+    /// Strong bands the single-compound leader left unexplained.
+    strong_unexplained: Vec<f64>,
+    /// The components tried, in words.
+    tried: Vec<String>,
+}
+
+impl Reading {
+    /// The residual's outcome, with the evidence for the mixture reading.
+    fn with_component(self, single: &Outcome, trial: Trial<'_>) -> Outcome {
+        let Trial {
+            mut outcome,
+            fitted,
+            residual,
+            ..
+        } = trial;
+        let mut evidence = vec![format!(
+            "one compound alone: {}",
+            self.single_summary(single)
+        )];
+        for c in &single.conflicts {
+            evidence.push(format!(
+                "single-compound conflict: {}",
+                c.explanation.join("; ")
+            ));
+        }
+        evidence.push(format!(
+            "{} accounts for the band(s) at {}{}",
+            fitted.name,
+            list(&fitted.attributed_bands),
+            fit_method_words(&fitted)
         ));
-        let score = outcome.candidates.first().map(|c| c.score);
-        let better = match &best {
-            None => true,
-            Some((b, _, _)) => score > b.candidates.first().map(|c| c.score),
-        };
-        if helps && better {
-            let residual: Vec<f64> = residual_case
-                .ir
-                .iter()
-                .flat_map(|ir| ir.bands.iter().map(|b| b.band.at))
-                .collect();
-            best = Some((outcome, fitted, residual));
+        evidence.push(format!(
+            "the residual ({} band(s)) gives {} consistent combination(s) for the compound deduced",
+            residual.len(),
+            outcome.n_consistent
+        ));
+        outcome.mixture = Some(MixtureOutcome {
+            trigger: self.trigger_text,
+            component: Some(fitted),
+            residual_bands: residual,
+            unexplained_bands: Vec::new(),
+            evidence,
+            tried: self.tried,
+        });
+        outcome
+    }
+
+    /// What one compound alone gave, in words.
+    fn single_summary(&self, single: &Outcome) -> String {
+        match single.candidates.first() {
+            None => "no consistent candidate".to_owned(),
+            Some(_) if !self.strong_unexplained.is_empty() => format!(
+                "{} consistent, the leader leaving {} unexplained",
+                single.n_consistent,
+                list(&self.strong_unexplained)
+            ),
+            Some(c) => format!(
+                "{} consistent, the leader ({}) explaining the component's bands with its own groups",
+                single.n_consistent,
+                c.groups
+                    .iter()
+                    .map(|(g, n)| if *n > 1 { format!("{n} × {g}") } else { g.clone() })
+                    .collect::<Vec<_>>()
+                    .join(" + ")
+            ),
         }
     }
-    match best {
-        Some((mut outcome, fitted, residual)) => {
-            let alone = match single.candidates.first() {
-                None => "no consistent candidate".to_owned(),
-                Some(_) if !strong_unexplained.is_empty() => format!(
-                    "{} consistent, the leader leaving {} unexplained",
-                    single.n_consistent,
-                    list(&strong_unexplained)
-                ),
-                Some(c) => format!(
-                    "{} consistent, the leader ({}) explaining the component's bands with its own groups",
-                    single.n_consistent,
-                    c.groups
-                        .iter()
-                        .map(|(g, n)| if *n > 1 { format!("{n} × {g}") } else { g.clone() })
-                        .collect::<Vec<_>>()
-                        .join(" + ")
-                ),
-            };
-            let mut evidence = vec![format!("one compound alone: {alone}")];
-            for c in &single.conflicts {
-                evidence.push(format!(
-                    "single-compound conflict: {}",
-                    c.explanation.join("; ")
-                ));
-            }
-            evidence.push(format!(
-                "{} accounts for the band(s) at {}{}",
-                fitted.name,
-                list(&fitted.attributed_bands),
-                match (fitted.factor, fitted.absorbance_share) {
-                    (Some(f), Some(s)) => format!(
-                        " (reference spectrum fitted with factor {f}, {:.0} % of the integrated absorbance)",
-                        s * 100.0
-                    ),
-                    _ => " (band lists matched within ±10 cm⁻¹; no fraction can be fitted from band lists)".to_owned(),
+
+    /// The single outcome, with the bands a second compound would have to explain.
+    fn without_component(self, case: &Case, single: Outcome) -> Outcome {
+        let mut outcome = single;
+        let unexplained = if self.strong_unexplained.is_empty() {
+            conflict_bands(case, &outcome)
+        } else {
+            self.strong_unexplained
+        };
+        let mut evidence = Vec::new();
+        if !unexplained.is_empty() {
+            let sentence = format!(
+                "a mixture: a second compound would have to explain the band(s) at {} cm⁻¹{}",
+                list(&unexplained),
+                if case.components.is_empty() {
+                    " (list suspected components with their reference spectra or bands under `components:` to test it)"
+                } else {
+                    " (no listed component explains them)"
                 }
-            ));
-            evidence.push(format!(
-                "the residual ({} band(s)) gives {} consistent combination(s) for the compound deduced",
-                residual.len(),
-                outcome.n_consistent
-            ));
-            outcome.mixture = Some(MixtureOutcome {
-                trigger: trigger_text,
-                component: Some(fitted),
-                residual_bands: residual,
-                unexplained_bands: Vec::new(),
-                evidence,
-                tried,
-            });
-            outcome
-        }
-        None => {
-            let mut outcome = single;
-            let unexplained = if strong_unexplained.is_empty() {
-                conflict_bands(case, &outcome)
-            } else {
-                strong_unexplained
-            };
-            let mut evidence = Vec::new();
-            if !unexplained.is_empty() {
-                let sentence = format!(
-                    "a mixture: a second compound would have to explain the band(s) at {} cm⁻¹{}",
-                    list(&unexplained),
-                    if case.components.is_empty() {
-                        " (list suspected components with their reference spectra or bands under `components:` to test it)"
-                    } else {
-                        " (no listed component explains them)"
-                    }
-                );
-                evidence.push(sentence.clone());
-                for c in &mut outcome.conflicts {
-                    c.suggested_causes.push(sentence.clone());
-                }
+            );
+            evidence.push(sentence.clone());
+            for c in &mut outcome.conflicts {
+                c.suggested_causes.push(sentence.clone());
             }
-            outcome.mixture = Some(MixtureOutcome {
-                trigger: trigger_text,
-                component: None,
-                residual_bands: Vec::new(),
-                unexplained_bands: unexplained,
-                evidence,
-                tried,
-            });
-            outcome
         }
+        outcome.mixture = Some(MixtureOutcome {
+            trigger: self.trigger_text,
+            component: None,
+            residual_bands: Vec::new(),
+            unexplained_bands: unexplained,
+            evidence,
+            tried: self.tried,
+        });
+        outcome
+    }
+}
+
+/// How a component's bands were matched, in words (the fitted factor and share, or why
+/// band lists give none).
+fn fit_method_words(fitted: &ComponentFit) -> String {
+    match (fitted.factor, fitted.absorbance_share) {
+        (Some(f), Some(s)) => format!(
+            " (reference spectrum fitted with factor {f}, {:.0} % of the integrated absorbance)",
+            s * 100.0
+        ),
+        _ => " (band lists matched within ±10 cm⁻¹; no fraction can be fitted from band lists)"
+            .to_owned(),
     }
 }
 

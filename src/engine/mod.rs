@@ -206,143 +206,33 @@ fn solve_stated_within<M: Meter>(
         .as_ref()
         .map(|f| f.formula.nominal_mass() as f64);
 
-    // Enumerate the consistent combinations.
-    let mut found: Vec<(Vec<u32>, u32)> = Vec::new();
-    let mut enumeration_truncated = false;
-    let per_combination = combination_bytes(&problem);
-    let mut stop = None;
-    if formula_ok {
-        let allowed = problem.allowed_groups();
-        enumerate::walk_pruned(&problem, &allowed, |counts, skeleton_c| {
-            let metered = if evaluate::evaluate(&problem, counts, skeleton_c, false).is_empty() {
-                if found.len() >= options.enumeration_limit {
-                    enumeration_truncated = true;
-                    return Flow::Stop;
-                }
-                found.push((counts.to_vec(), skeleton_c));
-                meter.hold(per_combination, stage)
-            } else {
-                meter.tick(stage)
-            };
-            match metered {
-                Ok(()) => Flow::Continue,
-                Err(e) => {
-                    stop = Some(e);
-                    Flow::Stop
-                }
-            }
-        });
-    }
-    if let Some(e) = stop {
-        return Err(e);
-    }
-    let held = per_combination * found.len() as u64;
+    let found = if formula_ok {
+        find_consistent(&problem, options, meter, stage)?
+    } else {
+        Found::default()
+    };
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
-    // Score and evidence signature in one pass over the bands; then best score first, ties
-    // to fewer group instances, then catalogue order (the counts compared as a whole). The
-    // instance sums are computed once, not per comparison.
-    let mut band_quality = Vec::new();
-    let mut keyed: Vec<(u32, collapse::Signature, ScoredCombination)> = found
-        .into_iter()
-        .map(|(counts, sk)| {
-            band_quality.clear();
-            let s = score::score_noting(&problem, &counts, sk, &parts, &mut band_quality);
-            let sig = collapse::signature(&problem, &counts, &band_quality);
-            (counts.iter().sum::<u32>(), sig, (s, counts, sk))
-        })
-        .collect();
-    keyed.sort_by(|(na, _, a), (nb, _, b)| {
-        b.0.total_cmp(&a.0)
-            .then_with(|| na.cmp(nb))
-            .then_with(|| b.1.cmp(&a.1))
-    });
-    let (signatures, scored): (Vec<collapse::Signature>, Vec<ScoredCombination>) =
-        keyed.into_iter().map(|(_, sig, x)| (sig, x)).unzip();
-    let n_combinations = scored.len();
-    let classes = collapse::collapse(&signatures);
-    drop(signatures);
-    let n_consistent = classes.len();
-    let mut in_some_candidate = vec![false; problem.groups.len()];
-    for (_, counts, _) in &scored {
-        for (i, &n) in counts.iter().enumerate() {
-            if n > 0 {
-                in_some_candidate[i] = true;
-            }
-        }
-    }
-    let ranked: Vec<(Vec<u32>, u32)> = classes
-        .iter()
-        .take(5)
-        .map(|(best, _)| (scored[*best].1.clone(), scored[*best].2))
-        .collect();
-    let candidates: Vec<Candidate> = classes
-        .iter()
-        .take(options.max_candidates)
-        .enumerate()
-        .map(|(i, (best, rest))| {
-            let (s, counts, sk) = &scored[*best];
-            let terms = score::terms(&problem, counts, *sk, ms_e, molecular_nominal, &parts);
-            let mut c = explain::candidate(
-                &problem,
-                counts,
-                *sk,
-                i + 1,
-                *s,
-                terms,
-                ms_e,
-                molecular_nominal,
-            );
-            c.alternatives = rest
-                .iter()
-                .map(|r| explain::group_map(&problem, &scored[*r].1))
-                .collect();
-            c
-        })
-        .collect();
-
-    // Near misses: compositions over every composable group that fail on one point.
-    let mut near: Vec<(usize, f64, Vec<u32>, Vec<evaluate::Failure>)> = Vec::new();
-    if formula_ok {
-        let composable = problem.composable_groups();
-        let mut budget = options.near_miss_budget;
-        enumerate::walk(&problem, &composable, |counts, sk| {
-            if budget == 0 {
-                return Flow::Stop;
-            }
-            budget -= 1;
-            let failures = evaluate::evaluate(&problem, counts, sk, true);
-            if failures.len() == 1 {
-                let s = score::score(&problem, counts, sk, &parts);
-                near.push((failures.len(), s, counts.to_vec(), failures));
-            }
-            Flow::Continue
-        });
-    }
-    near.sort_by(|a, b| {
-        a.0.cmp(&b.0)
-            .then(b.1.total_cmp(&a.1))
-            .then_with(|| b.2.cmp(&a.2))
-    });
-    let near_misses: Vec<NearMiss> = near
-        .iter()
-        .take(8)
-        .map(|(_, _, counts, failures)| explain::near_miss(&problem, counts, failures))
-        .collect();
-
+    let ranked = Ranked::new(&problem, found.combinations, &parts);
+    let candidates = ranked.candidates(&problem, options, ms_e, molecular_nominal, &parts);
+    let near_misses = if formula_ok {
+        near_misses(&problem, options, &parts)
+    } else {
+        Vec::new()
+    };
     let ruled_out = explain::ruled_out(
         &problem,
-        &in_some_candidate,
-        formula_ok && !enumeration_truncated,
+        &ranked.groups_in_some_candidate(problem.groups.len()),
+        formula_ok && !found.truncated,
     );
-
     let conflicts = if candidates.is_empty() {
         conflict_report(case, catalogue, options, &problem, &evidence_checks)
     } else {
         Vec::new()
     };
-    let discriminating_checks = discriminate::checks(&problem, &ranked, 12);
+    let discriminating_checks = discriminate::checks(&problem, &ranked.leaders(5), 12);
 
-    meter.release(held);
+    meter.release(found.held);
+    let n_consistent = ranked.classes.len();
     Ok(Outcome {
         case: case.id.clone(),
         formula: case.formula.as_ref().map(|f| f.composition.to_string()),
@@ -352,8 +242,8 @@ fn solve_stated_within<M: Meter>(
         list_truncated: n_consistent > candidates.len(),
         candidates,
         n_consistent,
-        n_combinations,
-        enumeration_truncated,
+        n_combinations: ranked.scored.len(),
+        enumeration_truncated: found.truncated,
         ruled_out,
         near_misses,
         conflicts,
@@ -365,6 +255,187 @@ fn solve_stated_within<M: Meter>(
         salt: None,
         mixture: None,
     })
+}
+
+/// The consistent combinations an enumeration found, and what they hold on the meter.
+#[derive(Default)]
+struct Found {
+    /// Concrete group counts and skeleton carbons of each consistent combination.
+    combinations: Vec<(Vec<u32>, u32)>,
+    /// Whether the enumeration stopped at the limit.
+    truncated: bool,
+    /// Bytes held on the meter for them.
+    held: u64,
+}
+
+/// Enumerates the compositions over the groups the bands allow and keeps those that
+/// meet every constraint, up to the enumeration limit, metering each step.
+fn find_consistent<M: Meter>(
+    problem: &Problem<'_>,
+    options: &SolveOptions,
+    meter: &mut M,
+    stage: Stage,
+) -> Result<Found, M::Stop> {
+    let mut combinations: Vec<(Vec<u32>, u32)> = Vec::new();
+    let mut truncated = false;
+    let per_combination = combination_bytes(problem);
+    let mut stop = None;
+    let allowed = problem.allowed_groups();
+    enumerate::walk_pruned(problem, &allowed, |counts, skeleton_c| {
+        let metered = if evaluate::evaluate(problem, counts, skeleton_c, false).is_empty() {
+            if combinations.len() >= options.enumeration_limit {
+                truncated = true;
+                return Flow::Stop;
+            }
+            combinations.push((counts.to_vec(), skeleton_c));
+            meter.hold(per_combination, stage)
+        } else {
+            meter.tick(stage)
+        };
+        match metered {
+            Ok(()) => Flow::Continue,
+            Err(e) => {
+                stop = Some(e);
+                Flow::Stop
+            }
+        }
+    });
+    if let Some(e) = stop {
+        return Err(e);
+    }
+    let held = per_combination * combinations.len() as u64;
+    Ok(Found {
+        combinations,
+        truncated,
+        held,
+    })
+}
+
+/// The consistent combinations scored, best first, and collapsed into classes that the
+/// evidence cannot tell apart.
+struct Ranked {
+    /// Every consistent combination with its score, best first.
+    scored: Vec<ScoredCombination>,
+    /// Each class: the index of its best member in `scored` and the others'.
+    classes: Vec<(usize, Vec<usize>)>,
+}
+
+impl Ranked {
+    /// Score and evidence signature in one pass over the bands; then best score first,
+    /// ties to fewer group instances, then catalogue order (the counts compared as a
+    /// whole). The instance sums are computed once, not per comparison.
+    fn new(problem: &Problem<'_>, found: Vec<(Vec<u32>, u32)>, parts: &score::Parts) -> Self {
+        let mut band_quality = Vec::new();
+        let mut keyed: Vec<(u32, collapse::Signature, ScoredCombination)> = found
+            .into_iter()
+            .map(|(counts, sk)| {
+                band_quality.clear();
+                let s = score::score_noting(problem, &counts, sk, parts, &mut band_quality);
+                let sig = collapse::signature(problem, &counts, &band_quality);
+                (counts.iter().sum::<u32>(), sig, (s, counts, sk))
+            })
+            .collect();
+        keyed.sort_by(|(na, _, a), (nb, _, b)| {
+            b.0.total_cmp(&a.0)
+                .then_with(|| na.cmp(nb))
+                .then_with(|| b.1.cmp(&a.1))
+        });
+        let (signatures, scored): (Vec<collapse::Signature>, Vec<ScoredCombination>) =
+            keyed.into_iter().map(|(_, sig, x)| (sig, x)).unzip();
+        let classes = collapse::collapse(&signatures);
+        Self { scored, classes }
+    }
+
+    /// Which groups appear in at least one consistent combination.
+    fn groups_in_some_candidate(&self, n_groups: usize) -> Vec<bool> {
+        let mut in_some_candidate = vec![false; n_groups];
+        for (_, counts, _) in &self.scored {
+            for (i, &n) in counts.iter().enumerate() {
+                if n > 0 {
+                    in_some_candidate[i] = true;
+                }
+            }
+        }
+        in_some_candidate
+    }
+
+    /// The best combination of each of the first `n` classes.
+    fn leaders(&self, n: usize) -> Vec<(Vec<u32>, u32)> {
+        self.classes
+            .iter()
+            .take(n)
+            .map(|(best, _)| (self.scored[*best].1.clone(), self.scored[*best].2))
+            .collect()
+    }
+
+    /// The classes shown, explained: one candidate per class, the other members as its
+    /// alternatives.
+    fn candidates(
+        &self,
+        problem: &Problem<'_>,
+        options: &SolveOptions,
+        ms_e: Option<&crate::case::MsEvidence>,
+        molecular_nominal: Option<f64>,
+        parts: &score::Parts,
+    ) -> Vec<Candidate> {
+        self.classes
+            .iter()
+            .take(options.max_candidates)
+            .enumerate()
+            .map(|(i, (best, rest))| {
+                let (s, counts, sk) = &self.scored[*best];
+                let terms = score::terms(problem, counts, *sk, ms_e, molecular_nominal, parts);
+                let mut c = explain::candidate(
+                    problem,
+                    counts,
+                    *sk,
+                    i + 1,
+                    *s,
+                    terms,
+                    ms_e,
+                    molecular_nominal,
+                );
+                c.alternatives = rest
+                    .iter()
+                    .map(|r| explain::group_map(problem, &self.scored[*r].1))
+                    .collect();
+                c
+            })
+            .collect()
+    }
+}
+
+/// Near misses: compositions over every composable group that fail on one point, best
+/// score first, at most eight.
+fn near_misses(
+    problem: &Problem<'_>,
+    options: &SolveOptions,
+    parts: &score::Parts,
+) -> Vec<NearMiss> {
+    let mut near: Vec<(usize, f64, Vec<u32>, Vec<evaluate::Failure>)> = Vec::new();
+    let composable = problem.composable_groups();
+    let mut budget = options.near_miss_budget;
+    enumerate::walk(problem, &composable, |counts, sk| {
+        if budget == 0 {
+            return Flow::Stop;
+        }
+        budget -= 1;
+        let failures = evaluate::evaluate(problem, counts, sk, true);
+        if failures.len() == 1 {
+            let s = score::score(problem, counts, sk, parts);
+            near.push((failures.len(), s, counts.to_vec(), failures));
+        }
+        Flow::Continue
+    });
+    near.sort_by(|a, b| {
+        a.0.cmp(&b.0)
+            .then(b.1.total_cmp(&a.1))
+            .then_with(|| b.2.cmp(&a.2))
+    });
+    near.iter()
+        .take(8)
+        .map(|(_, _, counts, failures)| explain::near_miss(problem, counts, failures))
+        .collect()
 }
 
 fn conflict_report(

@@ -186,34 +186,8 @@ impl<'c> Problem<'c> {
             .as_ref()
             .filter(|_| !set_aside.contains(&EvidenceItem::Formula))
             .map(|f| f.composition.clone());
-        let technique = case.ir.as_ref().and_then(|i| i.technique);
-        let window = case
-            .ir
-            .as_ref()
-            .map_or_else(|| crate::case::default_window(None), |i| i.window);
-        let bands: Vec<(usize, &ObservedBand)> = case
-            .ir
-            .iter()
-            .flat_map(|ir| ir.bands.iter().enumerate())
-            .filter(|(i, _)| !set_aside.contains(&EvidenceItem::Band(*i)))
-            .collect();
-        let band_refs: Vec<&ObservedBand> = bands.iter().map(|(_, b)| *b).collect();
-        let set_aside_bands: Vec<&ObservedBand> = case
-            .ir
-            .iter()
-            .flat_map(|ir| ir.bands.iter().enumerate())
-            .filter(|(i, _)| set_aside.contains(&EvidenceItem::Band(*i)))
-            .map(|(_, b)| b)
-            .collect();
-
-        let mut elements: Vec<String> = Vec::new();
-        if let Some(f) = &formula {
-            for (s, _) in f.iter() {
-                if s != "C" && s != "H" && !elements.iter().any(|e| e == s) {
-                    elements.push(s.to_owned());
-                }
-            }
-        }
+        let ir = ActiveIr::of(case, set_aside);
+        let elements = heteroatom_elements(formula.as_ref());
         let formula_hetero: Vec<u32> = elements
             .iter()
             .map(|e| formula.as_ref().map_or(0, |f| f.count(e)))
@@ -221,185 +195,58 @@ impl<'c> Problem<'c> {
         let formula_dbe = formula
             .as_ref()
             .and_then(super::constraints::dbe::whole_dbe);
-
-        let concrete: Vec<(usize, &Group)> = catalogue
-            .groups
-            .iter()
-            .enumerate()
-            .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
-            // Salt forms only where the formula pairs a counter-ion with them.
-            .filter(|(_, g)| g.ionic.is_none_or(|side| options.ionic_sites.admits(side)))
-            .collect();
-        let groups: Vec<GroupData> = concrete
-            .iter()
+        let groups: Vec<GroupData> = concrete_groups(catalogue, options)
+            .into_iter()
             .map(|(catalogue_idx, g)| {
-                let mut hetero = Vec::new();
-                let mut foreign_element = None;
-                for (s, n) in g.atoms.iter() {
-                    if s == "C" || s == "H" {
-                        continue;
-                    }
-                    match elements.iter().position(|e| e == s) {
-                        Some(i) => hetero.push((i, n)),
-                        // Without a formula no element is foreign.
-                        None if formula.is_some() => foreign_element = Some(s.to_owned()),
-                        None => {}
-                    }
-                }
-                let presence = if case.ir.is_none() {
-                    diagnostic_bands::Presence::default()
-                } else {
-                    diagnostic_bands::presence(
-                        &g.bands,
-                        &band_refs,
-                        &set_aside_bands,
-                        catalogue,
-                        technique,
-                        diagnostic_bands::Observable {
-                            window,
-                            opaque: case.ir.as_ref().map_or(&[][..], |i| &i.opaque[..]),
-                        },
-                        options.tolerance_cm1,
-                    )
-                };
-                GroupData {
-                    group: g,
-                    catalogue_idx: *catalogue_idx,
-                    // A salt form counts as its neutral parent's family too: the organic
-                    // part (free base, free acid) holds the parent group.
-                    lineage: {
-                        let mut l = catalogue.lineage(&g.id);
-                        if let Some(parent) = &g.salt_of {
-                            l.extend(catalogue.lineage(parent));
-                        }
-                        l
-                    },
-                    c: g.atoms.count("C"),
-                    h: g.atoms.count("H"),
-                    hetero,
-                    foreign_element,
-                    has_atoms: g.atoms.n_atoms() > 0,
-                    sp3_ch: g.dbe == 0 && g.atoms.count("C") > 0 && g.atoms.count("H") > 0,
-                    presence,
-                }
-            })
-            .collect();
-        let holds =
-            |idx: usize, ids: &[String]| groups[idx].lineage.iter().any(|l| ids.contains(l));
-        let excludes: Vec<Vec<usize>> = (0..groups.len())
-            .map(|i| {
-                (0..groups.len())
-                    .filter(|&j| {
-                        let gi = groups[i].group;
-                        let gj = groups[j].group;
-                        holds(j, &gi.excludes) || holds(i, &gj.excludes)
-                    })
-                    .collect()
-            })
-            .collect();
-        let requires: Vec<Vec<usize>> = (0..groups.len())
-            .map(|i| {
-                let wanted = &groups[i].group.requires_any;
-                if wanted.is_empty() {
-                    Vec::new()
-                } else {
-                    (0..groups.len())
-                        .filter(|&j| j != i && holds(j, wanted))
-                        .collect()
-                }
-            })
-            .collect();
-        let skeleton_needs: Vec<(Vec<usize>, bool)> = catalogue
-            .skeleton
-            .iter()
-            .map(|s| {
-                let sp3 = s.needs_any.iter().any(|n| n == "sp3_carbon");
-                let list = (0..groups.len())
-                    .filter(|&j| holds(j, &s.needs_any))
-                    .collect();
-                (list, sp3)
-            })
-            .collect();
-        let positions: Vec<f64> = bands.iter().map(|(_, b)| b.band.at).collect();
-        let mut explainers: Vec<band_explanation::BandExplainers> = bands
-            .iter()
-            .map(|(_, b)| {
-                band_explanation::explainers_of(
-                    &b.band,
-                    &positions,
+                let presence = ir.presence(case, g, catalogue, options);
+                GroupData::new(
                     catalogue,
-                    &groups,
-                    technique,
-                    options.tolerance_cm1,
+                    catalogue_idx,
+                    g,
+                    &elements,
+                    formula.is_some(),
+                    presence,
                 )
             })
             .collect();
-        if technique == Some(Technique::Gas) {
-            let plain: Vec<&crate::ir::Band> = bands.iter().map(|(_, b)| &b.band).collect();
-            band_explanation::mark_branches(&plain, &mut explainers);
-        }
-        let exclude_sets = excludes
-            .iter()
-            .map(|e| GroupSet::of(e.iter().copied()))
-            .collect();
-        let require_sets = requires
-            .iter()
-            .map(|r| GroupSet::of(r.iter().copied()))
-            .collect();
-        let band_needs = explainers
-            .iter()
-            .map(|ex: &band_explanation::BandExplainers| {
-                let free = !ex.artefacts.is_empty()
-                    || ex.skeleton.iter().any(|(si, _)| skeleton_needs[*si].1);
-                (ex.demanded && !free).then(|| {
-                    let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
-                    for (_, gs, _) in &ex.patterns {
-                        gs.iter().for_each(|&g| set.insert(g));
-                    }
-                    for (si, _) in &ex.skeleton {
-                        skeleton_needs[*si].0.iter().for_each(|&g| set.insert(g));
-                    }
-                    set
-                })
-            })
-            .collect();
+        let relations = Relations::of(catalogue, &groups);
+        let explainers = ir.explainers(catalogue, &groups, options);
+        let band_needs = band_needs(&explainers, &relations.skeleton_needs);
+        let explained_by_groups = explainers.iter().map(explaining_groups).collect();
         let mut problem = Problem {
             catalogue,
             tolerance: options.tolerance_cm1,
-            technique,
-            window,
+            technique: ir.technique,
+            window: ir.window,
             formula_c: formula.as_ref().map_or(0, |f| f.count("C")),
             formula_h: formula.as_ref().map_or(0, |f| f.count("H")),
             formula,
             elements,
             formula_hetero,
             formula_dbe,
-            bands,
+            bands: ir.bands,
             has_ir: case.ir.is_some(),
             groups,
             explainers,
-            excludes,
-            requires,
-            skeleton_needs,
-            exclude_sets,
-            require_sets,
+            exclude_sets: relations
+                .excludes
+                .iter()
+                .map(|e| GroupSet::of(e.iter().copied()))
+                .collect(),
+            require_sets: relations
+                .requires
+                .iter()
+                .map(|r| GroupSet::of(r.iter().copied()))
+                .collect(),
+            excludes: relations.excludes,
+            requires: relations.requires,
+            skeleton_needs: relations.skeleton_needs,
             band_needs,
             ionic_sites: options.ionic_sites,
             sp3_ch_stretch_seen: false,
             split_group: Vec::new(),
-            explained_by_groups: Vec::new(),
+            explained_by_groups,
         };
-        problem.explained_by_groups = problem
-            .explainers
-            .iter()
-            .map(|ex| {
-                let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
-                for (_, gs, _) in &ex.patterns {
-                    gs.iter().for_each(|&g| set.insert(g));
-                }
-                set
-            })
-            .collect();
         problem.sp3_ch_stretch_seen = super::score::sp3_ch_stretch_seen(&problem);
         problem.split_group = (0..problem.groups.len())
             .map(|g| super::collapse::is_split_group(&problem, g))
@@ -424,4 +271,256 @@ impl<'c> Problem<'c> {
             .filter(|&i| self.groups[i].foreign_element.is_none())
             .collect()
     }
+}
+
+/// The case's IR evidence with the set-aside bands split off.
+struct ActiveIr<'c> {
+    /// The sampling technique, when stated.
+    technique: Option<Technique>,
+    /// The measured window.
+    window: (f64, f64),
+    /// Active observed bands and their index in `ir.bands`.
+    bands: Vec<(usize, &'c ObservedBand)>,
+    /// The active bands alone, as the presence check takes them.
+    band_refs: Vec<&'c ObservedBand>,
+    /// Bands set aside by a conflict search.
+    set_aside: Vec<&'c ObservedBand>,
+}
+
+impl<'c> ActiveIr<'c> {
+    /// Splits the case's bands into active and set aside.
+    fn of(case: &'c Case, set_aside: &BTreeSet<EvidenceItem>) -> Self {
+        let indexed = || case.ir.iter().flat_map(|ir| ir.bands.iter().enumerate());
+        let bands: Vec<(usize, &ObservedBand)> = indexed()
+            .filter(|(i, _)| !set_aside.contains(&EvidenceItem::Band(*i)))
+            .collect();
+        Self {
+            technique: case.ir.as_ref().and_then(|i| i.technique),
+            window: case
+                .ir
+                .as_ref()
+                .map_or_else(|| crate::case::default_window(None), |i| i.window),
+            band_refs: bands.iter().map(|(_, b)| *b).collect(),
+            bands,
+            set_aside: indexed()
+                .filter(|(i, _)| set_aside.contains(&EvidenceItem::Band(*i)))
+                .map(|(_, b)| b)
+                .collect(),
+        }
+    }
+
+    /// The presence verdict of group `g` from the active bands (none without IR).
+    fn presence(
+        &self,
+        case: &Case,
+        g: &Group,
+        catalogue: &Catalogue,
+        options: &SolveOptions,
+    ) -> diagnostic_bands::Presence {
+        let Some(case_ir) = &case.ir else {
+            return diagnostic_bands::Presence::default();
+        };
+        diagnostic_bands::presence(
+            &g.bands,
+            &self.band_refs,
+            &self.set_aside,
+            catalogue,
+            self.technique,
+            diagnostic_bands::Observable {
+                window: self.window,
+                opaque: &case_ir.opaque[..],
+            },
+            options.tolerance_cm1,
+        )
+    }
+
+    /// Per active band: how it can be explained (gas-phase branches marked).
+    fn explainers(
+        &self,
+        catalogue: &Catalogue,
+        groups: &[GroupData<'_>],
+        options: &SolveOptions,
+    ) -> Vec<band_explanation::BandExplainers> {
+        let positions: Vec<f64> = self.bands.iter().map(|(_, b)| b.band.at).collect();
+        let mut explainers: Vec<band_explanation::BandExplainers> = self
+            .bands
+            .iter()
+            .map(|(_, b)| {
+                band_explanation::explainers_of(
+                    &b.band,
+                    &positions,
+                    catalogue,
+                    groups,
+                    self.technique,
+                    options.tolerance_cm1,
+                )
+            })
+            .collect();
+        if self.technique == Some(Technique::Gas) {
+            let plain: Vec<&crate::ir::Band> = self.bands.iter().map(|(_, b)| &b.band).collect();
+            band_explanation::mark_branches(&plain, &mut explainers);
+        }
+        explainers
+    }
+}
+
+/// Heteroatom element symbols of the formula, in its order (none without a formula).
+fn heteroatom_elements(formula: Option<&Composition>) -> Vec<String> {
+    let mut elements: Vec<String> = Vec::new();
+    for (s, _) in formula.iter().flat_map(|f| f.iter()) {
+        if s != "C" && s != "H" && !elements.iter().any(|e| e == s) {
+            elements.push(s.to_owned());
+        }
+    }
+    elements
+}
+
+/// The catalogue's concrete groups (no subtypes) with their index; salt forms only where
+/// the formula pairs a counter-ion with them.
+fn concrete_groups<'c>(
+    catalogue: &'c Catalogue,
+    options: &SolveOptions,
+) -> Vec<(usize, &'c Group)> {
+    catalogue
+        .groups
+        .iter()
+        .enumerate()
+        .filter(|(_, g)| !catalogue.has_subtypes(&g.id))
+        .filter(|(_, g)| g.ionic.is_none_or(|side| options.ionic_sites.admits(side)))
+        .collect()
+}
+
+impl<'c> GroupData<'c> {
+    /// Pulls the numbers out of group `g`; `elements` are the problem's heteroatoms.
+    fn new(
+        catalogue: &'c Catalogue,
+        catalogue_idx: usize,
+        g: &'c Group,
+        elements: &[String],
+        has_formula: bool,
+        presence: diagnostic_bands::Presence,
+    ) -> Self {
+        let mut hetero = Vec::new();
+        let mut foreign_element = None;
+        for (s, n) in g.atoms.iter() {
+            if s == "C" || s == "H" {
+                continue;
+            }
+            match elements.iter().position(|e| e == s) {
+                Some(i) => hetero.push((i, n)),
+                // Without a formula no element is foreign.
+                None if has_formula => foreign_element = Some(s.to_owned()),
+                None => {}
+            }
+        }
+        // A salt form counts as its neutral parent's family too: the organic part (free
+        // base, free acid) holds the parent group.
+        let mut lineage = catalogue.lineage(&g.id);
+        if let Some(parent) = &g.salt_of {
+            lineage.extend(catalogue.lineage(parent));
+        }
+        GroupData {
+            group: g,
+            catalogue_idx,
+            lineage,
+            c: g.atoms.count("C"),
+            h: g.atoms.count("H"),
+            hetero,
+            foreign_element,
+            has_atoms: g.atoms.n_atoms() > 0,
+            sp3_ch: g.dbe == 0 && g.atoms.count("C") > 0 && g.atoms.count("H") > 0,
+            presence,
+        }
+    }
+}
+
+/// The relations between concrete groups and skeleton rules, by group index.
+struct Relations {
+    /// Per group: the groups it cannot share a candidate with.
+    excludes: Vec<Vec<usize>>,
+    /// Per group: the groups of which one must be present (empty: requires nothing).
+    requires: Vec<Vec<usize>>,
+    /// Per skeleton rule: the groups that satisfy `needs_any`, and whether
+    /// `sp3_carbon` is among its needs.
+    skeleton_needs: Vec<(Vec<usize>, bool)>,
+}
+
+impl Relations {
+    /// Resolves the catalogue's `excludes`, `requires_any` and `needs_any` ids (through
+    /// each group's lineage) to concrete group indices.
+    fn of(catalogue: &Catalogue, groups: &[GroupData<'_>]) -> Self {
+        let holds =
+            |idx: usize, ids: &[String]| groups[idx].lineage.iter().any(|l| ids.contains(l));
+        let excludes = (0..groups.len())
+            .map(|i| {
+                (0..groups.len())
+                    .filter(|&j| {
+                        let gi = groups[i].group;
+                        let gj = groups[j].group;
+                        holds(j, &gi.excludes) || holds(i, &gj.excludes)
+                    })
+                    .collect()
+            })
+            .collect();
+        let requires = (0..groups.len())
+            .map(|i| {
+                let wanted = &groups[i].group.requires_any;
+                if wanted.is_empty() {
+                    Vec::new()
+                } else {
+                    (0..groups.len())
+                        .filter(|&j| j != i && holds(j, wanted))
+                        .collect()
+                }
+            })
+            .collect();
+        let skeleton_needs = catalogue
+            .skeleton
+            .iter()
+            .map(|s| {
+                let sp3 = s.needs_any.iter().any(|n| n == "sp3_carbon");
+                let list = (0..groups.len())
+                    .filter(|&j| holds(j, &s.needs_any))
+                    .collect();
+                (list, sp3)
+            })
+            .collect();
+        Self {
+            excludes,
+            requires,
+            skeleton_needs,
+        }
+    }
+}
+
+/// The concrete groups whose band rules or patterns explain a band.
+fn explaining_groups(ex: &band_explanation::BandExplainers) -> GroupSet {
+    let mut set = GroupSet::of(ex.groups.iter().map(|(g, _, _)| *g));
+    for (_, gs, _) in &ex.patterns {
+        gs.iter().for_each(|&g| set.insert(g));
+    }
+    set
+}
+
+/// Per band: when it is demanded and nothing but groups can explain it (no artefact, no
+/// sp3 skeleton rule), the groups that can (directly, through a pattern, or as the needs
+/// of a skeleton rule).
+fn band_needs(
+    explainers: &[band_explanation::BandExplainers],
+    skeleton_needs: &[(Vec<usize>, bool)],
+) -> Vec<Option<GroupSet>> {
+    explainers
+        .iter()
+        .map(|ex| {
+            let free =
+                !ex.artefacts.is_empty() || ex.skeleton.iter().any(|(si, _)| skeleton_needs[*si].1);
+            (ex.demanded && !free).then(|| {
+                let mut set = explaining_groups(ex);
+                for (si, _) in &ex.skeleton {
+                    skeleton_needs[*si].0.iter().for_each(|&g| set.insert(g));
+                }
+                set
+            })
+        })
+        .collect()
 }

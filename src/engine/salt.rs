@@ -174,61 +174,23 @@ fn read_formula(stated: &StatedFormula) -> Vec<Reading> {
     if stated.parts.is_empty() {
         return Vec::new();
     }
-    let mut organic: Option<(Composition, u32, String)> = None;
-    let mut parts: Vec<CounterIon> = Vec::new();
-    let mut water = 0u32;
-    let mut acids = 0u32;
-    let mut acid_protons = 0u32;
-    let mut extra_organic = false;
-    for part in &stated.parts {
-        let c = &part.composition;
-        let n = part.multiplier;
-        // Counter-ions keep their written spelling (HCl, not Hill's ClH).
-        let written_unit = part
-            .text
-            .trim_start_matches(|ch: char| ch.is_ascii_digit())
-            .trim()
-            .to_owned();
-        if is_water(c) {
-            water += n;
-            parts.push(CounterIon {
-                formula: c.to_string(),
-                count: n,
-                role: "water",
-            });
-        } else if c.count("C") > 0 && organic.is_none() {
-            organic = Some((c.clone(), n, part.text.clone()));
-        } else if c.count("C") > 0 {
-            extra_organic = true;
-            parts.push(CounterIon {
-                formula: c.to_string(),
-                count: n,
-                role: "other",
-            });
-        } else if is_acid(c) {
-            acids += n;
-            acid_protons += n * c.count("H");
-            parts.push(CounterIon {
-                formula: written_unit,
-                count: n,
-                role: "acid",
-            });
-        } else {
-            parts.push(CounterIon {
-                formula: c.to_string(),
-                count: n,
-                role: "other",
-            });
-        }
-    }
-    let Some((mut comp, m, organic_text)) = organic else {
+    let SortedParts {
+        organic,
+        mut parts,
+        water,
+        acids,
+        extra_organic,
+    } = SortedParts::of(stated);
+    let Some(organic) = organic else {
         return Vec::new();
     };
+    let m = organic.count;
     let written = stated.parts.len() > 1;
     let mut why: Vec<String> = Vec::new();
     if written {
         why.push(format!(
-            "the formula is written in parts; the organic part is {organic_text}{}",
+            "the formula is written in parts; the organic part is {}{}",
+            organic.text,
             if m > 1 {
                 format!(" ({m} molecules per formula unit)")
             } else {
@@ -236,80 +198,213 @@ fn read_formula(stated: &StatedFormula) -> Vec<Reading> {
             }
         ));
     }
-    // Metals inside the organic part: each replaced as many acidic H as its charge.
-    let mut anion_sites = 0u32;
-    let metals: Vec<(String, u32, u32)> = comp
-        .iter()
-        .filter_map(|(s, n)| metal_charge(s).map(|v| (s.to_owned(), n, v)))
-        .collect();
-    for (symbol, n, v) in &metals {
-        if let Some(c) = minus(&comp, symbol, *n) {
-            comp = c;
-            comp.add("H", n * v);
-            anion_sites += n * v;
-            parts.insert(
-                0,
-                CounterIon {
-                    formula: format!("{symbol}{}", if *v == 1 { "+" } else { "2+" }),
-                    count: n * m,
-                    role: "metal",
-                },
-            );
-            why.push(format!(
-                "{symbol} in an organic formula is read as the cation of a salt (common practice): \
-                 each {symbol} replaced {v} acidic H, so the free acid holds {} more H",
-                n * v
-            ));
-        }
+    let metals = MetalSalt::free_acid(organic.composition, m);
+    // Each metal goes before the parts already listed, the last one read first.
+    for ion in metals.ions {
+        parts.insert(0, ion);
     }
-    let n_nitrogen = comp.count("N");
-    let mut cation = (0u32, 0u32);
-    if acids > 0 {
-        // Each acid gives at least one proton; no more than its H or the bases' N.
-        let lo = acids.div_ceil(m);
-        let hi = (acid_protons.min(m * n_nitrogen) / m).max(lo);
-        cation = (lo, hi);
-        why.push(format!(
-            "the acid part(s) protonate {} basic nitrogen(s) of the organic part, the amine taking the salt form",
-            if lo == hi {
-                lo.to_string()
-            } else {
-                format!("{lo} to {hi}")
-            }
-        ));
-    } else if extra_organic && n_nitrogen > 0 {
-        // A second organic part may be an organic acid paired with the base.
-        cation = (0, n_nitrogen);
-        why.push(
-            "a second organic part is kept in the atom balance, not deduced; it may be an \
-             organic acid paired with the base, so salt forms of the amine are admitted"
-                .to_owned(),
-        );
-    }
+    why.extend(metals.why);
+    let comp = metals.organic;
+    let cation = acids.cation_sites(comp.count("N"), m, extra_organic, &mut why);
     if water > 0 {
         why.push(format!(
             "{water} H2O per formula unit is water of crystallisation: taken off the organic \
              part, its bands may explain observed bands"
         ));
     }
-    let anion = (anion_sites, anion_sites);
-    let kind = if !metals.is_empty() {
+    if !written && !metals.found {
+        return hydrohalide_readings(&comp);
+    }
+    let kind = if metals.found {
         ReadingKind::Metal
     } else {
         ReadingKind::WrittenParts
     };
-    if written || !metals.is_empty() {
-        return vec![Reading {
-            kind,
-            organic: comp,
-            organic_count: m,
-            parts,
-            water,
-            sites: IonicSites { cation, anion },
-            why: why.join("; "),
-        }];
+    vec![Reading {
+        kind,
+        organic: comp,
+        organic_count: m,
+        parts,
+        water,
+        sites: IonicSites {
+            cation,
+            anion: (metals.anion_sites, metals.anion_sites),
+        },
+        why: why.join("; "),
+    }]
+}
+
+/// The first part holding carbon: the organic compound to deduce.
+struct OrganicPart {
+    /// One molecule of it.
+    composition: Composition,
+    /// Molecules per formula unit.
+    count: u32,
+    /// As written.
+    text: String,
+}
+
+/// The acid parts of a formula.
+#[derive(Default)]
+struct Acids {
+    /// Acid units per formula unit.
+    units: u32,
+    /// Protons they can give in all.
+    protons: u32,
+}
+
+impl Acids {
+    /// How many basic nitrogens the acids protonate (lowest, highest), saying why in
+    /// `why`; a second organic part may be an organic acid paired with the base.
+    fn cation_sites(
+        &self,
+        n_nitrogen: u32,
+        m: u32,
+        extra_organic: bool,
+        why: &mut Vec<String>,
+    ) -> (u32, u32) {
+        if self.units > 0 {
+            // Each acid gives at least one proton; no more than its H or the bases' N.
+            let lo = self.units.div_ceil(m);
+            let hi = (self.protons.min(m * n_nitrogen) / m).max(lo);
+            why.push(format!(
+                "the acid part(s) protonate {} basic nitrogen(s) of the organic part, the amine taking the salt form",
+                if lo == hi {
+                    lo.to_string()
+                } else {
+                    format!("{lo} to {hi}")
+                }
+            ));
+            (lo, hi)
+        } else if extra_organic && n_nitrogen > 0 {
+            why.push(
+                "a second organic part is kept in the atom balance, not deduced; it may be an \
+                 organic acid paired with the base, so salt forms of the amine are admitted"
+                    .to_owned(),
+            );
+            (0, n_nitrogen)
+        } else {
+            (0, 0)
+        }
     }
-    hydrohalide_readings(&comp)
+}
+
+/// A formula's written parts sorted by role.
+struct SortedParts {
+    /// The organic part, when some part holds carbon.
+    organic: Option<OrganicPart>,
+    /// Water, acids and other parts, in written order.
+    parts: Vec<CounterIon>,
+    /// Water of crystallisation per formula unit.
+    water: u32,
+    /// The acid parts.
+    acids: Acids,
+    /// True when a second part holds carbon (kept in the atom balance only).
+    extra_organic: bool,
+}
+
+impl SortedParts {
+    /// Sorts each written part: water, the (first) organic part, other carbon parts,
+    /// acids, and the rest.
+    fn of(stated: &StatedFormula) -> Self {
+        let mut sorted = Self {
+            organic: None,
+            parts: Vec::new(),
+            water: 0,
+            acids: Acids::default(),
+            extra_organic: false,
+        };
+        for part in &stated.parts {
+            let c = &part.composition;
+            let n = part.multiplier;
+            let other = |role| CounterIon {
+                formula: c.to_string(),
+                count: n,
+                role,
+            };
+            if is_water(c) {
+                sorted.water += n;
+                sorted.parts.push(other("water"));
+            } else if c.count("C") > 0 && sorted.organic.is_none() {
+                sorted.organic = Some(OrganicPart {
+                    composition: c.clone(),
+                    count: n,
+                    text: part.text.clone(),
+                });
+            } else if c.count("C") > 0 {
+                sorted.extra_organic = true;
+                sorted.parts.push(other("other"));
+            } else if is_acid(c) {
+                sorted.acids.units += n;
+                sorted.acids.protons += n * c.count("H");
+                // Counter-ions keep their written spelling (HCl, not Hill's ClH).
+                let written_unit = part
+                    .text
+                    .trim_start_matches(|ch: char| ch.is_ascii_digit())
+                    .trim()
+                    .to_owned();
+                sorted.parts.push(CounterIon {
+                    formula: written_unit,
+                    count: n,
+                    role: "acid",
+                });
+            } else {
+                sorted.parts.push(other("other"));
+            }
+        }
+        sorted
+    }
+}
+
+/// The organic part with its metals (alkali, alkaline earth, Zn) read as counter-ions.
+struct MetalSalt {
+    /// The free acid: each metal replaced by as many H as its charge.
+    organic: Composition,
+    /// True when the organic part held a metal.
+    found: bool,
+    /// Acidic H the metals replaced (carboxylate sites).
+    anion_sites: u32,
+    /// The metal cations, in the order read.
+    ions: Vec<CounterIon>,
+    /// Why, one sentence a metal.
+    why: Vec<String>,
+}
+
+impl MetalSalt {
+    /// Reads the metals of `comp` (`m` molecules per formula unit) as cations.
+    fn free_acid(mut comp: Composition, m: u32) -> Self {
+        let metals: Vec<(String, u32, u32)> = comp
+            .iter()
+            .filter_map(|(s, n)| metal_charge(s).map(|v| (s.to_owned(), n, v)))
+            .collect();
+        let mut anion_sites = 0u32;
+        let mut ions = Vec::new();
+        let mut why = Vec::new();
+        for (symbol, n, v) in &metals {
+            if let Some(c) = minus(&comp, symbol, *n) {
+                comp = c;
+                comp.add("H", n * v);
+                anion_sites += n * v;
+                ions.push(CounterIon {
+                    formula: format!("{symbol}{}", if *v == 1 { "+" } else { "2+" }),
+                    count: n * m,
+                    role: "metal",
+                });
+                why.push(format!(
+                    "{symbol} in an organic formula is read as the cation of a salt (common practice): \
+                     each {symbol} replaced {v} acidic H, so the free acid holds {} more H",
+                    n * v
+                ));
+            }
+        }
+        Self {
+            organic: comp,
+            found: !metals.is_empty(),
+            anion_sites,
+            ions,
+            why,
+        }
+    }
 }
 
 /// N with Cl, Br or I in one unwritten formula: the covalent reading (when possible) and

@@ -122,6 +122,23 @@ fn subtype(mut g: Group, parent: &str) -> Group {
 /// alkyne, plain ring; sp3/sp2 C–H skeleton rules, CO2 and KBr-moisture artefacts, an ATR
 /// effect.
 pub fn small_catalogue() -> Catalogue {
+    let mut groups = alcohols_and_ether();
+    groups.extend(carbonyl_groups());
+    groups.extend(nitrogen_and_halogen_groups());
+    groups.extend(hydrocarbon_groups());
+    Catalogue {
+        groups,
+        skeleton: skeleton_rules(),
+        artefacts: artefact_rules(),
+        patterns: Vec::new(),
+        technique_effects: technique_effects(),
+        hydrate_bands: Vec::new(),
+        digest: "testkit".into(),
+    }
+}
+
+/// Alcohol with its primary and secondary subtypes, phenol, ether.
+fn alcohols_and_ether() -> Vec<Group> {
     use BandRole::*;
     use ExpectedShape::*;
     use ExpectedStrength::*;
@@ -170,6 +187,16 @@ pub fn small_catalogue() -> Catalogue {
             Diagnostic,
         )],
     );
+    let mut phenol = group("phenol", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh()]);
+    phenol.requires_any = vec!["aromatic_ring".into()];
+    vec![alcohol, primary, secondary, phenol, ether]
+}
+
+/// Ketone, aldehyde, carboxylic acid, ester (catalogue order: aldehyde first).
+fn carbonyl_groups() -> Vec<Group> {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
     let ketone = group(
         "ketone",
         &[("C", 1), ("O", 1)],
@@ -183,37 +210,7 @@ pub fn small_catalogue() -> Catalogue {
             None,
         )],
     );
-    let aldehyde = group(
-        "aldehyde",
-        &[("C", 1), ("H", 1), ("O", 1)],
-        1,
-        carbon(0, 1),
-        vec![
-            band("C=O stretch", 1720.0, 1740.0, Strong, Any, Diagnostic),
-            one_of(
-                band(
-                    "C–H stretch (Fermi pair, low)",
-                    2695.0,
-                    2750.0,
-                    Medium,
-                    Sharp,
-                    Diagnostic,
-                ),
-                "aldehyde_ch",
-            ),
-            one_of(
-                band(
-                    "C–H stretch (Fermi pair, high)",
-                    2800.0,
-                    2860.0,
-                    Medium,
-                    Sharp,
-                    Diagnostic,
-                ),
-                "aldehyde_ch",
-            ),
-        ],
-    );
+    let aldehyde = aldehyde();
     let acid = group(
         "carboxylic_acid",
         &[("C", 1), ("O", 2), ("H", 1)],
@@ -245,6 +242,52 @@ pub fn small_catalogue() -> Catalogue {
             band("C–O stretch", 1150.0, 1300.0, Strong, Any, Supporting),
         ],
     );
+    vec![aldehyde, ketone, acid, ester]
+}
+
+/// Aldehyde: C=O with the Fermi pair of C–H stretches (either one enough).
+fn aldehyde() -> Group {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
+    group(
+        "aldehyde",
+        &[("C", 1), ("H", 1), ("O", 1)],
+        1,
+        carbon(0, 1),
+        vec![
+            band("C=O stretch", 1720.0, 1740.0, Strong, Any, Diagnostic),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, low)",
+                    2695.0,
+                    2750.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
+            one_of(
+                band(
+                    "C–H stretch (Fermi pair, high)",
+                    2800.0,
+                    2860.0,
+                    Medium,
+                    Sharp,
+                    Diagnostic,
+                ),
+                "aldehyde_ch",
+            ),
+        ],
+    )
+}
+
+/// Nitrile, primary amine, chloro.
+fn nitrogen_and_halogen_groups() -> Vec<Group> {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
     let nitrile = group(
         "nitrile",
         &[("C", 1), ("N", 1)],
@@ -273,6 +316,14 @@ pub fn small_catalogue() -> Catalogue {
         hetero(1),
         vec![band("C–Cl stretch", 550.0, 850.0, Strong, Any, Diagnostic)],
     );
+    vec![nitrile, amine, chloro]
+}
+
+/// Aromatic ring, alkene, internal alkyne, plain ring.
+fn hydrocarbon_groups() -> Vec<Group> {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
     let aromatic = group(
         "aromatic_ring",
         &[("C", 6)],
@@ -332,70 +383,76 @@ pub fn small_catalogue() -> Catalogue {
         ))],
     );
     let ring = group("ring", &[], 1, OpenBonds::default(), Vec::new());
-    let mut phenol = group("phenol", &[("O", 1), ("H", 1)], 0, hetero(1), vec![oh()]);
-    phenol.requires_any = vec!["aromatic_ring".into()];
-    Catalogue {
-        groups: vec![
-            alcohol, primary, secondary, phenol, ether, aldehyde, ketone, acid, ester, nitrile,
-            amine, chloro, aromatic, alkene, alkyne, ring,
-        ],
-        skeleton: vec![
-            SkeletonRule {
-                id: "ch_sp3_stretch".into(),
-                band: band("sp3 C–H stretch", 2850.0, 2970.0, Strong, Any, Supporting),
-                needs_any: vec!["sp3_carbon".into()],
-            },
-            SkeletonRule {
-                id: "ch_sp2_stretch".into(),
-                band: band("sp2 C–H stretch", 3000.0, 3100.0, Medium, Any, Supporting),
-                needs_any: vec!["aromatic_ring".into(), "alkene".into()],
-            },
-            SkeletonRule {
-                id: "ch2_ch3_bend".into(),
-                band: band("CH2/CH3 bend", 1350.0, 1470.0, Medium, Any, Supporting),
-                needs_any: vec!["sp3_carbon".into()],
-            },
-        ],
-        artefacts: vec![
-            ArtefactRule {
-                id: "atmospheric_co2".into(),
-                label: "atmospheric CO2".into(),
-                range: Range {
-                    lo: 2330.0,
-                    hi: 2370.0,
-                },
-                techniques: Vec::new(),
-                shape: Any,
-                source: "common practice".into(),
-                defined_at: at(900),
-            },
-            ArtefactRule {
-                id: "kbr_moisture".into(),
-                label: "moisture in KBr".into(),
-                range: Range {
-                    lo: 3300.0,
-                    hi: 3500.0,
-                },
-                techniques: vec![Technique::Kbr],
-                shape: Broad,
-                source: "common practice".into(),
-                defined_at: at(901),
-            },
-        ],
-        patterns: Vec::new(),
-        technique_effects: vec![TechniqueEffect {
-            id: "atr_high_wavenumber".into(),
-            technique: Technique::Atr,
+    vec![aromatic, alkene, alkyne, ring]
+}
+
+/// sp3 and sp2 C–H stretches and the CH2/CH3 bend.
+fn skeleton_rules() -> Vec<SkeletonRule> {
+    use BandRole::*;
+    use ExpectedShape::*;
+    use ExpectedStrength::*;
+    vec![
+        SkeletonRule {
+            id: "ch_sp3_stretch".into(),
+            band: band("sp3 C–H stretch", 2850.0, 2970.0, Strong, Any, Supporting),
+            needs_any: vec!["sp3_carbon".into()],
+        },
+        SkeletonRule {
+            id: "ch_sp2_stretch".into(),
+            band: band("sp2 C–H stretch", 3000.0, 3100.0, Medium, Any, Supporting),
+            needs_any: vec!["aromatic_ring".into(), "alkene".into()],
+        },
+        SkeletonRule {
+            id: "ch2_ch3_bend".into(),
+            band: band("CH2/CH3 bend", 1350.0, 1470.0, Medium, Any, Supporting),
+            needs_any: vec!["sp3_carbon".into()],
+        },
+    ]
+}
+
+/// Atmospheric CO2 and moisture in KBr.
+fn artefact_rules() -> Vec<ArtefactRule> {
+    use ExpectedShape::*;
+    vec![
+        ArtefactRule {
+            id: "atmospheric_co2".into(),
+            label: "atmospheric CO2".into(),
             range: Range {
-                lo: 2500.0,
-                hi: 4000.0,
+                lo: 2330.0,
+                hi: 2370.0,
             },
-            weaker_by: 1,
-            label: "ATR penetration depth falls with wavenumber".into(),
+            techniques: Vec::new(),
+            shape: Any,
             source: "common practice".into(),
-            defined_at: at(950),
-        }],
-        hydrate_bands: Vec::new(),
-        digest: "testkit".into(),
-    }
+            defined_at: at(900),
+        },
+        ArtefactRule {
+            id: "kbr_moisture".into(),
+            label: "moisture in KBr".into(),
+            range: Range {
+                lo: 3300.0,
+                hi: 3500.0,
+            },
+            techniques: vec![Technique::Kbr],
+            shape: Broad,
+            source: "common practice".into(),
+            defined_at: at(901),
+        },
+    ]
+}
+
+/// ATR penetration depth.
+fn technique_effects() -> Vec<TechniqueEffect> {
+    vec![TechniqueEffect {
+        id: "atr_high_wavenumber".into(),
+        technique: Technique::Atr,
+        range: Range {
+            lo: 2500.0,
+            hi: 4000.0,
+        },
+        weaker_by: 1,
+        label: "ATR penetration depth falls with wavenumber".into(),
+        source: "common practice".into(),
+        defined_at: at(950),
+    }]
 }

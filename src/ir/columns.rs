@@ -17,8 +17,8 @@
 //! come from the header (`abs…` / `%T`, `trans…`), else the option, else a guess with a note.
 
 use super::spectrum::{
-    guess_ordinate, normalise_transmittance, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum,
-    SpectrumData, Trace, XUnits,
+    extent, guess_ordinate, micrometres_to_wavenumbers, normalise_transmittance, HeaderSummary,
+    Ordinate, ReadOptions, ReadSpectrum, SpectrumData, Trace, XUnits, MICROMETRE_NOTE,
 };
 use crate::diag::{Diagnostic, Position};
 use thiserror::Error;
@@ -244,93 +244,146 @@ fn header_ordinate(header: &str) -> Option<Ordinate> {
 ///
 /// Grammar: see the module documentation.
 pub fn read_columns(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, ColumnsError> {
-    let lines: Vec<(usize, &str)> = src
-        .split('\n')
-        .map(|l| l.strip_suffix('\r').unwrap_or(l))
-        .enumerate()
-        .filter(|(_, l)| !l.trim().is_empty() && !is_comment(l))
-        .collect();
+    let lines = content_lines(src);
     let delimiter = detect_delimiter(&lines);
     let first_data = lines
         .iter()
         .position(|(_, l)| pair(l, delimiter).is_some())
         .ok_or(ColumnsError::on_line(0, ColumnsErrorKind::NoData))?;
-    let header_text: String = lines[..first_data]
-        .iter()
-        .map(|(_, l)| *l)
-        .collect::<Vec<_>>()
-        .join("\n");
-    let mut a = Vec::new();
-    let mut b = Vec::new();
-    let mut line_of = Vec::new();
-    for &(line_idx, line) in &lines[first_data..] {
-        let fields = delimiter.split(line);
-        if let Some(bad) = fields.iter().take(2).find(|f| is_nan_word(f)) {
-            let column = line.find(bad).map_or(0, |o| line[..o].chars().count());
-            return Err(ColumnsError {
-                line: line_idx,
-                column: Some(column),
-                kind: ColumnsErrorKind::NotANumber {
-                    found: (*bad).to_owned(),
-                },
-            });
+    let columns = Columns::read(&lines[first_data..], delimiter)?;
+    let header_fields: Vec<&str> = lines[..first_data]
+        .last()
+        .map(|(_, l)| delimiter.split(l))
+        .unwrap_or_default();
+    let swapped = columns.second_is_x(&header_fields)?;
+    let mut notes = Vec::new();
+    let Columns {
+        first,
+        second,
+        line_of,
+    } = columns;
+    let (mut x, mut y) = if swapped {
+        notes.push("the second column is the monotonic one: read it as X".to_owned());
+        (second, first)
+    } else {
+        (first, second)
+    };
+    let (x_header, y_header) = axis_headers(&lines[..first_data], &header_fields, swapped);
+    let x_units = x_units_of(&x_header, &x, options, &line_of)?;
+    if x_units == XUnits::Micrometre {
+        micrometres_to_wavenumbers(&mut x).map_err(|i| {
+            ColumnsError::on_line(line_of[i], ColumnsErrorKind::BadWavelength { value: x[i] })
+        })?;
+        notes.push(MICROMETRE_NOTE.to_owned());
+    }
+    let ordinate = ordinate_of(&y_header, &y, options, &mut notes);
+    if ordinate == Ordinate::Transmittance {
+        if let Some(note) = normalise_transmittance(&mut y) {
+            notes.push(note);
         }
-        match pair(line, delimiter) {
-            Some((x, y)) => {
-                a.push(x);
-                b.push(y);
-                line_of.push(line_idx);
+    }
+    Ok(ReadSpectrum {
+        header: summary(delimiter, &x, x_units, ordinate),
+        data: SpectrumData::Trace(Trace {
+            wavenumber: x,
+            y,
+            ordinate,
+        }),
+        notes,
+    })
+}
+
+/// The lines that hold something (not blank, not a comment), with their 0-based index.
+fn content_lines(src: &str) -> Vec<(usize, &str)> {
+    src.split('\n')
+        .map(|l| l.strip_suffix('\r').unwrap_or(l))
+        .enumerate()
+        .filter(|(_, l)| !l.trim().is_empty() && !is_comment(l))
+        .collect()
+}
+
+/// The first two columns of the data lines, as written.
+struct Columns {
+    /// The first column.
+    first: Vec<f64>,
+    /// The second column.
+    second: Vec<f64>,
+    /// The 0-based line of each row.
+    line_of: Vec<usize>,
+}
+
+impl Columns {
+    /// Reads every data line as a pair of numbers; at least three rows.
+    fn read(data_lines: &[(usize, &str)], delimiter: Delimiter) -> Result<Self, ColumnsError> {
+        let mut columns = Self {
+            first: Vec::new(),
+            second: Vec::new(),
+            line_of: Vec::new(),
+        };
+        for &(line_idx, line) in data_lines {
+            let fields = delimiter.split(line);
+            if let Some(bad) = fields.iter().take(2).find(|f| is_nan_word(f)) {
+                let column = line.find(bad).map_or(0, |o| line[..o].chars().count());
+                return Err(ColumnsError {
+                    line: line_idx,
+                    column: Some(column),
+                    kind: ColumnsErrorKind::NotANumber {
+                        found: (*bad).to_owned(),
+                    },
+                });
             }
-            None => {
+            let Some((x, y)) = pair(line, delimiter) else {
                 return Err(ColumnsError::on_line(
                     line_idx,
                     ColumnsErrorKind::BadLine {
                         delimiter: delimiter.word(),
                         found: line.chars().take(60).collect(),
                     },
-                ))
-            }
+                ));
+            };
+            columns.first.push(x);
+            columns.second.push(y);
+            columns.line_of.push(line_idx);
         }
-    }
-    if a.len() < 3 {
-        return Err(ColumnsError::on_line(
-            line_of.last().copied().unwrap_or(0),
-            ColumnsErrorKind::TooFewPoints { found: a.len() },
-        ));
-    }
-    let mut notes = Vec::new();
-    // Which column is X.
-    let a_mono = strictly_monotonic(&a);
-    let b_mono = strictly_monotonic(&b);
-    let header_fields: Vec<&str> = lines[..first_data]
-        .last()
-        .map(|(_, l)| delimiter.split(l))
-        .unwrap_or_default();
-    let swapped = match (&a_mono, &b_mono) {
-        (Ok(()), Err(_)) => false,
-        (Err(_), Ok(())) => true,
-        (Ok(()), Ok(())) => {
-            header_fields.len() >= 2
-                && header_x_units(header_fields[0]).is_none()
-                && header_x_units(header_fields[1]).is_some()
-        }
-        (Err((i, previous, found)), Err(_)) => {
+        if columns.first.len() < 3 {
             return Err(ColumnsError::on_line(
-                line_of[*i],
-                ColumnsErrorKind::NonMonotonicX {
-                    previous: *previous,
-                    found: *found,
+                columns.line_of.last().copied().unwrap_or(0),
+                ColumnsErrorKind::TooFewPoints {
+                    found: columns.first.len(),
                 },
-            ))
+            ));
         }
-    };
-    let (mut x, mut y) = if swapped {
-        notes.push("the second column is the monotonic one: read it as X".to_owned());
-        (b, a)
-    } else {
-        (a, b)
-    };
-    let (x_header, y_header) = if header_fields.len() >= 2 {
+        Ok(columns)
+    }
+
+    /// Whether the second column is X: the strictly monotonic one; when both are, the
+    /// header decides (the second named like a wavenumber or wavelength, the first not).
+    fn second_is_x(&self, header_fields: &[&str]) -> Result<bool, ColumnsError> {
+        match (
+            strictly_monotonic(&self.first),
+            strictly_monotonic(&self.second),
+        ) {
+            (Ok(()), Err(_)) => Ok(false),
+            (Err(_), Ok(())) => Ok(true),
+            (Ok(()), Ok(())) => Ok(header_fields.len() >= 2
+                && header_x_units(header_fields[0]).is_none()
+                && header_x_units(header_fields[1]).is_some()),
+            (Err((i, previous, found)), Err(_)) => Err(ColumnsError::on_line(
+                self.line_of[i],
+                ColumnsErrorKind::NonMonotonicX { previous, found },
+            )),
+        }
+    }
+}
+
+/// The header text for X and for Y: the last header line's two fields when it has two,
+/// else the whole header for both.
+fn axis_headers(
+    header_lines: &[(usize, &str)],
+    header_fields: &[&str],
+    swapped: bool,
+) -> (String, String) {
+    if header_fields.len() >= 2 {
         let (xh, yh) = if swapped {
             (header_fields[1], header_fields[0])
         } else {
@@ -338,59 +391,57 @@ pub fn read_columns(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, Co
         };
         (xh.to_owned(), yh.to_owned())
     } else {
-        (header_text.clone(), header_text.clone())
-    };
-    // X units.
-    let max_x = x.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    let x_units = match header_x_units(&x_header) {
-        Some(u) => u,
-        None if max_x > 100.0 => XUnits::Wavenumber,
-        None => match options.x_units {
-            Some(u) => u,
-            None => {
-                return Err(ColumnsError::on_line(
-                    line_of[0],
-                    ColumnsErrorKind::UnknownXUnits { max: max_x },
-                ))
-            }
-        },
-    };
-    if x_units == XUnits::Micrometre {
-        if let Some(i) = x.iter().position(|v| *v <= 0.0) {
-            return Err(ColumnsError::on_line(
-                line_of[i],
-                ColumnsErrorKind::BadWavelength { value: x[i] },
-            ));
-        }
-        for v in &mut x {
-            *v = 1.0e4 / *v;
-        }
-        notes.push("X converted from micrometres to wavenumbers (10^4 / µm)".to_owned());
+        let header_text: String = header_lines
+            .iter()
+            .map(|(_, l)| *l)
+            .collect::<Vec<_>>()
+            .join("\n");
+        (header_text.clone(), header_text)
     }
-    // Y units.
-    let ordinate = match (header_ordinate(&y_header), options.ordinate) {
-        (Some(o), _) => o,
-        (None, Some(o)) => o,
+}
+
+/// X units: from the header, else from the values (largest X above 100 means cm⁻¹),
+/// else from the option; otherwise an error asking for it.
+fn x_units_of(
+    x_header: &str,
+    x: &[f64],
+    options: &ReadOptions,
+    line_of: &[usize],
+) -> Result<XUnits, ColumnsError> {
+    let max_x = x.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    match header_x_units(x_header) {
+        Some(u) => Ok(u),
+        None if max_x > 100.0 => Ok(XUnits::Wavenumber),
+        None => options.x_units.ok_or_else(|| {
+            ColumnsError::on_line(line_of[0], ColumnsErrorKind::UnknownXUnits { max: max_x })
+        }),
+    }
+}
+
+/// Y units: from the header, else the option, else a guess said in a note.
+fn ordinate_of(
+    y_header: &str,
+    y: &[f64],
+    options: &ReadOptions,
+    notes: &mut Vec<String>,
+) -> Ordinate {
+    match (header_ordinate(y_header), options.ordinate) {
+        (Some(o), _) | (None, Some(o)) => o,
         (None, None) => {
-            let o = guess_ordinate(&y);
+            let o = guess_ordinate(y);
             notes.push(format!(
                 "the file does not name its intensity units; read as {} (guessed from where most points lie)",
                 o.word()
             ));
             o
         }
-    };
-    if ordinate == Ordinate::Transmittance {
-        if let Some(note) = normalise_transmittance(&mut y) {
-            notes.push(note);
-        }
     }
-    let (lo, hi) = x
-        .iter()
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
-            (lo.min(v), hi.max(v))
-        });
-    let header = HeaderSummary {
+}
+
+/// What the header says of a two-column file as read.
+fn summary(delimiter: Delimiter, x: &[f64], x_units: XUnits, ordinate: Ordinate) -> HeaderSummary {
+    let (lo, hi) = extent(x);
+    HeaderSummary {
         format: format!("two-column text ({})", delimiter.describe()),
         title: None,
         data_type: None,
@@ -403,16 +454,7 @@ pub fn read_columns(src: &str, options: &ReadOptions) -> Result<ReadSpectrum, Co
             XUnits::Micrometre => "µm".to_owned(),
         },
         y_units: ordinate.word().to_owned(),
-    };
-    Ok(ReadSpectrum {
-        header,
-        data: SpectrumData::Trace(Trace {
-            wavenumber: x,
-            y,
-            ordinate,
-        }),
-        notes,
-    })
+    }
 }
 
 #[cfg(test)]

@@ -371,20 +371,9 @@ pub fn pick_bands_noted(
     if n < 5 || spacing <= 0.0 {
         return (Vec::new(), stats, Vec::new());
     }
-    let mut early_notes = Vec::new();
-    // A vapour recorded at high resolution resolves single rotational lines and needle-thin
-    // Q branches far taller than the contours around them: on that scale a medium C≡N or
-    // C=O contour falls under the 1 % floor. Bands are judged at a survey resolution.
-    let working;
-    let y = if params.phase == SamplePhase::Vapour && spacing < HIGH_RESOLUTION_SPACING_CM1 {
-        working = gaussian_blur(y, VAPOUR_WORKING_RESOLUTION_CM1 / spacing);
-        early_notes.push(format!(
-            "vapour phase: points {spacing:.2} cm-1 apart resolve single rotational lines; bands picked at {VAPOUR_WORKING_RESOLUTION_CM1:.0} cm-1 resolution (Gaussian line shape)"
-        ));
-        &working[..]
-    } else {
-        y
-    };
+    let mut notes = Vec::new();
+    let working = working_trace(y, spacing, params.phase, &mut notes);
+    let y = &working[..];
     let window = match params.smoothing_points {
         Some(k) => odd_window(k),
         None => odd_window((SMOOTHING_SPAN_CM1 / spacing).round() as usize),
@@ -404,59 +393,118 @@ pub fn pick_bands_noted(
         .into_iter()
         .filter(|m| m.prominence >= min_prominence)
         .collect();
-
-    let mut bands: Vec<PickedBand> = Vec::new();
-    let mut peak_indices = Vec::new();
-    let mut peak_widths: Vec<f64> = Vec::new();
-    for m in &maxima {
-        let i = m.index;
-        let (a, b, c) = (smooth[i - 1], smooth[i], smooth[i + 1]);
-        let curvature = a - 2.0 * b + c;
-        let delta = if curvature < 0.0 {
-            (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
-        } else {
-            0.0
-        };
-        let mut at = x[i] + delta * spacing;
-        let mut height = b - 0.25 * (a - c) * delta;
-        // On a wide top, noise moves the highest point about; a least-squares parabola
-        // through the top quarter of the band (by prominence) finds the centre better.
-        if let Some((top_at, top_height)) =
-            top_parabola(x, &smooth, i, m, height - 0.25 * m.prominence)
-        {
-            at = top_at;
-            height = top_height;
-        }
-        // Half prominence below the highest sample, the point the prominence is measured
-        // from (the fitted top can differ slightly and would shift the level).
-        let level = b - m.prominence / 2.0;
-        let left = crossing(&smooth, i, m.left_base, level);
-        let right = crossing(&smooth, i, m.right_base, level);
-        let centre_index = (at - x[0]) / spacing;
-        let fwhm = match (left, right) {
-            (Some(l), Some(r)) => Some((r - l) * spacing),
-            // One side runs into a taller neighbour: mirror the side that was measured.
-            (Some(l), None) => Some(2.0 * (centre_index - l) * spacing),
-            (None, Some(r)) => Some(2.0 * (r - centre_index) * spacing),
-            (None, None) => None,
-        }
-        .filter(|w| *w > 0.0);
-        peak_indices.push(i);
-        peak_widths.push(fwhm.unwrap_or(0.0));
-        bands.push(PickedBand {
-            at,
-            height,
-            relative_height: 0.0,
-            prominence: m.prominence,
-            fwhm,
-            strength: Strength::Weak,
-            shape: fwhm.map(Shape::from_width),
-            kind: BandKind::Peak,
-        });
-    }
+    let mut bands: Vec<PickedBand> = maxima
+        .iter()
+        .map(|m| peak_band(x, &smooth, m, spacing))
+        .collect();
     let max_height = bands.iter().map(|b| b.height).fold(0.0f64, f64::max);
-
     if params.shoulders && max_height > 0.0 {
+        let search = ShoulderSearch::new(x, y, &smooth, spacing, min_prominence);
+        let shoulders = search.shoulders(&maxima, &bands, max_height);
+        search.add_shoulders(&mut bands, shoulders);
+    }
+    if params.phase == SamplePhase::Vapour {
+        // Contours first, so that a Q branch or a branch narrowed by its neighbours is not
+        // taken for a water line; then the lines left over.
+        let forests = find_forests(&bands, spacing);
+        merge_contours(x, &smooth, &mut bands, &forests, &mut notes);
+        mark_line_forests(&mut bands, &forests, &mut notes);
+    }
+    mark_co2(&mut bands, params.phase, &mut notes);
+    grade_strengths(&mut bands, max_height, &mut notes);
+    bands.sort_by(|a, b| b.at.total_cmp(&a.at));
+    (bands, stats, notes)
+}
+
+/// The trace bands are judged on. A vapour recorded at high resolution resolves single
+/// rotational lines and needle-thin Q branches far taller than the contours around them:
+/// on that scale a medium C≡N or C=O contour falls under the 1 % floor, so such a trace
+/// is blurred to a survey resolution (and a note says so).
+fn working_trace<'y>(
+    y: &'y [f64],
+    spacing: f64,
+    phase: SamplePhase,
+    notes: &mut Vec<String>,
+) -> std::borrow::Cow<'y, [f64]> {
+    if phase == SamplePhase::Vapour && spacing < HIGH_RESOLUTION_SPACING_CM1 {
+        notes.push(format!(
+            "vapour phase: points {spacing:.2} cm-1 apart resolve single rotational lines; bands picked at {VAPOUR_WORKING_RESOLUTION_CM1:.0} cm-1 resolution (Gaussian line shape)"
+        ));
+        std::borrow::Cow::Owned(gaussian_blur(y, VAPOUR_WORKING_RESOLUTION_CM1 / spacing))
+    } else {
+        std::borrow::Cow::Borrowed(y)
+    }
+}
+
+/// The band at one maximum of the smoothed trace: centre and height from the top (a
+/// parabola through three points, or through the top quarter on a wide top), width at
+/// half prominence.
+fn peak_band(x: &[f64], smooth: &[f64], m: &Maximum, spacing: f64) -> PickedBand {
+    let i = m.index;
+    let (a, b, c) = (smooth[i - 1], smooth[i], smooth[i + 1]);
+    let curvature = a - 2.0 * b + c;
+    let delta = if curvature < 0.0 {
+        (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
+    } else {
+        0.0
+    };
+    let mut at = x[i] + delta * spacing;
+    let mut height = b - 0.25 * (a - c) * delta;
+    // On a wide top, noise moves the highest point about; a least-squares parabola
+    // through the top quarter of the band (by prominence) finds the centre better.
+    if let Some((top_at, top_height)) = top_parabola(x, smooth, i, m, height - 0.25 * m.prominence)
+    {
+        at = top_at;
+        height = top_height;
+    }
+    // Half prominence below the highest sample, the point the prominence is measured
+    // from (the fitted top can differ slightly and would shift the level).
+    let level = b - m.prominence / 2.0;
+    let left = crossing(smooth, i, m.left_base, level);
+    let right = crossing(smooth, i, m.right_base, level);
+    let centre_index = (at - x[0]) / spacing;
+    let fwhm = match (left, right) {
+        (Some(l), Some(r)) => Some((r - l) * spacing),
+        // One side runs into a taller neighbour: mirror the side that was measured.
+        (Some(l), None) => Some(2.0 * (centre_index - l) * spacing),
+        (None, Some(r)) => Some(2.0 * (r - centre_index) * spacing),
+        (None, None) => None,
+    }
+    .filter(|w| *w > 0.0);
+    PickedBand {
+        at,
+        height,
+        relative_height: 0.0,
+        prominence: m.prominence,
+        fwhm,
+        strength: Strength::Weak,
+        shape: fwhm.map(Shape::from_width),
+        kind: BandKind::Peak,
+    }
+}
+
+/// Shoulders: minima of the second derivative on the flanks of strong bands that no
+/// picked maximum explains.
+struct ShoulderSearch<'t> {
+    /// The grid.
+    x: &'t [f64],
+    /// The smoothed trace.
+    smooth: &'t [f64],
+    /// Its second derivative.
+    d2: Vec<f64>,
+    /// Robust noise of the second derivative (1.4826 × median absolute deviation).
+    d2_noise: f64,
+    /// Points of the derivative window.
+    d_window: usize,
+    /// Point spacing, cm⁻¹.
+    spacing: f64,
+    /// The smallest prominence a band may have.
+    min_prominence: f64,
+}
+
+impl<'t> ShoulderSearch<'t> {
+    /// Takes the second derivative of `y` over [`DERIVATIVE_SPAN_CM1`].
+    fn new(x: &'t [f64], y: &[f64], smooth: &'t [f64], spacing: f64, min_prominence: f64) -> Self {
         let d_window = odd_window((DERIVATIVE_SPAN_CM1 / spacing).round() as usize).max(5);
         let d2 = savgol(y, d_window / 2, 3, 2);
         let d2_noise = {
@@ -468,84 +516,128 @@ pub fn pick_bands_noted(
             }
             1.4826 * median(&mut tmp)
         };
+        Self {
+            x,
+            smooth,
+            d2,
+            d2_noise,
+            d_window,
+            spacing,
+            min_prominence,
+        }
+    }
+
+    /// The shoulders on the flanks of every strong band (`bands` are the peaks of
+    /// `maxima`, in the same order).
+    fn shoulders(
+        &self,
+        maxima: &[Maximum],
+        bands: &[PickedBand],
+        max_height: f64,
+    ) -> Vec<PickedBand> {
+        let n = self.d2.len();
+        let peaks: Vec<(usize, f64)> = maxima
+            .iter()
+            .zip(bands)
+            .map(|(m, b)| (m.index, b.fwhm.unwrap_or(0.0)))
+            .collect();
         let mut shoulders = Vec::new();
-        for (band_idx, m) in maxima.iter().enumerate() {
-            let band = &bands[band_idx];
+        for (m, band) in maxima.iter().zip(bands) {
             if band.height < STRONG_FRACTION * max_height {
                 continue;
             }
-            let main_depth = d2[m.index].min(0.0).abs();
             let Some(fwhm) = band.fwhm else {
                 continue;
             };
-            let half_points = (fwhm / spacing / 2.0).max(1.0);
+            let half_points = (fwhm / self.spacing / 2.0).max(1.0);
             let reach = (3.0 * half_points) as usize;
             let lo = m.index.saturating_sub(reach).max(m.left_base).max(1);
             let hi = (m.index + reach).min(m.right_base).min(n - 2);
-            for j in lo..=hi {
-                if !(d2[j] < d2[j - 1] && d2[j] <= d2[j + 1]) {
-                    continue;
-                }
-                let depth = -d2[j];
-                if depth < SHOULDER_NOISE * d2_noise || depth < SHOULDER_DEPTH_FRACTION * main_depth
-                {
-                    continue;
-                }
-                // Not the band's own core, and not any picked maximum.
-                let distance_to_peak = (j as f64 - m.index as f64).abs();
-                if distance_to_peak < 0.5 * half_points.max(d_window as f64 / 2.0) {
-                    continue;
-                }
-                // Another picked maximum explains the derivative minimum within its own
-                // core: three quarters of its width (at least half the derivative window).
-                // The host band's core was excluded above.
-                let explained = peak_indices.iter().zip(&peak_widths).any(|(&p, &w)| {
-                    let core = if p == m.index {
-                        (d_window as f64 / 2.0).max(2.0)
-                    } else {
-                        (0.75 * w / spacing).max(d_window as f64 / 2.0).max(2.0)
-                    };
-                    (p as f64 - j as f64).abs() < core
-                });
-                if explained {
-                    continue;
-                }
-                if smooth[j] < min_prominence {
-                    continue;
-                }
-                // Width between the zero crossings of the second derivative around j.
-                let mut l = j;
-                while l > 0 && d2[l] < 0.0 {
-                    l -= 1;
-                }
-                let mut r = j;
-                while r + 1 < n && d2[r] < 0.0 {
-                    r += 1;
-                }
-                // Zero-crossing width is FWHM/√3 for a Lorentzian and 0.85·FWHM for a
-                // Gaussian; 1.4 sits between, enough for the broad/sharp class.
-                let width = 1.4 * (r - l) as f64 * spacing;
-                let (a, b, c) = (d2[j - 1], d2[j], d2[j + 1]);
-                let curvature = a - 2.0 * b + c;
-                let delta = if curvature > 0.0 {
-                    (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
-                } else {
-                    0.0
-                };
-                shoulders.push(PickedBand {
-                    at: x[j] + delta * spacing,
-                    height: smooth[j],
-                    relative_height: 0.0,
-                    prominence: 0.0,
-                    fwhm: Some(width),
-                    strength: Strength::Weak,
-                    shape: Some(Shape::from_width(width)),
-                    kind: BandKind::Shoulder,
-                });
-            }
+            shoulders.extend((lo..=hi).filter_map(|j| self.shoulder_at(j, m, half_points, &peaks)));
         }
-        // One shoulder per place even when two strong bands both reach it.
-        let same_place = (d_window as f64 / 2.0).max(2.0) * spacing;
+        shoulders
+    }
+
+    /// A shoulder at point `j` on the flank of maximum `m`, unless `j` is no derivative
+    /// minimum, too shallow, in the band's own core, explained by a picked maximum
+    /// (`peaks`: index and width of each), or below the prominence floor.
+    fn shoulder_at(
+        &self,
+        j: usize,
+        m: &Maximum,
+        half_points: f64,
+        peaks: &[(usize, f64)],
+    ) -> Option<PickedBand> {
+        let d2 = &self.d2;
+        if !(d2[j] < d2[j - 1] && d2[j] <= d2[j + 1]) {
+            return None;
+        }
+        let depth = -d2[j];
+        let main_depth = d2[m.index].min(0.0).abs();
+        if depth < SHOULDER_NOISE * self.d2_noise || depth < SHOULDER_DEPTH_FRACTION * main_depth {
+            return None;
+        }
+        let half_window = self.d_window as f64 / 2.0;
+        // Not the band's own core, and not any picked maximum.
+        let distance_to_peak = (j as f64 - m.index as f64).abs();
+        if distance_to_peak < 0.5 * half_points.max(half_window) {
+            return None;
+        }
+        // Another picked maximum explains the derivative minimum within its own core:
+        // three quarters of its width (at least half the derivative window). The host
+        // band's core was excluded above.
+        let explained = peaks.iter().any(|&(p, w)| {
+            let core = if p == m.index {
+                half_window.max(2.0)
+            } else {
+                (0.75 * w / self.spacing).max(half_window).max(2.0)
+            };
+            (p as f64 - j as f64).abs() < core
+        });
+        if explained || self.smooth[j] < self.min_prominence {
+            return None;
+        }
+        Some(self.shoulder_band(j))
+    }
+
+    /// The shoulder band at derivative minimum `j`.
+    fn shoulder_band(&self, j: usize) -> PickedBand {
+        let d2 = &self.d2;
+        // Width between the zero crossings of the second derivative around j.
+        let mut l = j;
+        while l > 0 && d2[l] < 0.0 {
+            l -= 1;
+        }
+        let mut r = j;
+        while r + 1 < d2.len() && d2[r] < 0.0 {
+            r += 1;
+        }
+        // Zero-crossing width is FWHM/√3 for a Lorentzian and 0.85·FWHM for a
+        // Gaussian; 1.4 sits between, enough for the broad/sharp class.
+        let width = 1.4 * (r - l) as f64 * self.spacing;
+        let (a, b, c) = (d2[j - 1], d2[j], d2[j + 1]);
+        let curvature = a - 2.0 * b + c;
+        let delta = if curvature > 0.0 {
+            (0.5 * (a - c) / curvature).clamp(-0.5, 0.5)
+        } else {
+            0.0
+        };
+        PickedBand {
+            at: self.x[j] + delta * self.spacing,
+            height: self.smooth[j],
+            relative_height: 0.0,
+            prominence: 0.0,
+            fwhm: Some(width),
+            strength: Strength::Weak,
+            shape: Some(Shape::from_width(width)),
+            kind: BandKind::Shoulder,
+        }
+    }
+
+    /// Adds the shoulders to `bands`, one per place even when two strong bands both
+    /// reach it.
+    fn add_shoulders(&self, bands: &mut Vec<PickedBand>, shoulders: Vec<PickedBand>) {
+        let same_place = (self.d_window as f64 / 2.0).max(2.0) * self.spacing;
         for s in shoulders {
             if !bands
                 .iter()
@@ -555,20 +647,12 @@ pub fn pick_bands_noted(
             }
         }
     }
+}
 
-    let mut notes = early_notes;
-    if params.phase == SamplePhase::Vapour {
-        // Contours first, so that a Q branch or a branch narrowed by its neighbours is not
-        // taken for a water line; then the lines left over.
-        let forests = find_forests(&bands, spacing);
-        merge_contours(x, &smooth, &mut bands, &forests, &mut notes);
-        mark_line_forests(&mut bands, &forests, &mut notes);
-    }
-    mark_co2(&mut bands, params.phase, &mut notes);
-
-    // The strength scale is the tallest band that is the sample's own: a CO2 doublet or a
-    // water line taller than every band of the compound (a poor background) must not make
-    // the compound's bands all weak.
+/// Grades each band's strength against the tallest band that is the sample's own: a CO2
+/// doublet or a water line taller than every band of the compound (a poor background)
+/// must not make the compound's bands all weak. Strong water lines get a note.
+fn grade_strengths(bands: &mut [PickedBand], max_height: f64, notes: &mut Vec<String>) {
     let own_max = bands
         .iter()
         .filter(|b| !b.kind.is_artefact_likely())
@@ -586,7 +670,7 @@ pub fn pick_bands_noted(
             100.0 * tallest_line / scale
         ));
     }
-    for b in &mut bands {
+    for b in bands {
         b.relative_height = if scale > 0.0 { b.height / scale } else { 0.0 };
         b.strength = if b.kind.is_artefact_likely() {
             Strength::Weak
@@ -594,8 +678,6 @@ pub fn pick_bands_noted(
             classify_strength(b.relative_height)
         };
     }
-    bands.sort_by(|a, b| b.at.total_cmp(&a.at));
-    (bands, stats, notes)
 }
 
 /// Point spacing below which a vapour spectrum counts as high resolution, cm⁻¹ (survey

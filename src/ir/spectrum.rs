@@ -182,3 +182,26 @@ pub fn guess_ordinate(y: &[f64]) -> Ordinate {
         Ordinate::Absorbance
     }
 }
+
+/// The note a reader adds when it converts wavelengths to wavenumbers.
+pub const MICROMETRE_NOTE: &str = "X converted from micrometres to wavenumbers (10^4 / µm)";
+
+/// Converts wavelengths in µm to wavenumbers in cm⁻¹ in place (10⁴ / µm); `Err` holds the
+/// index of the first wavelength not above zero (nothing is converted then).
+pub fn micrometres_to_wavenumbers(x: &mut [f64]) -> Result<(), usize> {
+    if let Some(i) = x.iter().position(|v| *v <= 0.0) {
+        return Err(i);
+    }
+    for v in x {
+        *v = 1.0e4 / *v;
+    }
+    Ok(())
+}
+
+/// The smallest and largest of `x` (`(∞, −∞)` when empty).
+pub fn extent(x: &[f64]) -> (f64, f64) {
+    x.iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
+            (lo.min(v), hi.max(v))
+        })
+}

@@ -238,17 +238,9 @@ pub fn metadata(
     side: Option<(&str, &str)>,
 ) -> (Option<Metadata>, Vec<Diagnostic>) {
     let mut diagnostics = Vec::new();
-    let raw = match side {
-        None => RawSide::default(),
-        Some((src, side_origin)) => {
-            match crate::yaml::from_str::<Option<RawSide>>(src, side_origin) {
-                Ok(raw) => raw.unwrap_or_default(),
-                Err(d) => {
-                    diagnostics.push(*d);
-                    return (None, diagnostics);
-                }
-            }
-        }
+    let raw = match read_side(side) {
+        Ok(raw) => raw,
+        Err(d) => return (None, vec![*d]),
     };
     let side_origin = side.map_or(origin, |(_, o)| o);
     let mut m = Metadata::default();
@@ -260,84 +252,24 @@ pub fn metadata(
         .clone()
         .or(title)
         .unwrap_or_else(|| stem.to_owned());
-    // Formula: the side file wins over the header.
-    let written = match (
-        &raw.formula,
-        header.and_then(|h| header_value(h, "MOLFORM")),
-    ) {
-        (Some(f), _) => Some((f.clone(), "side file", side_origin)),
-        (None, Some(f)) => Some((f.to_owned(), "##MOLFORM=", origin)),
-        (None, None) => None,
+    let places = Places {
+        origin,
+        side_origin,
+        stem,
     };
-    match written {
-        None => diagnostics.push(
-            Diagnostic::warning(
-                origin,
-                "no formula: the reference is searched but its hits cannot be checked against the case's formula",
-            )
-            .with_help(format!(
-                "add `formula:` to a side file {stem}.yaml or a ##MOLFORM= record"
-            )),
-        ),
-        Some((text, from, place)) => {
-            m.formula_written = Some(text.clone());
-            m.formula_source = Some(from.to_owned());
-            match read_formula(&text) {
-                Ok(hill) => m.formula = Some(hill),
-                Err(why) => diagnostics.push(
-                    Diagnostic::warning(
-                        place,
-                        format!("the formula \"{text}\" ({from}) cannot be read: {why}"),
-                    )
-                    .with_help("write it as e.g. C4H8O"),
-                ),
-            }
-        }
+    if let Some(d) = places.fill_formula(&mut m, &raw, header) {
+        diagnostics.push(d);
     }
-    // Phase: side file (phase, then technique), then the header's STATE and SAMPLING.
-    if let Some(word) = &raw.phase {
-        match Phase::from_word(word) {
-            Some(p) => {
+    match phase(&raw, header, side, side_origin) {
+        Ok(found) => {
+            if let Some((p, from)) = found {
                 m.phase = Some(p);
-                m.phase_source = Some("side file".to_owned());
-            }
-            None => {
-                let help = closest_match(word, ["vapour", "condensed"]).map_or_else(
-                    || "expected vapour or condensed".to_owned(),
-                    |w| format!("did you mean \"{w}\"?"),
-                );
-                let mut d = Diagnostic::error(side_origin, format!("unknown phase \"{word}\""))
-                    .with_key_path("phase")
-                    .with_help(help);
-                if let Some((src, _)) = side {
-                    if let Some(at) =
-                        crate::yaml::locate_value(src, &crate::yaml::KeyPath::key("phase"))
-                    {
-                        d = d.at_offset(src, at);
-                    }
-                }
-                diagnostics.push(d);
-                return (None, diagnostics);
+                m.phase_source = Some(from);
             }
         }
-    }
-    if m.phase.is_none() {
-        if let Some(p) = raw.technique.as_deref().and_then(Phase::from_word) {
-            m.phase = Some(p);
-            m.phase_source = Some("side file technique".to_owned());
-        }
-    }
-    if m.phase.is_none() {
-        if let Some(h) = header {
-            for label in ["STATE", "SAMPLINGPROCEDURE"] {
-                if let Some(v) = header_value(h, label) {
-                    if let Some(p) = Phase::from_header_text(v) {
-                        m.phase = Some(p);
-                        m.phase_source = Some(format!("##{label}={v}"));
-                        break;
-                    }
-                }
-            }
+        Err(d) => {
+            diagnostics.push(*d);
+            return (None, diagnostics);
         }
     }
     m.technique = raw.technique;
@@ -351,6 +283,118 @@ pub fn metadata(
         .or_else(|| header.and_then(|h| header_value(h, "ORIGIN").map(str::to_owned)));
     m.notes = raw.notes;
     (Some(m), diagnostics)
+}
+
+/// The side file `(text, origin)` read (empty when there is none or it is empty).
+fn read_side(side: Option<(&str, &str)>) -> Result<RawSide, Box<Diagnostic>> {
+    let Some((src, side_origin)) = side else {
+        return Ok(RawSide::default());
+    };
+    crate::yaml::from_str::<Option<RawSide>>(src, side_origin).map(Option::unwrap_or_default)
+}
+
+/// Where a reference's metadata comes from, for diagnostics.
+struct Places<'a> {
+    /// The spectrum file.
+    origin: &'a str,
+    /// The side file (the spectrum file when there is none).
+    side_origin: &'a str,
+    /// The spectrum file's stem.
+    stem: &'a str,
+}
+
+impl Places<'_> {
+    /// Fills the formula fields of `m`: the side file wins over the header's `##MOLFORM=`.
+    /// A missing or unreadable formula is a warning.
+    fn fill_formula(
+        &self,
+        m: &mut Metadata,
+        raw: &RawSide,
+        header: Option<&HeaderSummary>,
+    ) -> Option<Diagnostic> {
+        let written = match (
+            &raw.formula,
+            header.and_then(|h| header_value(h, "MOLFORM")),
+        ) {
+            (Some(f), _) => Some((f.clone(), "side file", self.side_origin)),
+            (None, Some(f)) => Some((f.to_owned(), "##MOLFORM=", self.origin)),
+            (None, None) => None,
+        };
+        let Some((text, from, place)) = written else {
+            return Some(
+                Diagnostic::warning(
+                    self.origin,
+                    "no formula: the reference is searched but its hits cannot be checked against the case's formula",
+                )
+                .with_help(format!(
+                    "add `formula:` to a side file {}.yaml or a ##MOLFORM= record",
+                    self.stem
+                )),
+            );
+        };
+        m.formula_written = Some(text.clone());
+        m.formula_source = Some(from.to_owned());
+        match read_formula(&text) {
+            Ok(hill) => {
+                m.formula = Some(hill);
+                None
+            }
+            Err(why) => Some(
+                Diagnostic::warning(
+                    place,
+                    format!("the formula \"{text}\" ({from}) cannot be read: {why}"),
+                )
+                .with_help("write it as e.g. C4H8O"),
+            ),
+        }
+    }
+}
+
+/// The reference's phase and where it was found: the side file (phase, then technique),
+/// then the header's STATE and SAMPLING PROCEDURE. An unknown side-file phase is an error.
+fn phase(
+    raw: &RawSide,
+    header: Option<&HeaderSummary>,
+    side: Option<(&str, &str)>,
+    side_origin: &str,
+) -> Result<Option<(Phase, String)>, Box<Diagnostic>> {
+    if let Some(word) = &raw.phase {
+        let Some(p) = Phase::from_word(word) else {
+            return Err(Box::new(unknown_phase(word, side, side_origin)));
+        };
+        return Ok(Some((p, "side file".to_owned())));
+    }
+    if let Some(p) = raw.technique.as_deref().and_then(Phase::from_word) {
+        return Ok(Some((p, "side file technique".to_owned())));
+    }
+    let Some(h) = header else {
+        return Ok(None);
+    };
+    for label in ["STATE", "SAMPLINGPROCEDURE"] {
+        if let Some(v) = header_value(h, label) {
+            if let Some(p) = Phase::from_header_text(v) {
+                return Ok(Some((p, format!("##{label}={v}"))));
+            }
+        }
+    }
+    Ok(None)
+}
+
+/// The error for a side-file phase word that names no phase, placed on its value.
+fn unknown_phase(word: &str, side: Option<(&str, &str)>, side_origin: &str) -> Diagnostic {
+    let help = closest_match(word, ["vapour", "condensed"]).map_or_else(
+        || "expected vapour or condensed".to_owned(),
+        |w| format!("did you mean \"{w}\"?"),
+    );
+    let mut d = Diagnostic::error(side_origin, format!("unknown phase \"{word}\""))
+        .with_key_path("phase")
+        .with_help(help);
+    if let Some((src, _)) = side {
+        if let Some(at) = crate::yaml::locate_value(src, &crate::yaml::KeyPath::key("phase")) {
+            d = d.at_offset(src, at);
+        }
+    }
+    d
 }
 
 #[cfg(test)]

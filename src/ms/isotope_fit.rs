@@ -138,12 +138,7 @@ pub fn isotope_ratios_of_counts(ranges: &ElementRanges, counts: &[u32]) -> Isoto
         match element_ratios(r.element) {
             Some(ratios) => sums.add(f64::from(*n), ratios),
             None if *n > 0 => {
-                let pairs = ranges
-                    .ranges()
-                    .iter()
-                    .zip(counts)
-                    .map(|(r, n)| (r.element.symbol, *n));
-                let composition = crate::chem::Composition::from_pairs(pairs);
+                let composition = ranges.composition(counts);
                 return match Formula::from_composition(&composition) {
                     Some(f) => isotope_ratios(&f),
                     None => sums.ratios(),

@@ -120,6 +120,16 @@ impl ElementRanges {
         ElementRanges::parse(DEFAULT_RANGES).unwrap_or(ElementRanges { ranges: Vec::new() })
     }
 
+    /// The composition with `counts[i]` atoms of the `i`-th element of the ranges.
+    pub fn composition(&self, counts: &[u32]) -> crate::chem::Composition {
+        crate::chem::Composition::from_pairs(
+            self.ranges
+                .iter()
+                .zip(counts)
+                .map(|(r, n)| (r.element.symbol, *n)),
+        )
+    }
+
     /// Ranges from parts; `None` when an element repeats, a range is reversed or there
     /// are too many elements.
     pub fn from_ranges(ranges: Vec<ElementRange>) -> Option<ElementRanges> {

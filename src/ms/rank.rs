@@ -305,13 +305,7 @@ pub fn evaluate(query: &MassQuery, counts: &[u32]) -> Option<FormulaCandidate> {
     if !passes_lewis_and_senior(ranges, counts) {
         return None;
     }
-    let composition = Composition::from_pairs(
-        ranges
-            .ranges()
-            .iter()
-            .zip(counts)
-            .map(|(r, n)| (r.element.symbol, *n)),
-    );
+    let composition = ranges.composition(counts);
     if composition.n_atoms() == 0 {
         return None;
     }
@@ -467,13 +461,7 @@ mod tests {
         let mut checked = 0;
         for nominal in 1..=160 {
             crate::ms::formula_search::search_nominal(&ranges, nominal, |counts| {
-                let composition = Composition::from_pairs(
-                    ranges
-                        .ranges()
-                        .iter()
-                        .zip(counts)
-                        .map(|(r, n)| (r.element.symbol, *n)),
-                );
+                let composition = ranges.composition(counts);
                 let f = Formula::from_composition(&composition).unwrap();
                 let chem = f.lewis().passes() && f.senior().passes();
                 assert_eq!(passes_lewis_and_senior(&ranges, counts), chem, "{f}");

@@ -242,124 +242,19 @@ fn ring_pattern(positions: &[usize]) -> RingPattern {
 
 /// Derives the features of `m` (aromatised).
 pub fn features(m: &Molecule) -> StructureFeatures {
-    let mut f = StructureFeatures::default();
-    for ring in aromatic_rings(m) {
-        if ring.iter().any(|&a| m.atom(a).element != Element::C) {
-            continue;
-        }
-        let positions: Vec<usize> = (0..6)
-            .filter(|&k| m.neighbours(ring[k]).any(|(j, _)| !ring.contains(&j)))
-            .collect();
-        f.rings.push(ring_pattern(&positions));
-    }
-    let n_multiple = |i: usize| {
-        m.neighbours(i)
-            .filter(|(_, b)| matches!(b, Bond::Double | Bond::Triple))
-            .count()
-    };
-    let is_alkene_carbon = |i: usize| {
-        m.atom(i).element == Element::C
-            && m.neighbours(i)
-                .any(|(j, b)| b == Bond::Double && m.atom(j).element == Element::C)
+    let mut f = StructureFeatures {
+        rings: benzene_rings(m),
+        alkenes: Vec::new(),
+        alkynes: Vec::new(),
+        carbonyls: (0..m.n_atoms()).filter_map(|c| carbonyl(m, c)).collect(),
+        alcohols: (0..m.n_atoms()).filter_map(|o| alcohol(m, o)).collect(),
     };
     for (a, b, bond) in m.bonds() {
-        if m.atom(a).element != Element::C || m.atom(b).element != Element::C {
-            continue;
+        match carbon_carbon_multiple(m, a, b, bond) {
+            Some(CarbonCarbon::Alkene(p)) => f.alkenes.push(p),
+            Some(CarbonCarbon::Alkyne(p)) => f.alkynes.push(p),
+            None => {}
         }
-        if n_multiple(a) != 1 || n_multiple(b) != 1 {
-            continue;
-        }
-        let (sa, sb) = (m.degree(a) - 1, m.degree(b) - 1);
-        match bond {
-            Bond::Double => f.alkenes.push(match (sa + sb, sa.max(sb)) {
-                (0, _) => AlkenePattern::Unsubstituted,
-                (1, _) => AlkenePattern::Vinyl,
-                (2, 2) => AlkenePattern::Vinylidene,
-                (2, _) => AlkenePattern::Disubstituted12,
-                (3, _) => AlkenePattern::Trisubstituted,
-                _ => AlkenePattern::Tetrasubstituted,
-            }),
-            Bond::Triple => f.alkynes.push(if sa == 0 || sb == 0 {
-                AlkynePattern::Terminal
-            } else {
-                AlkynePattern::Internal
-            }),
-            _ => {}
-        }
-    }
-    for c in 0..m.n_atoms() {
-        if m.atom(c).element != Element::C {
-            continue;
-        }
-        let Some((o, _)) = m.neighbours(c).find(|&(j, b)| {
-            b == Bond::Double && m.atom(j).element == Element::O && m.degree(j) == 1
-        }) else {
-            continue;
-        };
-        if n_multiple(c) != 1 {
-            continue;
-        }
-        let others: Vec<usize> = m
-            .neighbours(c)
-            .map(|(j, _)| j)
-            .filter(|&j| j != o)
-            .collect();
-        let el = |j: usize| m.atom(j).element;
-        let kind = if others.iter().any(|&j| el(j).is_halogen()) {
-            CarbonylKind::AcylHalide
-        } else if others.iter().filter(|&&j| el(j) != Element::C).count() > 1 {
-            CarbonylKind::Other
-        } else if others.iter().any(|&j| el(j) == Element::N) {
-            CarbonylKind::Amide
-        } else if let Some(&x) = others.iter().find(|&&j| el(j) == Element::O) {
-            if m.atom(x).hydrogens == 1 {
-                CarbonylKind::CarboxylicAcid
-            } else {
-                CarbonylKind::Ester
-            }
-        } else if others.iter().any(|&j| el(j) != Element::C) {
-            CarbonylKind::Other
-        } else if others.len() == 2 {
-            CarbonylKind::Ketone
-        } else {
-            CarbonylKind::Aldehyde
-        };
-        let conjugation = if others.iter().any(|&j| m.atom(j).aromatic) {
-            Conjugation::AromaticRing
-        } else if others
-            .iter()
-            .any(|&j| is_alkene_carbon(j) && n_multiple(j) == 1)
-        {
-            Conjugation::Alkene
-        } else {
-            Conjugation::None
-        };
-        f.carbonyls.push(Carbonyl { kind, conjugation });
-    }
-    for o in 0..m.n_atoms() {
-        let a = m.atom(o);
-        if a.element != Element::O || a.hydrogens != 1 || m.degree(o) != 1 || a.charge != 0 {
-            continue;
-        }
-        let Some((c, Bond::Single)) = m.neighbours(o).next() else {
-            continue;
-        };
-        let ca = m.atom(c);
-        if ca.element != Element::C
-            || ca.aromatic
-            || m.neighbours(c).any(|(_, b)| b != Bond::Single)
-        {
-            continue;
-        }
-        let carbons = m
-            .neighbours(c)
-            .filter(|&(j, _)| m.atom(j).element == Element::C)
-            .count();
-        f.alcohols.push(match carbons {
-            0 | 1 => AlcoholClass::Primary,
-            2 => AlcoholClass::Secondary,
-            _ => AlcoholClass::Tertiary,
-        });
     }
     f.rings.sort();
     f.alkenes.sort();
@@ -367,6 +262,152 @@ pub fn features(m: &Molecule) -> StructureFeatures {
     f.carbonyls.sort();
     f.alcohols.sort();
     f
+}
+
+/// Multiple bonds an atom takes part in.
+fn n_multiple(m: &Molecule, i: usize) -> usize {
+    m.neighbours(i)
+        .filter(|(_, b)| matches!(b, Bond::Double | Bond::Triple))
+        .count()
+}
+
+/// True when atom `i` is a carbon doubly bonded to a carbon.
+fn is_alkene_carbon(m: &Molecule, i: usize) -> bool {
+    m.atom(i).element == Element::C
+        && m.neighbours(i)
+            .any(|(j, b)| b == Bond::Double && m.atom(j).element == Element::C)
+}
+
+/// The substitution pattern of each aromatic ring of six carbons.
+fn benzene_rings(m: &Molecule) -> Vec<RingPattern> {
+    aromatic_rings(m)
+        .into_iter()
+        .filter(|ring| ring.iter().all(|&a| m.atom(a).element == Element::C))
+        .map(|ring| {
+            let positions: Vec<usize> = (0..6)
+                .filter(|&k| m.neighbours(ring[k]).any(|(j, _)| !ring.contains(&j)))
+                .collect();
+            ring_pattern(&positions)
+        })
+        .collect()
+}
+
+/// An isolated C=C or C≡C with its substitution.
+enum CarbonCarbon {
+    /// A C=C.
+    Alkene(AlkenePattern),
+    /// A C≡C.
+    Alkyne(AlkynePattern),
+}
+
+/// The bond `a`–`b` read as an isolated carbon–carbon multiple bond (neither carbon in
+/// another multiple bond), with its substitution by the carbons' other neighbours.
+fn carbon_carbon_multiple(m: &Molecule, a: usize, b: usize, bond: Bond) -> Option<CarbonCarbon> {
+    if m.atom(a).element != Element::C || m.atom(b).element != Element::C {
+        return None;
+    }
+    if n_multiple(m, a) != 1 || n_multiple(m, b) != 1 {
+        return None;
+    }
+    let (sa, sb) = (m.degree(a) - 1, m.degree(b) - 1);
+    match bond {
+        Bond::Double => Some(CarbonCarbon::Alkene(match (sa + sb, sa.max(sb)) {
+            (0, _) => AlkenePattern::Unsubstituted,
+            (1, _) => AlkenePattern::Vinyl,
+            (2, 2) => AlkenePattern::Vinylidene,
+            (2, _) => AlkenePattern::Disubstituted12,
+            (3, _) => AlkenePattern::Trisubstituted,
+            _ => AlkenePattern::Tetrasubstituted,
+        })),
+        Bond::Triple => Some(CarbonCarbon::Alkyne(if sa == 0 || sb == 0 {
+            AlkynePattern::Terminal
+        } else {
+            AlkynePattern::Internal
+        })),
+        _ => None,
+    }
+}
+
+/// The carbonyl at carbon `c` (a C=O with a terminal O, the carbon in no other multiple
+/// bond), its kind and conjugation.
+fn carbonyl(m: &Molecule, c: usize) -> Option<Carbonyl> {
+    if m.atom(c).element != Element::C {
+        return None;
+    }
+    let (o, _) = m
+        .neighbours(c)
+        .find(|&(j, b)| b == Bond::Double && m.atom(j).element == Element::O && m.degree(j) == 1)?;
+    if n_multiple(m, c) != 1 {
+        return None;
+    }
+    let others: Vec<usize> = m
+        .neighbours(c)
+        .map(|(j, _)| j)
+        .filter(|&j| j != o)
+        .collect();
+    let conjugation = if others.iter().any(|&j| m.atom(j).aromatic) {
+        Conjugation::AromaticRing
+    } else if others
+        .iter()
+        .any(|&j| is_alkene_carbon(m, j) && n_multiple(m, j) == 1)
+    {
+        Conjugation::Alkene
+    } else {
+        Conjugation::None
+    };
+    Some(Carbonyl {
+        kind: carbonyl_kind(m, &others),
+        conjugation,
+    })
+}
+
+/// A carbonyl's kind from the carbonyl carbon's other neighbours.
+fn carbonyl_kind(m: &Molecule, others: &[usize]) -> CarbonylKind {
+    let el = |j: usize| m.atom(j).element;
+    if others.iter().any(|&j| el(j).is_halogen()) {
+        CarbonylKind::AcylHalide
+    } else if others.iter().filter(|&&j| el(j) != Element::C).count() > 1 {
+        CarbonylKind::Other
+    } else if others.iter().any(|&j| el(j) == Element::N) {
+        CarbonylKind::Amide
+    } else if let Some(&x) = others.iter().find(|&&j| el(j) == Element::O) {
+        if m.atom(x).hydrogens == 1 {
+            CarbonylKind::CarboxylicAcid
+        } else {
+            CarbonylKind::Ester
+        }
+    } else if others.iter().any(|&j| el(j) != Element::C) {
+        CarbonylKind::Other
+    } else if others.len() == 2 {
+        CarbonylKind::Ketone
+    } else {
+        CarbonylKind::Aldehyde
+    }
+}
+
+/// The alcohol at oxygen `o` (an uncharged OH on a saturated, non-aromatic carbon), its
+/// class by the carbons on that carbon.
+fn alcohol(m: &Molecule, o: usize) -> Option<AlcoholClass> {
+    let a = m.atom(o);
+    if a.element != Element::O || a.hydrogens != 1 || m.degree(o) != 1 || a.charge != 0 {
+        return None;
+    }
+    let Some((c, Bond::Single)) = m.neighbours(o).next() else {
+        return None;
+    };
+    let ca = m.atom(c);
+    if ca.element != Element::C || ca.aromatic || m.neighbours(c).any(|(_, b)| b != Bond::Single) {
+        return None;
+    }
+    let carbons = m
+        .neighbours(c)
+        .filter(|&(j, _)| m.atom(j).element == Element::C)
+        .count();
+    Some(match carbons {
+        0 | 1 => AlcoholClass::Primary,
+        2 => AlcoholClass::Secondary,
+        _ => AlcoholClass::Tertiary,
+    })
 }
 
 /// Where bands are expected for one feature: every range should hold a band (of at

@@ -174,29 +174,20 @@ pub fn for_each_structure(
     groups: Option<&GroupCounts>,
     mut visit: impl FnMut(Molecule) -> ControlFlow<()>,
 ) -> Result<Summary, StructureError> {
-    let problems = match groups {
-        None => match plain_problem(formula)? {
-            Ok(p) => vec![p],
-            Err(reason) => {
-                return Ok(Summary {
-                    emitted: 0,
-                    stopped: false,
-                    no_structure_reason: Some(reason),
-                    duplicates_merged: 0,
-                })
-            }
-        },
-        Some(g) => match group_problem(formula, g)? {
-            Ok(p) => vec![p],
-            Err(reason) => {
-                return Ok(Summary {
-                    emitted: 0,
-                    stopped: false,
-                    no_structure_reason: Some(reason),
-                    duplicates_merged: 0,
-                })
-            }
-        },
+    let problem = match groups {
+        None => plain_problem(formula)?,
+        Some(g) => group_problem(formula, g)?,
+    };
+    let problems = match problem {
+        Ok(p) => vec![p],
+        Err(reason) => {
+            return Ok(Summary {
+                emitted: 0,
+                stopped: false,
+                no_structure_reason: Some(reason),
+                duplicates_merged: 0,
+            })
+        }
     };
     let mut seen: HashSet<CanonicalKey> = HashSet::new();
     let mut summary = Summary {

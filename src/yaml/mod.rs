@@ -9,11 +9,14 @@
 //!   offset of every key and value, so that semantic problems found after deserialising
 //!   can be reported at `file:line:column`.
 //!
-//! [`locate`] finds a [`KeyPath`] in case-file text for the same purpose.
+//! [`locate`] finds a [`KeyPath`] in case-file text for the same purpose;
+//! [`from_str_every_error`] reports every schema error of a document, not only the first.
 
+mod every_error;
 mod locate;
 pub(crate) mod tree;
 
+pub use every_error::from_str_every_error;
 pub use locate::{locate, locate_value, KeyPath};
 pub(crate) use tree::{offset_of, parse_tree, Node, NodeKind};
 

@@ -25,6 +25,7 @@
 
 use super::super::model::Problem;
 use super::band_explanation::HydrogenNeeds;
+use crate::chem::composition::{standard_valence, Composition};
 
 /// Checks the bond conditions; `Err` carries the reason in words.
 pub fn check(
@@ -34,119 +35,244 @@ pub fn check(
     skeleton_c: u32,
     needs: &HydrogenNeeds,
 ) -> Result<(), String> {
-    let mut h_fixed = 0u64;
-    let (mut hm, mut ho, mut cm, mut co) = (0u64, 0u64, 0u64, 0u64);
-    let mut group_nodes = 0u64;
-    // Heavy atoms in all, and carbons that can take a bond from outside their group:
-    // partners are counted by atom, since two bonds may join one group to different
-    // atoms of another (a fused ring such as maleic anhydride's), never to one atom.
-    let mut heavy_atoms = u64::from(skeleton_c);
-    let mut bondable_carbons = u64::from(skeleton_c);
-    let mut multi_atom_nodes = 0u64;
-    let mut sp3_group_h = false;
-    for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
-        if n == 0 {
-            continue;
-        }
-        let n = u64::from(n);
-        let b = g.group.bonds;
-        h_fixed += n * u64::from(g.h);
-        hm += n * u64::from(b.hetero);
-        ho += n * u64::from(b.hetero_or_h);
-        cm += n * u64::from(b.carbon);
-        co += n * u64::from(b.carbon_or_h);
-        if g.has_atoms {
-            group_nodes += n;
-            let heavy = u64::from(g.group.atoms.n_atoms() - g.h);
-            heavy_atoms += n * heavy;
-            if heavy > 1 {
-                multi_atom_nodes += n;
+    let tally = Tally::of(problem, counts, present, skeleton_c);
+    check_plain_rings(problem, counts, present, skeleton_c)?;
+    let bonds = BondCount::from_hydrogens(problem, &tally)?;
+    check_end_split(problem, counts, &tally, &bonds, needs)?;
+    check_distinct_partners(problem, counts, present, &tally)
+}
+
+/// The candidate's open valences and atoms, summed over its group instances and
+/// skeleton carbons.
+struct Tally {
+    skeleton_c: u64,
+    /// Hydrogens the groups hold themselves.
+    h_fixed: u64,
+    /// Heteroatom-borne ends that must bond to another node.
+    hetero_must: u64,
+    /// Heteroatom-borne ends that may end on H.
+    hetero_or_h: u64,
+    /// Carbon-borne ends that must bond to another node.
+    carbon_must: u64,
+    /// Carbon-borne ends that may end on H.
+    carbon_or_h: u64,
+    /// Nodes that are group instances with atoms of their own.
+    group_nodes: u64,
+    /// Heavy atoms in all. Partners are counted by atom, since two bonds may join one
+    /// group to different atoms of another (a fused ring such as maleic anhydride's),
+    /// never to one atom.
+    heavy_atoms: u64,
+    /// Carbons that can take a bond from outside their group.
+    bondable_carbons: u64,
+    /// Group instances of more than one heavy atom.
+    multi_atom_nodes: u64,
+    /// Whether some group holds an sp3 C–H of its own.
+    sp3_group_h: bool,
+}
+
+impl Tally {
+    /// Sums the open valences and atoms of the present groups and the skeleton.
+    fn of(problem: &Problem<'_>, counts: &[u32], present: &[usize], skeleton_c: u32) -> Self {
+        let mut t = Self {
+            skeleton_c: u64::from(skeleton_c),
+            h_fixed: 0,
+            hetero_must: 0,
+            hetero_or_h: 0,
+            carbon_must: 0,
+            carbon_or_h: 0,
+            group_nodes: 0,
+            heavy_atoms: u64::from(skeleton_c),
+            bondable_carbons: u64::from(skeleton_c),
+            multi_atom_nodes: 0,
+            sp3_group_h: false,
+        };
+        for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
+            if n == 0 {
+                continue;
             }
-            if b.carbon + b.carbon_or_h > 0 {
-                bondable_carbons += n * u64::from(g.c);
+            let n = u64::from(n);
+            let b = g.group.bonds;
+            t.h_fixed += n * u64::from(g.h);
+            t.hetero_must += n * u64::from(b.hetero);
+            t.hetero_or_h += n * u64::from(b.hetero_or_h);
+            t.carbon_must += n * u64::from(b.carbon);
+            t.carbon_or_h += n * u64::from(b.carbon_or_h);
+            if g.has_atoms {
+                t.group_nodes += n;
+                let heavy = u64::from(g.group.atoms.n_atoms() - g.h);
+                t.heavy_atoms += n * heavy;
+                if heavy > 1 {
+                    t.multi_atom_nodes += n;
+                }
+                if b.carbon + b.carbon_or_h > 0 {
+                    t.bondable_carbons += n * u64::from(g.c);
+                }
             }
+            t.sp3_group_h |= g.sp3_ch;
         }
-        sp3_group_h |= g.sp3_ch;
+        t
     }
-    // A plain ring (a group with no atoms of its own that consumes DBE) closes through
-    // skeleton or group atoms, and a ring has at least three members that each bond twice
-    // (two atoms joined twice are a double bond, which is an alkene, not a ring).
+
+    /// Open valences of the skeleton carbons (four each).
+    fn skeleton_ends(&self) -> u64 {
+        4 * self.skeleton_c
+    }
+
+    /// Open valences that may carry an H.
+    fn h_capable_ends(&self) -> u64 {
+        self.hetero_or_h + self.carbon_or_h + self.skeleton_ends()
+    }
+
+    /// Every open valence.
+    fn open_ends(&self) -> u64 {
+        self.hetero_must + self.carbon_must + self.h_capable_ends()
+    }
+
+    /// Nodes of the molecule graph: group instances with atoms and skeleton carbons.
+    fn nodes(&self) -> u64 {
+        self.group_nodes + self.skeleton_c
+    }
+}
+
+/// A plain ring (a group with no atoms of its own that consumes DBE) closes through
+/// skeleton or group atoms, and a ring has at least three members that each bond twice
+/// (two atoms joined twice are a double bond, which is an alkene, not a ring).
+fn check_plain_rings(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    present: &[usize],
+    skeleton_c: u32,
+) -> Result<(), String> {
     let plain_rings: u32 = present
         .iter()
         .filter(|&&i| !problem.groups[i].has_atoms && problem.groups[i].group.dbe > 0)
         .map(|&i| counts[i])
         .sum();
-    if plain_rings > 0 {
-        let ring_capable: u64 = u64::from(skeleton_c)
-            + present
-                .iter()
-                .map(|&i| {
-                    let g = &problem.groups[i];
-                    let per: u64 = g
-                        .group
-                        .atoms
-                        .iter()
-                        .filter(|(sym, _)| {
-                            crate::chem::composition::standard_valence(sym).is_some_and(|v| v >= 2)
-                        })
-                        .map(|(_, n)| u64::from(n))
-                        .sum();
-                    u64::from(counts[i]) * per
-                })
-                .sum::<u64>();
-        if ring_capable < 3 {
+    if plain_rings == 0 {
+        return Ok(());
+    }
+    let ring_capable: u64 = u64::from(skeleton_c)
+        + present
+            .iter()
+            .map(|&i| u64::from(counts[i]) * atoms_bonding_twice(&problem.groups[i].group.atoms))
+            .sum::<u64>();
+    if ring_capable < 3 {
+        return Err(format!(
+            "a ring needs at least three atoms that bond twice; the candidate has {ring_capable}"
+        ));
+    }
+    Ok(())
+}
+
+/// Atoms of one group instance whose standard valence is at least two.
+fn atoms_bonding_twice(atoms: &Composition) -> u64 {
+    atoms
+        .iter()
+        .filter(|(sym, _)| standard_valence(sym).is_some_and(|v| v >= 2))
+        .map(|(_, n)| u64::from(n))
+        .sum()
+}
+
+/// What the formula's hydrogens leave for bonds between nodes (conditions 1 and 2).
+struct BondCount {
+    /// Bond ends between nodes (2E).
+    twice_e: u64,
+    /// Bonds between nodes (E).
+    e: u64,
+}
+
+impl BondCount {
+    /// Places the free hydrogens and checks that the bonds left join the nodes into one
+    /// molecule.
+    fn from_hydrogens(problem: &Problem<'_>, t: &Tally) -> Result<Self, String> {
+        let h_total = u64::from(problem.formula_h);
+        if t.h_fixed > h_total {
             return Err(format!(
-                "a ring needs at least three atoms that bond twice; the candidate has {ring_capable}"
+                "the groups hold {} H but the formula has {h_total}",
+                t.h_fixed
             ));
         }
+        let h_free = h_total - t.h_fixed;
+        if h_free > t.h_capable_ends() {
+            return Err(format!(
+                "{h_free} H must sit on open positions but only {} positions may carry H",
+                t.h_capable_ends()
+            ));
+        }
+        let twice_e = t.open_ends() - h_free;
+        if twice_e % 2 == 1 {
+            return Err("the hydrogen count leaves an odd number of bond ends".to_owned());
+        }
+        let e = twice_e / 2;
+        let nodes = t.nodes();
+        if nodes == 0 {
+            return Err("no atoms besides hydrogen".to_owned());
+        }
+        if e + 1 < nodes {
+            return Err(format!(
+                "{nodes} parts need at least {} bonds to form one molecule, the hydrogen count leaves {e}",
+                nodes - 1
+            ));
+        }
+        if t.multi_atom_nodes == 0 && e > nodes * (nodes - 1) / 2 {
+            return Err(format!(
+                "{e} bonds between {nodes} parts would need multiple bonds outside the groups"
+            ));
+        }
+        Ok(Self { twice_e, e })
     }
-    let h_total = u64::from(problem.formula_h);
-    if h_fixed > h_total {
+}
+
+/// Condition 3 (with 5): choose x heteroatom-or-H ends used; the rest of the 2E ends
+/// are carbon-borne. Skeleton carbons may each use at most min(4, other heavy atoms)
+/// ends, and an H a band needs keeps one position from bonding.
+fn check_end_split(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    t: &Tally,
+    bonds: &BondCount,
+    needs: &HydrogenNeeds,
+) -> Result<(), String> {
+    let (sk_cap, co_cap) = carbon_caps(problem, counts, t, needs)?;
+    let twice_e = bonds.twice_e;
+    let carbon_max = t.carbon_must + co_cap + sk_cap;
+    let carbon_min = t.carbon_must + if t.nodes() >= 2 { t.skeleton_c } else { 0 };
+    let split_ok = (0..=t.hetero_or_h).any(|x| {
+        let hetero_used = t.hetero_must + x;
+        if hetero_used > twice_e {
+            return false;
+        }
+        let carbon_used = twice_e - hetero_used;
+        carbon_used >= carbon_min && carbon_used <= carbon_max && hetero_used <= carbon_used
+    });
+    if !split_ok {
         return Err(format!(
-            "the groups hold {h_fixed} H but the formula has {h_total}"
+            "the open bonds cannot be paired: {} heteroatom-borne and {} carbon-borne ends for {} bonds (heteroatoms bond only to carbon between groups)",
+            t.hetero_must + t.hetero_or_h,
+            t.carbon_must + t.carbon_or_h + t.skeleton_ends(),
+            bonds.e
         ));
     }
-    let h_free = h_total - h_fixed;
-    let sk = 4 * u64::from(skeleton_c);
-    let open = hm + ho + cm + co + sk;
-    if h_free > ho + co + sk {
-        return Err(format!(
-            "{h_free} H must sit on open positions but only {} positions may carry H",
-            ho + co + sk
-        ));
-    }
-    let twice_e = open - h_free;
-    if twice_e % 2 == 1 {
-        return Err("the hydrogen count leaves an odd number of bond ends".to_owned());
-    }
-    let e = twice_e / 2;
-    let nodes = group_nodes + u64::from(skeleton_c);
-    if nodes == 0 {
-        return Err("no atoms besides hydrogen".to_owned());
-    }
-    if e + 1 < nodes {
-        return Err(format!(
-            "{nodes} parts need at least {} bonds to form one molecule, the hydrogen count leaves {e}",
-            nodes - 1
-        ));
-    }
-    if multi_atom_nodes == 0 && e > nodes * (nodes - 1) / 2 {
-        return Err(format!(
-            "{e} bonds between {nodes} parts would need multiple bonds outside the groups"
-        ));
-    }
-    // 3. Choose x heteroatom-or-H ends used; the rest of the 2E ends are carbon-borne.
-    // Skeleton carbons may each use at most min(4, other heavy atoms) ends.
-    let sk_usable = u64::from(skeleton_c) * 4u64.min(heavy_atoms.saturating_sub(1));
-    let mut sk_cap = sk_usable;
-    let mut co_cap = co;
-    if needs.sp3_h && !sp3_group_h {
-        if skeleton_c == 0 {
+    Ok(())
+}
+
+/// The most ends the skeleton carbons and the carbon-or-H positions may bond with,
+/// after keeping an H where a band only the skeleton explains needs one (condition 5).
+fn carbon_caps(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    t: &Tally,
+    needs: &HydrogenNeeds,
+) -> Result<(u64, u64), String> {
+    let mut sk_cap = t.skeleton_c * 4u64.min(t.heavy_atoms.saturating_sub(1));
+    let mut co_cap = t.carbon_or_h;
+    if needs.sp3_h && !t.sp3_group_h {
+        if t.skeleton_c == 0 {
             return Err(
                 "a band needs sp3 C–H but the candidate has no saturated carbon".to_owned(),
             );
         }
-        sk_cap = sk_cap.min(sk - 1);
+        sk_cap = sk_cap.min(t.skeleton_ends() - 1);
     }
     if let Some(carriers) = &needs.h_on_groups {
         let carrier_co: u64 = carriers
@@ -158,26 +284,18 @@ pub fn check(
                 "a band needs an sp2 C–H but no sp2 carbon of the candidate can carry H".to_owned(),
             );
         }
-        co_cap = co - 1;
+        co_cap = t.carbon_or_h - 1;
     }
-    let carbon_max = cm + co_cap + sk_cap;
-    let carbon_min = cm + if nodes >= 2 { u64::from(skeleton_c) } else { 0 };
-    let split_ok = (0..=ho).any(|x| {
-        let hetero_used = hm + x;
-        if hetero_used > twice_e {
-            return false;
-        }
-        let carbon_used = twice_e - hetero_used;
-        carbon_used >= carbon_min && carbon_used <= carbon_max && hetero_used <= carbon_used
-    });
-    if !split_ok {
-        return Err(format!(
-            "the open bonds cannot be paired: {} heteroatom-borne and {} carbon-borne ends for {e} bonds (heteroatoms bond only to carbon between groups)",
-            hm + ho,
-            cm + co + sk
-        ));
-    }
-    // 4. Distinct partners per group instance.
+    Ok((sk_cap, co_cap))
+}
+
+/// Condition 4: distinct partners per group instance.
+fn check_distinct_partners(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    present: &[usize],
+    t: &Tally,
+) -> Result<(), String> {
     for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
         if n == 0 || !g.has_atoms {
             continue;
@@ -185,7 +303,7 @@ pub fn check(
         let b = g.group.bonds;
         let must = u64::from(b.hetero + b.carbon);
         let own_heavy = u64::from(g.group.atoms.n_atoms() - g.h);
-        let outside = heavy_atoms - own_heavy;
+        let outside = t.heavy_atoms - own_heavy;
         if must > outside {
             return Err(format!(
                 "{} needs {must} bonds to distinct atoms outside it, the candidate has {outside}",
@@ -197,7 +315,7 @@ pub fn check(
         } else {
             0
         };
-        let carbon_partners = bondable_carbons - own_carbons;
+        let carbon_partners = t.bondable_carbons - own_carbons;
         if u64::from(b.hetero) > carbon_partners {
             return Err(format!(
                 "{} needs {} distinct carbons to bond its heteroatom to, the candidate offers {carbon_partners}",

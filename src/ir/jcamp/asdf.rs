@@ -99,146 +99,139 @@ pub fn tokenize(line: &str, line_idx: usize) -> Result<Vec<Located>, JcampError>
         // Every byte before `i` was ASCII (anything else stops the tokenizer), so the byte
         // index is the column in characters.
         let column = i;
-        // Whole-word not-a-number spellings, before they are taken for pseudo-digits.
-        let first_letter = match b {
-            b'+' | b'-' => bytes.get(i + 1).copied(),
-            _ => Some(b),
-        };
-        if matches!(first_letter, Some(b'n' | b'N' | b'i' | b'I'))
-            && (i == 0 || is_sep(bytes[i - 1]))
-        {
-            let end = bytes[i..]
-                .iter()
-                .position(|&c| is_sep(c))
-                .map_or(bytes.len(), |p| i + p);
-            if let Some(word) = line.get(i..end) {
-                if is_not_a_number_word(word) {
-                    return Err(JcampError::at(
-                        line_idx,
-                        column,
-                        JcampErrorKind::NotANumber {
-                            found: word.to_owned(),
-                        },
-                    ));
-                }
-            }
+        let at = |kind| JcampError::at(line_idx, column, kind);
+        if let Some(word) = not_a_number_word_at(line, i) {
+            return Err(at(JcampErrorKind::NotANumber {
+                found: word.to_owned(),
+            }));
         }
-        match b {
+        let (token, end) = match b {
             b'+' | b'-' | b'.' | b'0'..=b'9' => {
-                let start = i;
-                if b == b'+' || b == b'-' {
-                    i += 1;
-                }
-                let digits_start = i;
-                while i < bytes.len() && (bytes[i].is_ascii_digit() || bytes[i] == b'.') {
-                    i += 1;
-                }
-                let mantissa = &line[digits_start..i];
-                if mantissa.is_empty() || mantissa == "." || mantissa.matches('.').count() > 1 {
-                    let found = bytes.get(i).map_or(b as char, |&c| c as char);
-                    return Err(JcampError::at(
-                        line_idx,
-                        column,
-                        if found == '?' {
-                            JcampErrorKind::NotANumber {
-                                found: "?".to_owned(),
-                            }
-                        } else {
-                            JcampErrorKind::UnexpectedCharacter { found }
-                        },
-                    ));
-                }
-                // Exponent: E followed by a sign and a digit.
-                if bytes.get(i) == Some(&b'E')
-                    && matches!(bytes.get(i + 1), Some(b'+') | Some(b'-'))
-                    && bytes.get(i + 2).is_some_and(u8::is_ascii_digit)
-                {
-                    i += 2;
-                    while i < bytes.len() && bytes[i].is_ascii_digit() {
-                        i += 1;
-                    }
-                }
-                let value = line[start..i].parse::<f64>().unwrap_or(f64::NAN);
-                if !value.is_finite() {
-                    return Err(JcampError::at(
-                        line_idx,
-                        column,
-                        JcampErrorKind::NotANumber {
-                            found: line[start..i].to_owned(),
-                        },
-                    ));
-                }
-                tokens.push(Located {
-                    token: Token::Actual(value),
-                    column,
-                });
+                let (value, end) = affn(line, i).map_err(at)?;
+                (Token::Actual(value), end)
             }
             b'@' | b'A'..=b'I' | b'a'..=b'i' => {
-                let (lead, negative) = match b {
-                    b'@' => (0, false),
-                    b'A'..=b'I' => (u32::from(b - b'A') + 1, false),
-                    _ => (u32::from(b - b'a') + 1, true),
-                };
+                let (lead, negative) = pseudo_digit(b, b'@', b'A', b'a');
                 let (value, end) = pseudo_number(bytes, i + 1, lead, negative);
-                i = end;
-                tokens.push(Located {
-                    token: Token::Actual(value),
-                    column,
-                });
+                (Token::Actual(value), end)
             }
             b'%' | b'J'..=b'R' | b'j'..=b'r' => {
-                let (lead, negative) = match b {
-                    b'%' => (0, false),
-                    b'J'..=b'R' => (u32::from(b - b'J') + 1, false),
-                    _ => (u32::from(b - b'j') + 1, true),
-                };
+                let (lead, negative) = pseudo_digit(b, b'%', b'J', b'j');
                 let (value, end) = pseudo_number(bytes, i + 1, lead, negative);
-                i = end;
-                tokens.push(Located {
-                    token: Token::Dif(value),
-                    column,
-                });
+                (Token::Dif(value), end)
             }
             b'S'..=b'Z' | b's' => {
-                let lead = if b == b's' {
-                    9
-                } else {
-                    u32::from(b - b'S') + 1
-                };
-                let mut end = i + 1;
-                let mut count: u64 = u64::from(lead);
-                while end < bytes.len() && bytes[end].is_ascii_digit() {
-                    count = count
-                        .saturating_mul(10)
-                        .saturating_add(u64::from(bytes[end] - b'0'));
-                    end += 1;
-                }
-                i = end;
-                tokens.push(Located {
-                    token: Token::Dup(u32::try_from(count).unwrap_or(u32::MAX)),
-                    column,
-                });
+                let (count, end) = dup_count(bytes, i);
+                (Token::Dup(count), end)
             }
             b'?' => {
-                return Err(JcampError::at(
-                    line_idx,
-                    column,
-                    JcampErrorKind::NotANumber {
-                        found: "?".to_owned(),
-                    },
-                ))
+                return Err(at(JcampErrorKind::NotANumber {
+                    found: "?".to_owned(),
+                }))
             }
             _ => {
                 let found = line[i..].chars().next().unwrap_or('?');
-                return Err(JcampError::at(
-                    line_idx,
-                    column,
-                    JcampErrorKind::UnexpectedCharacter { found },
-                ));
+                return Err(at(JcampErrorKind::UnexpectedCharacter { found }));
             }
-        }
+        };
+        tokens.push(Located { token, column });
+        i = end;
     }
     Ok(tokens)
+}
+
+/// A whole-word not-a-number spelling (`NaN`, `-inf`) starting at byte `i`, caught
+/// before its letters are taken for pseudo-digits.
+fn not_a_number_word_at(line: &str, i: usize) -> Option<&str> {
+    let bytes = line.as_bytes();
+    let first_letter = match bytes[i] {
+        b'+' | b'-' => bytes.get(i + 1).copied(),
+        b => Some(b),
+    };
+    let starts_word = i == 0 || is_sep(bytes[i - 1]);
+    if !matches!(first_letter, Some(b'n' | b'N' | b'i' | b'I')) || !starts_word {
+        return None;
+    }
+    let end = bytes[i..]
+        .iter()
+        .position(|&c| is_sep(c))
+        .map_or(bytes.len(), |p| i + p);
+    line.get(i..end).filter(|word| is_not_a_number_word(word))
+}
+
+/// An AFFN value starting at byte `start`: its value and the byte after it.
+///
+/// Grammar: `affn = [ "+" | "-" ] ( digits [ "." *digit ] | "." digits ) [ "E" ( "+" | "-" ) digits ]`
+fn affn(line: &str, start: usize) -> Result<(f64, usize), JcampErrorKind> {
+    let bytes = line.as_bytes();
+    let mut i = start;
+    if bytes[i] == b'+' || bytes[i] == b'-' {
+        i += 1;
+    }
+    let digits_start = i;
+    while i < bytes.len() && (bytes[i].is_ascii_digit() || bytes[i] == b'.') {
+        i += 1;
+    }
+    let mantissa = &line[digits_start..i];
+    if mantissa.is_empty() || mantissa == "." || mantissa.matches('.').count() > 1 {
+        let found = bytes.get(i).map_or(bytes[start] as char, |&c| c as char);
+        return Err(if found == '?' {
+            JcampErrorKind::NotANumber {
+                found: "?".to_owned(),
+            }
+        } else {
+            JcampErrorKind::UnexpectedCharacter { found }
+        });
+    }
+    // Exponent: E followed by a sign and a digit.
+    if bytes.get(i) == Some(&b'E')
+        && matches!(bytes.get(i + 1), Some(b'+') | Some(b'-'))
+        && bytes.get(i + 2).is_some_and(u8::is_ascii_digit)
+    {
+        i += 2;
+        while i < bytes.len() && bytes[i].is_ascii_digit() {
+            i += 1;
+        }
+    }
+    let value = line[start..i].parse::<f64>().unwrap_or(f64::NAN);
+    if !value.is_finite() {
+        return Err(JcampErrorKind::NotANumber {
+            found: line[start..i].to_owned(),
+        });
+    }
+    Ok((value, i))
+}
+
+/// The leading digit and sign of a SQZ or DIF pseudo-digit `b`: `zero` is 0, `plus_one`
+/// onwards +1..+9, `minus_one` onwards −1..−9.
+fn pseudo_digit(b: u8, zero: u8, plus_one: u8, minus_one: u8) -> (u32, bool) {
+    if b == zero {
+        (0, false)
+    } else if (plus_one..plus_one + 9).contains(&b) {
+        (u32::from(b - plus_one) + 1, false)
+    } else {
+        (u32::from(b - minus_one) + 1, true)
+    }
+}
+
+/// A DUP count starting at byte `i` (`S`..`Z` are 1..8, `s` is 9, digits follow): the
+/// count and the byte after it.
+fn dup_count(bytes: &[u8], i: usize) -> (u32, usize) {
+    let b = bytes[i];
+    let lead = if b == b's' {
+        9
+    } else {
+        u32::from(b - b'S') + 1
+    };
+    let mut end = i + 1;
+    let mut count: u64 = u64::from(lead);
+    while end < bytes.len() && bytes[end].is_ascii_digit() {
+        count = count
+            .saturating_mul(10)
+            .saturating_add(u64::from(bytes[end] - b'0'));
+        end += 1;
+    }
+    (u32::try_from(count).unwrap_or(u32::MAX), end)
 }
 
 /// Largest number of ordinates one DUP count may add; a guard against a corrupt count

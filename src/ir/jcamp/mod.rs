@@ -76,8 +76,9 @@ pub use ldr::{Block, Ldr};
 pub use write::{write_jcamp, JcampForm, WriteSpectrum};
 
 use super::spectrum::{
-    guess_ordinate, normalise_transmittance, HeaderField, HeaderSummary, Ordinate, ReadOptions,
-    ReadSpectrum, SpectrumData, Trace, XUnits,
+    extent, guess_ordinate, micrometres_to_wavenumbers, normalise_transmittance, HeaderField,
+    HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, Trace, XUnits,
+    MICROMETRE_NOTE,
 };
 use asdf::{expand_ordinates, tokenize, Token};
 
@@ -387,83 +388,138 @@ fn decode_xyy(
     yfactor: f64,
     notes: &mut Vec<String>,
 ) -> Result<(Vec<f64>, Vec<f64>), JcampError> {
-    let firstx = header_number(block, "FIRSTX")?.ok_or(JcampError::on_line(
+    let firstx = xyy_header_number(block, record, "FIRSTX", "##FIRSTX=")?;
+    let lastx = xyy_header_number(block, record, "LASTX", "##LASTX=")?;
+    let lines = XyyLines::read(record, xfactor)?;
+    let n = lines.ys.len();
+    let npoints_declared = check_point_count(block, record, n)?;
+    let dx = point_spacing(block, record, (firstx, lastx), n, notes)?;
+    let grid = Grid {
+        firstx,
+        dx,
+        xfactor,
+        count_confirmed: npoints_declared.is_some(),
+    };
+    grid.check_line_abscissae(&lines.abscissae, notes)?;
+    let x: Vec<f64> = (0..n)
+        .map(|i| {
+            if i + 1 == n {
+                lastx
+            } else {
+                firstx + i as f64 * dx
+            }
+        })
+        .collect();
+    let y: Vec<f64> = lines.ys.into_iter().map(|v| v * yfactor).collect();
+    Ok((x, y))
+}
+
+/// A header number that `(X++(Y..Y))` data cannot do without.
+fn xyy_header_number(
+    block: &Block,
+    record: &Ldr,
+    name: &str,
+    label: &'static str,
+) -> Result<f64, JcampError> {
+    header_number(block, name)?.ok_or(JcampError::on_line(
         record.line,
         JcampErrorKind::MissingLabel {
-            label: "##FIRSTX=",
+            label,
             needed_by: "##XYDATA=(X++(Y..Y))",
         },
-    ))?;
-    let lastx = header_number(block, "LASTX")?.ok_or(JcampError::on_line(
-        record.line,
-        JcampErrorKind::MissingLabel {
-            label: "##LASTX=",
-            needed_by: "##XYDATA=(X++(Y..Y))",
-        },
-    ))?;
-    let mut ys: Vec<f64> = Vec::with_capacity(record.continuation.len() * 16);
-    let mut line_buf: Vec<f64> = Vec::with_capacity(32);
-    let mut pending_check: Option<f64> = None;
-    // (line, x as written times XFACTOR, index of the line's first ordinate, decimals)
-    let mut line_abscissae: Vec<(usize, f64, usize, i32)> = Vec::new();
-    for (line_idx, text) in &record.continuation {
-        let line_idx = *line_idx;
-        let tokens = tokenize(text, line_idx)?;
-        let Some(first) = tokens.first() else {
-            continue;
-        };
-        let Token::Actual(x_raw) = first.token else {
-            return Err(JcampError::at(
-                line_idx,
-                first.column,
-                JcampErrorKind::MissingAbscissa,
-            ));
-        };
-        let ordinates = &tokens[1..];
-        let Some(first_ordinate) = ordinates.first() else {
-            return Err(JcampError::on_line(line_idx, JcampErrorKind::NoOrdinates));
-        };
-        line_buf.clear();
-        let ends_in_dif = expand_ordinates(ordinates, line_idx, &mut line_buf)?;
-        let mut first_index = ys.len();
-        let mut new_values = &line_buf[..];
-        if let Some(expected) = pending_check {
-            let found = line_buf[0];
-            if (found - expected).abs() > 1e-9 * expected.abs().max(1.0) {
+    ))
+}
+
+/// The abscissa written at the start of one data line.
+struct LineAbscissa {
+    /// 0-based line.
+    line: usize,
+    /// X as written times XFACTOR.
+    x: f64,
+    /// Index of the line's first ordinate.
+    first_index: usize,
+    /// Decimals written in the X value.
+    decimals: i32,
+}
+
+/// The ordinates of an `(X++(Y..Y))` record and each line's abscissa, as written.
+struct XyyLines {
+    /// The ordinates (before YFACTOR), Y-check values counted once.
+    ys: Vec<f64>,
+    /// Each data line's abscissa.
+    abscissae: Vec<LineAbscissa>,
+}
+
+impl XyyLines {
+    /// Reads every data line: X, then ordinates, checking each Y-check value.
+    fn read(record: &Ldr, xfactor: f64) -> Result<Self, JcampError> {
+        let mut ys: Vec<f64> = Vec::with_capacity(record.continuation.len() * 16);
+        let mut line_buf: Vec<f64> = Vec::with_capacity(32);
+        let mut pending_check: Option<f64> = None;
+        let mut abscissae = Vec::new();
+        for (line_idx, text) in &record.continuation {
+            let line_idx = *line_idx;
+            let tokens = tokenize(text, line_idx)?;
+            let Some(first) = tokens.first() else {
+                continue;
+            };
+            let Token::Actual(x_raw) = first.token else {
                 return Err(JcampError::at(
                     line_idx,
-                    first_ordinate.column,
-                    JcampErrorKind::DifCheck { expected, found },
+                    first.column,
+                    JcampErrorKind::MissingAbscissa,
+                ));
+            };
+            let ordinates = &tokens[1..];
+            let Some(first_ordinate) = ordinates.first() else {
+                return Err(JcampError::on_line(line_idx, JcampErrorKind::NoOrdinates));
+            };
+            line_buf.clear();
+            let ends_in_dif = expand_ordinates(ordinates, line_idx, &mut line_buf)?;
+            let mut first_index = ys.len();
+            let mut new_values = &line_buf[..];
+            if let Some(expected) = pending_check {
+                let found = line_buf[0];
+                if (found - expected).abs() > 1e-9 * expected.abs().max(1.0) {
+                    return Err(JcampError::at(
+                        line_idx,
+                        first_ordinate.column,
+                        JcampErrorKind::DifCheck { expected, found },
+                    ));
+                }
+                new_values = &line_buf[1..];
+                first_index -= 1;
+            }
+            ys.extend_from_slice(new_values);
+            pending_check = if ends_in_dif {
+                line_buf.last().copied()
+            } else {
+                None
+            };
+            abscissae.push(LineAbscissa {
+                line: line_idx,
+                x: x_raw * xfactor,
+                first_index,
+                decimals: decimals_of_first_value(text),
+            });
+            if ys.len() > asdf::MAX_ORDINATES {
+                return Err(JcampError::on_line(
+                    line_idx,
+                    JcampErrorKind::OutOfRange {
+                        what: format!(
+                            "more than {} ordinates; expected a spectrum",
+                            asdf::MAX_ORDINATES
+                        ),
+                    },
                 ));
             }
-            new_values = &line_buf[1..];
-            first_index -= 1;
         }
-        ys.extend_from_slice(new_values);
-        pending_check = if ends_in_dif {
-            line_buf.last().copied()
-        } else {
-            None
-        };
-        line_abscissae.push((
-            line_idx,
-            x_raw * xfactor,
-            first_index,
-            decimals_of_first_value(text),
-        ));
-        if ys.len() > asdf::MAX_ORDINATES {
-            return Err(JcampError::on_line(
-                line_idx,
-                JcampErrorKind::OutOfRange {
-                    what: format!(
-                        "more than {} ordinates; expected a spectrum",
-                        asdf::MAX_ORDINATES
-                    ),
-                },
-            ));
-        }
+        Ok(Self { ys, abscissae })
     }
-    let n = ys.len();
+}
+
+/// At least two points, and as many as NPOINTS declares; returns the declared count.
+fn check_point_count(block: &Block, record: &Ldr, n: usize) -> Result<Option<f64>, JcampError> {
     let last_line = record.continuation.last().map_or(record.line, |(l, _)| *l);
     if n < 2 {
         return Err(JcampError::on_line(
@@ -486,6 +542,17 @@ fn decode_xyy(
             ));
         }
     }
+    Ok(npoints_declared)
+}
+
+/// The spacing of `n` points from FIRSTX to LASTX, checked against DELTAX when given.
+fn point_spacing(
+    block: &Block,
+    record: &Ldr,
+    (firstx, lastx): (f64, f64),
+    n: usize,
+    notes: &mut Vec<String>,
+) -> Result<f64, JcampError> {
     let dx = (lastx - firstx) / (n - 1) as f64;
     if dx == 0.0 || !dx.is_finite() {
         return Err(JcampError::on_line(
@@ -495,89 +562,103 @@ fn decode_xyy(
             },
         ));
     }
-    if let Some(declared) = header_number(block, "DELTAX")? {
-        // FIRSTX and LASTX fix the direction; DELTAX only checks the spacing. A DELTAX of
-        // the right size but the wrong sign is noted, not refused.
-        if declared.signum() != dx.signum() && (declared.abs() - dx.abs()).abs() <= 0.01 * dx.abs()
-        {
-            let line = block.get("DELTAX").map_or(record.line, |r| r.line);
-            notes.push(format!(
-                "DELTAX={declared} on line {} runs opposite to FIRSTX={firstx} -> LASTX={lastx}; the direction is taken from FIRSTX and LASTX",
-                line + 1
-            ));
-        } else if (declared - dx).abs() > 0.01 * dx.abs() {
-            let line = block.get("DELTAX").map_or(record.line, |r| r.line);
-            return Err(JcampError::on_line(
-                line,
-                JcampErrorKind::DeltaX {
-                    declared,
-                    computed: dx,
-                },
-            ));
-        }
+    let Some(declared) = header_number(block, "DELTAX")? else {
+        return Ok(dx);
+    };
+    let line = block.get("DELTAX").map_or(record.line, |r| r.line);
+    // FIRSTX and LASTX fix the direction; DELTAX only checks the spacing. A DELTAX of
+    // the right size but the wrong sign is noted, not refused.
+    if declared.signum() != dx.signum() && (declared.abs() - dx.abs()).abs() <= 0.01 * dx.abs() {
+        notes.push(format!(
+            "DELTAX={declared} on line {} runs opposite to FIRSTX={firstx} -> LASTX={lastx}; the direction is taken from FIRSTX and LASTX",
+            line + 1
+        ));
+    } else if (declared - dx).abs() > 0.01 * dx.abs() {
+        return Err(JcampError::on_line(
+            line,
+            JcampErrorKind::DeltaX {
+                declared,
+                computed: dx,
+            },
+        ));
     }
-    let direction = if dx > 0.0 { "up" } else { "down" };
-    let mut previous: Option<f64> = None;
-    let mut lagging_noted = false;
-    for &(line_idx, x_line, index, decimals) in &line_abscissae {
-        if let Some(p) = previous {
-            if (x_line - p) * dx.signum() <= 0.0 && index > 0 {
+    Ok(dx)
+}
+
+/// The abscissa grid of an `(X++(Y..Y))` record.
+struct Grid {
+    /// FIRSTX.
+    firstx: f64,
+    /// The point spacing (signed).
+    dx: f64,
+    /// XFACTOR.
+    xfactor: f64,
+    /// True when NPOINTS confirms the point count.
+    count_confirmed: bool,
+}
+
+impl Grid {
+    /// Each line's abscissa runs the grid's way and lies on the grid at its first
+    /// ordinate, within half a spacing and half the written precision.
+    fn check_line_abscissae(
+        &self,
+        abscissae: &[LineAbscissa],
+        notes: &mut Vec<String>,
+    ) -> Result<(), JcampError> {
+        let dx = self.dx;
+        let direction = if dx > 0.0 { "up" } else { "down" };
+        let mut previous: Option<f64> = None;
+        let mut lagging_noted = false;
+        for a in abscissae {
+            if let Some(p) = previous {
+                if (a.x - p) * dx.signum() <= 0.0 && a.first_index > 0 {
+                    return Err(JcampError::at(
+                        a.line,
+                        0,
+                        JcampErrorKind::NonMonotonicX {
+                            previous: p,
+                            found: a.x,
+                            direction,
+                        },
+                    ));
+                }
+            }
+            previous = Some(a.x);
+            let expected = self.firstx + a.first_index as f64 * dx;
+            let granularity = 10f64.powi(-a.decimals) * self.xfactor.abs();
+            let tolerance = 0.5 * dx.abs() + 0.5 * granularity;
+            let off_by = (a.x - expected).abs();
+            // Some writers label each line with the abscissa of the point before its first
+            // ordinate. When NPOINTS confirms the count, an offset of up to one and a half
+            // point spacings is that labelling habit, not a lost ordinate: note it once.
+            if off_by > tolerance
+                && self.count_confirmed
+                && off_by <= 1.5 * dx.abs() + 0.5 * granularity
+            {
+                if !lagging_noted {
+                    notes.push(format!(
+                        "line abscissae are up to one point off their first ordinate (first on line {}); NPOINTS confirms the count, so X is taken from FIRSTX, LASTX and NPOINTS",
+                        a.line + 1
+                    ));
+                    lagging_noted = true;
+                }
+                continue;
+            }
+            if off_by > tolerance {
                 return Err(JcampError::at(
-                    line_idx,
+                    a.line,
                     0,
-                    JcampErrorKind::NonMonotonicX {
-                        previous: p,
-                        found: x_line,
-                        direction,
+                    JcampErrorKind::AbscissaMismatch {
+                        index: a.first_index,
+                        expected,
+                        found: a.x,
+                        tolerance,
                     },
                 ));
             }
         }
-        previous = Some(x_line);
-        let expected = firstx + index as f64 * dx;
-        let granularity = 10f64.powi(-decimals) * xfactor.abs();
-        let tolerance = 0.5 * dx.abs() + 0.5 * granularity;
-        let off_by = (x_line - expected).abs();
-        // Some writers label each line with the abscissa of the point before its first
-        // ordinate. When NPOINTS confirms the count, an offset of up to one and a half
-        // point spacings is that labelling habit, not a lost ordinate: note it once.
-        if off_by > tolerance
-            && npoints_declared.is_some()
-            && off_by <= 1.5 * dx.abs() + 0.5 * granularity
-        {
-            if !lagging_noted {
-                notes.push(format!(
-                    "line abscissae are up to one point off their first ordinate (first on line {}); NPOINTS confirms the count, so X is taken from FIRSTX, LASTX and NPOINTS",
-                    line_idx + 1
-                ));
-                lagging_noted = true;
-            }
-            continue;
-        }
-        if off_by > tolerance {
-            return Err(JcampError::at(
-                line_idx,
-                0,
-                JcampErrorKind::AbscissaMismatch {
-                    index,
-                    expected,
-                    found: x_line,
-                    tolerance,
-                },
-            ));
-        }
+        Ok(())
     }
-    let x: Vec<f64> = (0..n)
-        .map(|i| {
-            if i + 1 == n {
-                lastx
-            } else {
-                firstx + i as f64 * dx
-            }
-        })
-        .collect();
-    let y: Vec<f64> = ys.into_iter().map(|v| v * yfactor).collect();
-    Ok((x, y))
 }
 
 /// Decodes `(XY..XY)` (or `(XYW..XYW)` with `width` 3) lines.
@@ -781,114 +862,141 @@ fn read_block(
     }
     let data = decode_block(block)?;
     notes.extend(data.notes.iter().cloned());
-
-    // X units.
-    let x_units_raw = block.value("XUNITS").map(str::to_owned);
-    let x_units = match &x_units_raw {
-        Some(raw) => {
-            let w: String = raw
-                .chars()
-                .filter(|c| !c.is_whitespace())
-                .flat_map(char::to_uppercase)
-                .collect();
-            match w.as_str() {
-                "1/CM" | "CM-1" | "CM^-1" | "CM**-1" | "WAVENUMBERS" | "WAVENUMBER" => {
-                    XUnits::Wavenumber
-                }
-                "MICROMETERS" | "MICROMETER" | "MICROMETRES" | "MICRONS" | "MICRON" | "UM" => {
-                    XUnits::Micrometre
-                }
-                _ => {
-                    let line = block.get("XUNITS").map_or(block.title_line, |r| r.line);
-                    return Err(JcampError::on_line(
-                        line,
-                        JcampErrorKind::UnsupportedXUnits { found: raw.clone() },
-                    ));
-                }
-            }
-        }
-        None => match options.x_units {
-            Some(u) => {
-                notes.push("the file gives no XUNITS; used the units given as an option".into());
-                u
-            }
-            None => {
-                return Err(JcampError::on_line(
-                    block.title_line,
-                    JcampErrorKind::MissingXUnits,
-                ))
-            }
-        },
-    };
+    let x_units = block_x_units(block, options, &mut notes)?;
     let mut wavenumber = data.x;
     if x_units == XUnits::Micrometre {
-        if let Some(bad) = wavenumber.iter().find(|v| **v <= 0.0) {
-            return Err(JcampError::on_line(
+        micrometres_to_wavenumbers(&mut wavenumber).map_err(|i| {
+            JcampError::on_line(
                 data.line,
                 JcampErrorKind::OutOfRange {
-                    what: format!("wavelength {bad} µm; expected positive wavelengths to convert"),
+                    what: format!(
+                        "wavelength {} µm; expected positive wavelengths to convert",
+                        wavenumber[i]
+                    ),
                 },
-            ));
-        }
-        for v in &mut wavenumber {
-            *v = 1.0e4 / *v;
-        }
-        notes.push("X converted from micrometres to wavenumbers (10^4 / µm)".to_owned());
+            )
+        })?;
+        notes.push(MICROMETRE_NOTE.to_owned());
     }
-
-    // Y units.
-    let y_units_raw = block.value("YUNITS").map(str::to_owned);
     let mut y = data.y;
-    let ordinate = match &y_units_raw {
-        Some(raw) => {
-            let u = raw.to_uppercase();
-            if u.contains("TRANSMITTANCE") || u.trim() == "%T" || u.contains("REFLECTANCE") {
-                if u.contains("REFLECTANCE") {
-                    notes.push(format!(
-                        "YUNITS={raw}: read like transmittance (bands as minima)"
-                    ));
-                }
-                Ordinate::Transmittance
-            } else if u.contains("ABSORBANCE") {
-                Ordinate::Absorbance
-            } else {
-                let ordinate = options.ordinate.unwrap_or(Ordinate::Absorbance);
-                notes.push(format!(
-                    "YUNITS={raw} is neither TRANSMITTANCE nor ABSORBANCE; read as {}",
-                    ordinate.word()
-                ));
-                ordinate
-            }
-        }
-        None => {
-            let ordinate = match options.ordinate {
-                Some(o) => o,
-                None => guess_ordinate(&y),
-            };
-            notes.push(format!(
-                "the file gives no YUNITS; read as {} ({})",
-                ordinate.word(),
-                if options.ordinate.is_some() {
-                    "given as an option"
-                } else {
-                    "guessed from where most points lie"
-                }
-            ));
-            ordinate
-        }
-    };
+    let ordinate = block_ordinate(block, &y, options, &mut notes);
     if ordinate == Ordinate::Transmittance {
         if let Some(note) = normalise_transmittance(&mut y) {
             notes.push(note);
         }
     }
+    let header = block_summary(block, version, &wavenumber, x_units, ordinate);
+    let trace = Trace {
+        wavenumber,
+        y,
+        ordinate,
+    };
+    let data = match data.kind {
+        DataKind::PeakTable => SpectrumData::PeakTable(trace),
+        DataKind::XyData | DataKind::XyPoints => SpectrumData::Trace(trace),
+    };
+    Ok(ReadSpectrum {
+        header,
+        data,
+        notes,
+    })
+}
 
-    let n_points = y.len();
-    let (lo, hi) = wavenumber
-        .iter()
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
-            (lo.min(v), hi.max(v))
-        });
+/// The block's X units: from XUNITS, else the option (noted); an unknown XUNITS, or none
+/// and no option, is an error.
+fn block_x_units(
+    block: &Block,
+    options: &ReadOptions,
+    notes: &mut Vec<String>,
+) -> Result<XUnits, JcampError> {
+    let Some(raw) = block.value("XUNITS") else {
+        let Some(u) = options.x_units else {
+            return Err(JcampError::on_line(
+                block.title_line,
+                JcampErrorKind::MissingXUnits,
+            ));
+        };
+        notes.push("the file gives no XUNITS; used the units given as an option".into());
+        return Ok(u);
+    };
+    let w: String = raw
+        .chars()
+        .filter(|c| !c.is_whitespace())
+        .flat_map(char::to_uppercase)
+        .collect();
+    match w.as_str() {
+        "1/CM" | "CM-1" | "CM^-1" | "CM**-1" | "WAVENUMBERS" | "WAVENUMBER" => {
+            Ok(XUnits::Wavenumber)
+        }
+        "MICROMETERS" | "MICROMETER" | "MICROMETRES" | "MICRONS" | "MICRON" | "UM" => {
+            Ok(XUnits::Micrometre)
+        }
+        _ => {
+            let line = block.get("XUNITS").map_or(block.title_line, |r| r.line);
+            Err(JcampError::on_line(
+                line,
+                JcampErrorKind::UnsupportedXUnits {
+                    found: raw.to_owned(),
+                },
+            ))
+        }
+    }
+}
+
+/// What the block's ordinates are: from YUNITS (reflectance read like transmittance), else
+/// the option, else a guess; every assumption noted.
+fn block_ordinate(
+    block: &Block,
+    y: &[f64],
+    options: &ReadOptions,
+    notes: &mut Vec<String>,
+) -> Ordinate {
+    let Some(raw) = block.value("YUNITS") else {
+        let ordinate = match options.ordinate {
+            Some(o) => o,
+            None => guess_ordinate(y),
+        };
+        notes.push(format!(
+            "the file gives no YUNITS; read as {} ({})",
+            ordinate.word(),
+            if options.ordinate.is_some() {
+                "given as an option"
+            } else {
+                "guessed from where most points lie"
+            }
+        ));
+        return ordinate;
+    };
+    let u = raw.to_uppercase();
+    if u.contains("TRANSMITTANCE") || u.trim() == "%T" || u.contains("REFLECTANCE") {
+        if u.contains("REFLECTANCE") {
+            notes.push(format!(
+                "YUNITS={raw}: read like transmittance (bands as minima)"
+            ));
+        }
+        Ordinate::Transmittance
+    } else if u.contains("ABSORBANCE") {
+        Ordinate::Absorbance
+    } else {
+        let ordinate = options.ordinate.unwrap_or(Ordinate::Absorbance);
+        notes.push(format!(
+            "YUNITS={raw} is neither TRANSMITTANCE nor ABSORBANCE; read as {}",
+            ordinate.word()
+        ));
+        ordinate
+    }
+}
+
+/// The header summary of a block as read.
+fn block_summary(
+    block: &Block,
+    version: Option<&str>,
+    wavenumber: &[f64],
+    x_units: XUnits,
+    ordinate: Ordinate,
+) -> HeaderSummary {
+    let n_points = wavenumber.len();
+    let (lo, hi) = extent(wavenumber);
     let version = version.map(str::to_owned).or_else(|| {
         block
             .value("JCAMPDX")
@@ -904,7 +1012,7 @@ fn read_block(
             value: r.full_value(),
         })
         .collect();
-    let header = HeaderSummary {
+    HeaderSummary {
         format: match version {
             Some(v) => format!("JCAMP-DX {v}"),
             None => "JCAMP-DX".to_owned(),
@@ -915,24 +1023,15 @@ fn read_block(
         resolution: block.value("RESOLUTION").map(str::to_owned),
         n_points,
         range_cm1: (n_points > 0).then_some((lo, hi)),
-        x_units: x_units_raw.unwrap_or_else(|| match x_units {
-            XUnits::Wavenumber => "1/CM (option)".to_owned(),
-            XUnits::Micrometre => "MICROMETERS (option)".to_owned(),
-        }),
-        y_units: y_units_raw.unwrap_or_else(|| format!("{} (assumed)", ordinate.word())),
-    };
-    let trace = Trace {
-        wavenumber,
-        y,
-        ordinate,
-    };
-    let data = match data.kind {
-        DataKind::PeakTable => SpectrumData::PeakTable(trace),
-        DataKind::XyData | DataKind::XyPoints => SpectrumData::Trace(trace),
-    };
-    Ok(ReadSpectrum {
-        header,
-        data,
-        notes,
-    })
+        x_units: block.value("XUNITS").map_or_else(
+            || match x_units {
+                XUnits::Wavenumber => "1/CM (option)".to_owned(),
+                XUnits::Micrometre => "MICROMETERS (option)".to_owned(),
+            },
+            str::to_owned,
+        ),
+        y_units: block
+            .value("YUNITS")
+            .map_or_else(|| format!("{} (assumed)", ordinate.word()), str::to_owned),
+    }
 }

@@ -86,6 +86,15 @@ pub fn dup(count: u64) -> String {
     out
 }
 
+/// Appends one labelled-data record `##LABEL=value` and its line break.
+fn push_ldr(out: &mut String, label: &str, value: &str) {
+    out.push_str("##");
+    out.push_str(label);
+    out.push('=');
+    out.push_str(value);
+    out.push('\n');
+}
+
 /// Writes `spectrum` as a JCAMP-DX 4.24 infrared file in `form`.
 pub fn write_jcamp(spectrum: &WriteSpectrum, form: JcampForm) -> String {
     let n = spectrum.y.len();
@@ -101,49 +110,33 @@ pub fn write_jcamp(spectrum: &WriteSpectrum, form: JcampForm) -> String {
         .collect();
     let x_at = |i: usize| spectrum.first_x + i as f64 * spectrum.delta_x;
     let mut out = String::new();
-    let mut ldr = |label: &str, value: &str| {
-        out.push_str("##");
-        out.push_str(label);
-        out.push('=');
-        out.push_str(value);
-        out.push('\n');
-    };
-    ldr("TITLE", &spectrum.title);
-    ldr("JCAMP-DX", "4.24");
-    ldr("DATA TYPE", "INFRARED SPECTRUM");
-    let mut out_comments = String::new();
+    push_ldr(&mut out, "TITLE", &spectrum.title);
+    push_ldr(&mut out, "JCAMP-DX", "4.24");
+    push_ldr(&mut out, "DATA TYPE", "INFRARED SPECTRUM");
     for c in &spectrum.comments {
-        out_comments.push_str("$$ ");
-        out_comments.push_str(c);
-        out_comments.push('\n');
-    }
-    out.push_str(&out_comments);
-    let mut ldr = |label: &str, value: &str| {
-        out.push_str("##");
-        out.push_str(label);
-        out.push('=');
-        out.push_str(value);
+        out.push_str("$$ ");
+        out.push_str(c);
         out.push('\n');
-    };
-    for (label, value) in &spectrum.fields {
-        ldr(label, value);
     }
-    ldr("XUNITS", "1/CM");
-    ldr("YUNITS", &spectrum.y_units);
-    ldr("XFACTOR", "1");
-    ldr("YFACTOR", &format!("{factor:E}"));
-    ldr("FIRSTX", &affn(spectrum.first_x));
-    ldr("LASTX", &affn(x_at(n.saturating_sub(1))));
-    ldr("DELTAX", &affn(spectrum.delta_x));
-    ldr("NPOINTS", &n.to_string());
+    for (label, value) in &spectrum.fields {
+        push_ldr(&mut out, label, value);
+    }
+    push_ldr(&mut out, "XUNITS", "1/CM");
+    push_ldr(&mut out, "YUNITS", &spectrum.y_units);
+    push_ldr(&mut out, "XFACTOR", "1");
+    push_ldr(&mut out, "YFACTOR", &format!("{factor:E}"));
+    push_ldr(&mut out, "FIRSTX", &affn(spectrum.first_x));
+    push_ldr(&mut out, "LASTX", &affn(x_at(n.saturating_sub(1))));
+    push_ldr(&mut out, "DELTAX", &affn(spectrum.delta_x));
+    push_ldr(&mut out, "NPOINTS", &n.to_string());
     if let Some(&first) = ints.first() {
-        ldr("FIRSTY", &format!("{:E}", first as f64 * factor));
+        push_ldr(&mut out, "FIRSTY", &format!("{:E}", first as f64 * factor));
         let max = ints.iter().copied().max().unwrap_or(0);
         let min = ints.iter().copied().min().unwrap_or(0);
-        ldr("MAXY", &format!("{:E}", max as f64 * factor));
-        ldr("MINY", &format!("{:E}", min as f64 * factor));
+        push_ldr(&mut out, "MAXY", &format!("{:E}", max as f64 * factor));
+        push_ldr(&mut out, "MINY", &format!("{:E}", min as f64 * factor));
     }
-    ldr("XYDATA", "(X++(Y..Y))");
+    push_ldr(&mut out, "XYDATA", "(X++(Y..Y))");
     match form {
         JcampForm::Affn => write_affn(&mut out, &ints, &x_at),
         JcampForm::DifDup => write_difdup(&mut out, &ints, &x_at),
