@@ -183,3 +183,21 @@ fn a_report_into_a_folder_that_does_not_exist_yet_is_written() {
     let page = std::fs::read_to_string(dir.path().join("out/r.html")).unwrap();
     assert!(page.contains("<svg"), "the page holds its plot");
 }
+
+#[test]
+fn a_case_file_with_several_schema_errors_reports_them_all_at_once() {
+    // Three mistakes in one invented case: a misspelt key, a word where the molecular-ion
+    // m/z should be, and a misspelt band field. Each is named with its line, column and key
+    // path, in file order, and nothing is solved.
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("three-mistakes.yaml"),
+        "titl: invented three-mistake case\n\
+         formula: C4H8O\n\
+         ms:\n  molecular_ion: seventy-two\n\
+         ir:\n  bands:\n    - { wavenumbr: 1715, strength: strong }\n",
+    )
+    .unwrap();
+    quiddity(&["solve", "three-mistakes.yaml"], dir.path())
+        .expect_file("case/solve-three-schema-errors");
+}

@@ -83,7 +83,7 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
             ),
         )
     })?;
-    let raw = case::parse_raw(&src, &origin).map_err(|d| Failure::from(*d))?;
+    let raw = case::parse_raw_every_error(&src, &origin).map_err(Failure::from)?;
     let dir = case_dir(path);
     let mut files = Vec::new();
     for written in case::referenced_files(&raw) {
