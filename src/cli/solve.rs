@@ -6,7 +6,7 @@ use super::casefile::{
     self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
 };
 use super::limits::LimitArgs;
-use super::{io_failure, print_json, CommandResult, Failure, Status};
+use super::{io_failure, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::RuleOutKind;
 use crate::engine::{self, Outcome, SolveOptions};
@@ -127,7 +127,9 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
         let _ = writeln!(err, "record written: {}", path.display());
     }
     if args.json {
-        print_json(out, &outcome)?;
+        // The same document `--report x.json` writes, byte for byte.
+        let doc = casefile::report_text(&loaded, &outcome, crate::report::Format::Json, stamp);
+        out.write_all(doc.as_bytes()).map_err(io_failure)?;
     } else {
         let mut text = render_text(&outcome);
         if let Some((verdict, _)) = casefile::library_verdict(&loaded, &outcome, false) {
@@ -298,7 +300,7 @@ pub fn render_text(o: &Outcome) -> String {
                 }
             }
             for w in &c.weakening {
-                s.push_str(&format!("    against: {w}\n"));
+                s.push_str(&format!("    against: {}\n", w.text));
             }
             if let Some(st) = &c.structures {
                 match (&st.note, st.count) {

@@ -1,5 +1,6 @@
 //! Reports: view types built from a case and the engine's outcome ([`view`]), and one
-//! renderer per format — plain text, Markdown, JSON and a self-contained HTML page with an
+//! renderer per format — plain text, Markdown, JSON (its own versioned view,
+//! [`json_view`]) and a self-contained HTML page with an
 //! inline SVG plot. Renderers are pure functions of the view, so the same inputs give the
 //! same bytes (no clock unless the caller puts a time in the provenance).
 //!
@@ -7,7 +8,7 @@
 //! ([`record`]), and the spectrum trace prepared for plotting ([`plot`]).
 
 pub mod html;
-pub mod json;
+pub mod json_view;
 pub mod library;
 pub mod markdown;
 pub mod plot;
@@ -63,7 +64,11 @@ pub fn render(view: &ReportView, format: Format) -> String {
     match format {
         Format::Text => text::render(view),
         Format::Markdown => markdown::render(view),
-        Format::Json => json::render(view),
+        Format::Json => {
+            let mut doc = view.json.clone();
+            doc.library = view.library.clone();
+            json_view::render(&doc)
+        }
         Format::Html => html::render(view),
     }
 }

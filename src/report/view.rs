@@ -42,10 +42,10 @@ pub struct Provenance {
 }
 
 /// The whole report.
-#[derive(Clone, Debug, Serialize)]
+#[derive(Clone, Debug)]
 pub struct ReportView {
-    /// Identifies this JSON layout.
-    pub report_format: &'static str,
+    /// The JSON document (its own versioned view; `library` is added at render time).
+    pub json: super::json_view::JsonView,
     /// Case identifier.
     pub case: Option<String>,
     /// Case title.
@@ -65,10 +65,8 @@ pub struct ReportView {
     /// Formula-level checks (MS agreement).
     pub evidence_checks: Vec<EvidenceCheck>,
     /// A salt or hydrate formula: the organic part deduced and what else it holds.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub salt: Option<crate::engine::salt::SaltOutcome>,
     /// One compound could not explain the spectrum: the two-component reading.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub mixture: Option<crate::engine::mixture::MixtureOutcome>,
     /// Consistent combinations found in all.
     pub n_consistent: usize,
@@ -92,14 +90,11 @@ pub struct ReportView {
     pub cautions: Vec<String>,
     /// Where the report came from.
     pub provenance: Provenance,
-    /// The spectrum trace for plotting (HTML only; not part of the JSON).
-    #[serde(skip)]
+    /// The spectrum trace for plotting (HTML only).
     pub plot: Option<PlotTrace>,
     /// The reference-library search and its hits checked against the case.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub library: Option<crate::verdict::LibraryVerdict>,
     /// The unknown and its best hits for the overlay plot (HTML only).
-    #[serde(skip)]
     pub library_overlay: Option<super::plot::LibraryOverlay>,
 }
 
@@ -467,8 +462,8 @@ pub fn build(
             skeleton_carbons: c.skeleton_carbons,
             dbe_accounting: c.dbe_accounting.clone(),
             atom_accounting: c.atom_accounting.clone(),
-            supporting: c.supporting.clone(),
-            weakening: c.weakening.clone(),
+            supporting: c.supporting.iter().map(|r| r.text.clone()).collect(),
+            weakening: c.weakening.iter().map(|r| r.text.clone()).collect(),
             structures: c.structures.clone(),
         })
         .collect();
@@ -500,8 +495,15 @@ pub fn build(
             comments: c.comments.clone(),
         }
     });
+    let json = super::json_view::build(
+        case,
+        outcome,
+        conclusion.clone(),
+        formula_facts.clone(),
+        provenance.clone(),
+    );
     ReportView {
-        report_format: "quiddity-report/1",
+        json,
         case: case.id.clone(),
         title: case.title.clone(),
         sample: case.sample.clone(),
