@@ -410,47 +410,7 @@ pub fn ruled_out(
             });
         } else if let Some(rules) = g.presence.missing.first() {
             excluded[gi] = true;
-            let rule = &g.group.bands[rules[0]];
-            let nearest = problem.bands.iter().min_by(|(_, a), (_, b)| {
-                (a.band.at - rule.range.centre())
-                    .abs()
-                    .total_cmp(&(b.band.at - rule.range.centre()).abs())
-            });
-            let mut evidence = vec!["ir.bands".to_owned()];
-            let mut case = vec![CaseRef::BandList];
-            if let Some((index, n)) = nearest {
-                evidence.push(format!(
-                    "nearest observed band: {:.0} cm⁻¹ {} ({})",
-                    n.band.at,
-                    n.band.strength,
-                    n.place.display()
-                ));
-                case.push(CaseRef::Band { index: *index });
-            }
-            out.push(RuledOut {
-                group: g.group.id.clone(),
-                family: false,
-                kind: RuleOutKind::MissingBand,
-                reason: diagnostic_bands::describe_missing(
-                    rule,
-                    problem.technique,
-                    problem.tolerance,
-                ),
-                rule: Some(format!(
-                    "{}: {} ({})",
-                    g.group.id,
-                    rule.label,
-                    at(&rule.defined_at)
-                )),
-                evidence,
-                cite: Some(RuleCite::catalogue(
-                    RuleKind::GroupBand,
-                    &g.group.id,
-                    Some(rules[0]),
-                    &rule.defined_at,
-                )),
-                case,
-            });
+            out.push(missing_band(problem, g, rules[0]));
         } else if enumeration_complete {
             excluded[gi] = true;
             out.push(RuledOut {
@@ -515,6 +475,52 @@ pub fn ruled_out(
         });
     }
     out
+}
+
+/// A group ruled out by a missing demanded band (rule `rule_idx` of the group), with the
+/// nearest observed band for the analyst to check.
+fn missing_band(
+    problem: &Problem<'_>,
+    g: &super::model::GroupData<'_>,
+    rule_idx: usize,
+) -> RuledOut {
+    let rule = &g.group.bands[rule_idx];
+    let nearest = problem.bands.iter().min_by(|(_, a), (_, b)| {
+        (a.band.at - rule.range.centre())
+            .abs()
+            .total_cmp(&(b.band.at - rule.range.centre()).abs())
+    });
+    let mut evidence = vec!["ir.bands".to_owned()];
+    let mut case = vec![CaseRef::BandList];
+    if let Some((index, n)) = nearest {
+        evidence.push(format!(
+            "nearest observed band: {:.0} cm⁻¹ {} ({})",
+            n.band.at,
+            n.band.strength,
+            n.place.display()
+        ));
+        case.push(CaseRef::Band { index: *index });
+    }
+    RuledOut {
+        group: g.group.id.clone(),
+        family: false,
+        kind: RuleOutKind::MissingBand,
+        reason: diagnostic_bands::describe_missing(rule, problem.technique, problem.tolerance),
+        rule: Some(format!(
+            "{}: {} ({})",
+            g.group.id,
+            rule.label,
+            at(&rule.defined_at)
+        )),
+        evidence,
+        cite: Some(RuleCite::catalogue(
+            RuleKind::GroupBand,
+            &g.group.id,
+            Some(rule_idx),
+            &rule.defined_at,
+        )),
+        case,
+    }
 }
 
 /// Words for the failures of a near miss.

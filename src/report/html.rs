@@ -3,7 +3,8 @@
 //! user-supplied string goes through [`escape`].
 
 use super::text::cell_text;
-use super::view::{groups_text, ReportView};
+use super::view::{CellKind, ReportView};
+use super::wording::{self, capitalised};
 use std::fmt::Write;
 
 /// Escapes text for HTML element content and attribute values.
@@ -74,8 +75,9 @@ pub fn render(v: &ReportView) -> String {
     );
     let _ = writeln!(
         s,
-        "<p class=\"caution\"><strong>Caution:</strong> {}.</p>",
-        escape(&v.cautions.join("; "))
+        "<p class=\"caution\"><strong>{}:</strong> {}.</p>",
+        capitalised(wording::CAUTION),
+        escape(&wording::cautions(&v.cautions))
     );
     let smp = &v.sample;
     if [
@@ -103,11 +105,11 @@ pub fn render(v: &ReportView) -> String {
         kv(&mut s, "ms", Some(m));
     }
     if let Some((lo, hi)) = e.ir_window {
-        let ir = format!(
-            "technique {}, window {lo:.0}–{hi:.0} cm⁻¹, {} band(s) written, {} picked from the spectrum",
-            e.ir_technique.as_deref().unwrap_or("not stated"),
+        let ir = wording::ir_evidence(
+            e.ir_technique.as_deref(),
+            (lo, hi),
             e.n_bands_written,
-            e.n_bands_picked
+            e.n_bands_picked,
         );
         kv(&mut s, "ir", Some(&ir));
     }
@@ -148,7 +150,7 @@ pub fn render(v: &ReportView) -> String {
         let _ = writeln!(
             s,
             "<tr><th>DBE</th><td class=\"num\">{}</td></tr>",
-            f.dbe.map_or("not defined".to_owned(), |d| format!("{d}"))
+            wording::dbe(f.dbe)
         );
         s.push_str("</table>\n");
     }
@@ -157,35 +159,37 @@ pub fn render(v: &ReportView) -> String {
         for c in &v.evidence_checks {
             let _ = writeln!(
                 s,
-                "<li>{} <strong>{}</strong>: {}</li>",
+                "<li>{} {}</li>",
                 if c.agrees {
-                    "agrees"
+                    wording::agreement(true).to_owned()
                 } else {
-                    "<span class=\"unexplained\">DISAGREES</span>"
+                    format!(
+                        "<span class=\"unexplained\">{}</span>",
+                        wording::agreement(false)
+                    )
                 },
-                escape(c.item.word()),
-                escape(&c.detail)
+                escape(&wording::evidence_check(c))
             );
         }
         s.push_str("</ul>\n");
     }
     if let Some(salt) = &v.salt {
         s.push_str("<h2>Salt, hydrate and counter-ion</h2>\n<ul>\n");
-        for l in super::view::salt_lines(salt) {
+        for l in super::wording::salt_lines(salt) {
             let _ = writeln!(s, "<li>{}</li>", escape(&l));
         }
         s.push_str("</ul>\n");
     }
     if let Some(m) = &v.mixture {
         s.push_str("<h2>Mixture</h2>\n<ul>\n");
-        for l in super::view::mixture_lines(m) {
+        for l in super::wording::mixture_lines(m) {
             let _ = writeln!(s, "<li>{}</li>", escape(&l));
         }
         s.push_str("</ul>\n");
     }
     s.push_str("<h2>Candidates</h2>\n");
     if v.candidates.is_empty() {
-        s.push_str("<p>No consistent candidate (see the conflicts below).</p>\n");
+        let _ = writeln!(s, "<p>{}.</p>", escape(&capitalised(wording::NO_CANDIDATE)));
     } else {
         let _ = writeln!(s, "<p>{}.</p>", v.count_sentence());
         s.push_str("<table class=\"candidates\">\n<tr><th>rank</th><th>score</th><th>groups</th><th>DBE</th><th>atoms</th><th>for / against</th></tr>\n");
@@ -193,12 +197,8 @@ pub fn render(v: &ReportView) -> String {
             let notes: Vec<String> = c
                 .supporting
                 .iter()
-                .map(|w| format!("for: {}", escape(w)))
-                .chain(
-                    c.weakening
-                        .iter()
-                        .map(|w| format!("against: {}", escape(w))),
-                )
+                .map(|w| escape(&wording::supporting(w)))
+                .chain(c.weakening.iter().map(|w| escape(&wording::weakening(w))))
                 .collect();
             row(
                 &mut s,
@@ -220,7 +220,7 @@ pub fn render(v: &ReportView) -> String {
     }
     s.push_str("<h2>Band assignments</h2>\n");
     if v.band_table.rows.is_empty() {
-        s.push_str("<p>No IR bands.</p>\n");
+        let _ = writeln!(s, "<p>{}.</p>", capitalised(wording::NO_BANDS));
     } else {
         s.push_str("<table class=\"bands\">\n<tr><th>cm⁻¹</th><th>strength</th><th>shape</th><th>from</th>");
         for r in &v.band_table.ranks {
@@ -235,23 +235,23 @@ pub fn render(v: &ReportView) -> String {
                 escape(&b.place),
             ];
             for i in 0..v.band_table.ranks.len() {
-                let t = cell_text(b, i);
-                let rule = b.cells.get(i).and_then(|c| c.rule.as_ref());
-                cells.push(match (t.as_str(), rule) {
-                    ("UNEXPLAINED", _) => {
-                        "<span class=\"unexplained\">UNEXPLAINED</span>".to_owned()
-                    }
-                    (_, Some(r)) => format!("{}<br><small>{}</small>", escape(&t), escape(r)),
-                    _ => escape(&t),
-                });
+                let t = escape(&cell_text(b, i));
+                let cell = b.cells.get(i);
+                cells.push(
+                    match (cell.map(|c| c.kind), cell.and_then(|c| c.rule.as_ref())) {
+                        (Some(CellKind::Unexplained), _) if b.demanded => {
+                            format!("<span class=\"unexplained\">{t}</span>")
+                        }
+                        (_, Some(r)) => format!("{t}<br><small>{}</small>", escape(r)),
+                        _ => t,
+                    },
+                );
             }
             row(&mut s, &cells);
         }
         s.push_str("</table>\n");
         if !v.band_table.treatments.is_empty() {
-            s.push_str(
-                "<p>How the leading candidate took bands it excused or reshaped:</p>\n<ul>\n",
-            );
+            let _ = writeln!(s, "<p>{}:</p>\n<ul>", capitalised(wording::TREATMENTS));
             for t in &v.band_table.treatments {
                 let _ = writeln!(s, "<li>{}</li>", escape(t));
             }
@@ -279,9 +279,8 @@ pub fn render(v: &ReportView) -> String {
         for n in &v.near_misses {
             let _ = writeln!(
                 s,
-                "<li>{}: {}</li>",
-                escape(&groups_text(&n.groups)),
-                escape(&n.lacked.join("; "))
+                "<li>{}</li>",
+                escape(&wording::near_miss(&n.groups, &n.lacked))
             );
         }
         s.push_str("</ul>\n");
@@ -289,22 +288,18 @@ pub fn render(v: &ReportView) -> String {
     if !v.conflicts.is_empty() {
         s.push_str("<h2>Conflicts</h2>\n");
         for c in &v.conflicts {
-            s.push_str("<p>These evidence items cannot hold together:</p>\n<ul>\n");
+            let _ = writeln!(s, "<p>{}:</p>\n<ul>", capitalised(wording::CONFLICT));
             for i in &c.items {
                 let _ = writeln!(s, "<li>{}</li>", escape(i));
             }
             for x in &c.explanation {
-                let _ = writeln!(s, "<li>because {}</li>", escape(x));
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::because(x)));
             }
             for x in &c.search_limits {
-                let _ = writeln!(
-                    s,
-                    "<li>search limit: {} (the set may not be minimal)</li>",
-                    escape(x)
-                );
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::search_limit(x)));
             }
             for x in &c.suggested_causes {
-                let _ = writeln!(s, "<li>check: {}</li>", escape(x));
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::check_cause(x)));
             }
             s.push_str("</ul>\n");
         }
@@ -312,15 +307,7 @@ pub fn render(v: &ReportView) -> String {
     if !v.discriminating_checks.is_empty() {
         s.push_str("<h2>Discriminating checks</h2>\n<ul>\n");
         for d in &v.discriminating_checks {
-            let _ = writeln!(
-                s,
-                "<li>#{} vs #{} ({}, favours #{}): {}</li>",
-                d.between[0],
-                d.between[1],
-                escape(d.kind.word()),
-                d.favours,
-                escape(&d.observation)
-            );
+            let _ = writeln!(s, "<li>{}</li>", escape(&wording::discriminating(d, "#")));
         }
         s.push_str("</ul>\n");
     }

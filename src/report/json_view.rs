@@ -568,7 +568,7 @@ fn candidate(c: &engine::Candidate, placer: &Placer) -> CandidateJson {
         rank: c.rank,
         formula: c.formula.clone(),
         groups: c.groups.clone(),
-        groups_text: super::view::candidate_text(c),
+        groups_text: super::wording::candidate_text(c),
         alternatives: c.alternatives.clone(),
         families: c.families.clone(),
         score: round(c.score, 4),

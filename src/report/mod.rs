@@ -4,6 +4,8 @@
 //! inline SVG plot. Renderers are pure functions of the view, so the same inputs give the
 //! same bytes (no clock unless the caller puts a time in the provenance).
 //!
+//! Every sentence the renderers show comes from [`wording`], the terminal's included.
+//!
 //! Also here: the record of a solved case and the comparison a review makes
 //! ([`record`]), and the spectrum trace prepared for plotting ([`plot`]).
 
@@ -16,6 +18,7 @@ pub mod record;
 pub mod svg;
 pub mod text;
 pub mod view;
+pub mod wording;
 
 pub use view::{build, Provenance, ReportView};
 

@@ -1,7 +1,8 @@
 //! Plain-text report: aligned columns, one section per part of the view, for printing and
 //! for a reviewer's line-by-line check.
 
-use super::view::{BandRow, ReportView};
+use super::view::{BandRow, CellKind, ReportView};
+use super::wording;
 use std::fmt::Write;
 
 fn line(s: &mut String, text: impl AsRef<str>) {
@@ -29,14 +30,8 @@ fn field(s: &mut String, label: &str, value: Option<&String>) {
 /// The text of one band cell: `id (kind)`.
 pub fn cell_text(row: &BandRow, i: usize) -> String {
     match row.cells.get(i) {
-        Some(c) if c.kind == super::view::CellKind::Unexplained => {
-            if row.demanded {
-                "UNEXPLAINED".to_owned()
-            } else {
-                "unexplained (not demanded)".to_owned()
-            }
-        }
-        Some(c) => format!("{} ({})", c.id, c.kind.word()),
+        Some(c) if c.kind == CellKind::Unexplained => wording::unexplained(row.demanded).to_owned(),
+        Some(c) => wording::cell(&c.id, c.kind.word()),
         None => String::new(),
     }
 }
@@ -52,13 +47,7 @@ pub fn render(v: &ReportView) -> String {
     };
     line(&mut s, &head);
     line(&mut s, "=".repeat(head.chars().count()));
-    line(
-        &mut s,
-        format!(
-            "caution: {}.",
-            v.cautions.first().map_or("", String::as_str)
-        ),
-    );
+    line(&mut s, wording::cautions_sentence(&v.cautions));
 
     let smp = &v.sample;
     if smp.received.is_some()
@@ -85,11 +74,14 @@ pub fn render(v: &ReportView) -> String {
         line(
             &mut s,
             format!(
-                "  {:<14} technique {}, window {lo:.0}–{hi:.0} cm⁻¹, {} band(s) written, {} picked from the spectrum",
+                "  {:<14} {}",
                 "ir",
-                e.ir_technique.as_deref().unwrap_or("not stated"),
-                e.n_bands_written,
-                e.n_bands_picked
+                wording::ir_evidence(
+                    e.ir_technique.as_deref(),
+                    (lo, hi),
+                    e.n_bands_written,
+                    e.n_bands_picked
+                )
             ),
         );
     }
@@ -117,14 +109,7 @@ pub fn render(v: &ReportView) -> String {
             &mut s,
             format!("  {:<22} {}", "nominal mass", f.nominal_mass),
         );
-        line(
-            &mut s,
-            format!(
-                "  {:<22} {}",
-                "DBE",
-                f.dbe.map_or("not defined".to_owned(), |d| format!("{d}"))
-            ),
-        );
+        line(&mut s, format!("  {:<22} {}", "DBE", wording::dbe(f.dbe)));
     }
     if !v.evidence_checks.is_empty() {
         heading(&mut s, "formula against the mass spectrum");
@@ -132,10 +117,9 @@ pub fn render(v: &ReportView) -> String {
             line(
                 &mut s,
                 format!(
-                    "  {} {}: {}",
-                    if c.agrees { "agrees   " } else { "DISAGREES" },
-                    c.item,
-                    c.detail
+                    "  {:<9} {}",
+                    wording::agreement(c.agrees),
+                    wording::evidence_check(c)
                 ),
             );
         }
@@ -143,24 +127,21 @@ pub fn render(v: &ReportView) -> String {
 
     if let Some(salt) = &v.salt {
         heading(&mut s, "salt, hydrate and counter-ion");
-        for l in super::view::salt_lines(salt) {
+        for l in super::wording::salt_lines(salt) {
             line(&mut s, format!("  {l}"));
         }
     }
 
     if let Some(m) = &v.mixture {
         heading(&mut s, "mixture");
-        for l in super::view::mixture_lines(m) {
+        for l in super::wording::mixture_lines(m) {
             line(&mut s, format!("  {l}"));
         }
     }
 
     heading(&mut s, "candidates");
     if v.candidates.is_empty() {
-        line(
-            &mut s,
-            "  no consistent candidate (see the conflicts below)",
-        );
+        line(&mut s, format!("  {}", wording::NO_CANDIDATE));
     } else {
         line(&mut s, format!("  {}", v.count_sentence()));
         line(&mut s, format!("  {:>4}  {:>7}  groups", "rank", "score"));
@@ -178,17 +159,17 @@ pub fn render(v: &ReportView) -> String {
                 line(&mut s, format!("      {a}"));
             }
             for w in &c.supporting {
-                line(&mut s, format!("      for:     {}", flat(w)));
+                line(&mut s, format!("      {}", wording::supporting(&flat(w))));
             }
             for w in &c.weakening {
-                line(&mut s, format!("      against: {}", flat(w)));
+                line(&mut s, format!("      {}", wording::weakening(&flat(w))));
             }
         }
     }
 
     heading(&mut s, "band assignments");
     if v.band_table.rows.is_empty() {
-        line(&mut s, "  no IR bands");
+        line(&mut s, format!("  {}", wording::NO_BANDS));
     } else {
         let width = 30;
         let mut head = format!("  {:>7}  {:<8}  {:<6}", "cm⁻¹", "strength", "shape");
@@ -210,20 +191,14 @@ pub fn render(v: &ReportView) -> String {
             line(&mut s, l.trim_end());
         }
         if !v.band_table.treatments.is_empty() {
-            line(
-                &mut s,
-                "  how the leading candidate took bands it excused or reshaped:",
-            );
+            line(&mut s, format!("  {}:", wording::TREATMENTS));
             for t in &v.band_table.treatments {
                 line(&mut s, format!("    {}", flat(t)));
             }
         }
         if let Some(first) = v.band_table.rows.first() {
             if !first.cells.is_empty() {
-                line(
-                    &mut s,
-                    "  rules behind the leading candidate's assignments:",
-                );
+                line(&mut s, format!("  {}:", wording::ASSIGNMENT_RULES));
                 let mut seen = Vec::new();
                 for row in &v.band_table.rows {
                     if let Some(rule) = row.cells.first().and_then(|c| c.rule.as_ref()) {
@@ -247,10 +222,7 @@ pub fn render(v: &ReportView) -> String {
                     "  {:<width$}  {}{}",
                     r.group,
                     flat(&r.reason),
-                    r.rule
-                        .as_ref()
-                        .map(|x| format!(" [rule {x}]"))
-                        .unwrap_or_default()
+                    wording::ruled_out_rule(r.rule.as_deref())
                 ),
             );
         }
@@ -260,45 +232,32 @@ pub fn render(v: &ReportView) -> String {
         for n in &v.near_misses {
             line(
                 &mut s,
-                format!(
-                    "  {}: {}",
-                    super::view::groups_text(&n.groups),
-                    n.lacked.join("; ")
-                ),
+                format!("  {}", wording::near_miss(&n.groups, &n.lacked)),
             );
         }
     }
     if !v.conflicts.is_empty() {
         heading(&mut s, "conflicts");
         for c in &v.conflicts {
-            line(&mut s, "  these evidence items cannot hold together:");
+            line(&mut s, format!("  {}:", wording::CONFLICT));
             for i in &c.items {
                 line(&mut s, format!("    - {i}"));
             }
             for e in &c.explanation {
-                line(&mut s, format!("    because {e}"));
+                line(&mut s, format!("    {}", wording::because(e)));
             }
             for limit in &c.search_limits {
-                line(
-                    &mut s,
-                    format!("    search limit: {limit} (the set may not be minimal)"),
-                );
+                line(&mut s, format!("    {}", wording::search_limit(limit)));
             }
             for cause in &c.suggested_causes {
-                line(&mut s, format!("    check: {cause}"));
+                line(&mut s, format!("    {}", wording::check_cause(cause)));
             }
         }
     }
     if !v.discriminating_checks.is_empty() {
         heading(&mut s, "discriminating checks");
         for d in &v.discriminating_checks {
-            line(
-                &mut s,
-                format!(
-                    "  [#{} vs #{}, {}, favours #{}] {}",
-                    d.between[0], d.between[1], d.kind, d.favours, d.observation
-                ),
-            );
+            line(&mut s, format!("  {}", wording::discriminating(d, "#")));
         }
     }
     if let Some(l) = &v.library {
