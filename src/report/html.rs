@@ -49,9 +49,24 @@ fn kv(s: &mut String, label: &str, value: Option<&String>) {
     }
 }
 
-/// Renders the HTML page.
+/// Renders the HTML page, section by section.
 pub fn render(v: &ReportView) -> String {
     let mut s = String::new();
+    head(&mut s, v);
+    sample(&mut s, v);
+    evidence(&mut s, v);
+    formula(&mut s, v);
+    salt_and_mixture(&mut s, v);
+    candidates(&mut s, v);
+    band_assignments(&mut s, v);
+    verdicts(&mut s, v);
+    case_record(&mut s, v);
+    provenance(&mut s, v);
+    s
+}
+
+/// The document head, the title and the cautions in one sentence.
+fn head(s: &mut String, v: &ReportView) {
     let title = [v.case.as_deref(), v.title.as_deref()]
         .iter()
         .flatten()
@@ -79,6 +94,10 @@ pub fn render(v: &ReportView) -> String {
         capitalised(wording::CAUTION),
         escape(&wording::cautions(&v.cautions))
     );
+}
+
+/// The sample table, when the case describes the sample.
+fn sample(s: &mut String, v: &ReportView) {
     let smp = &v.sample;
     if [
         &smp.received,
@@ -91,18 +110,22 @@ pub fn render(v: &ReportView) -> String {
     .any(|x| x.is_some())
     {
         s.push_str("<h2>Sample</h2>\n<table>\n");
-        kv(&mut s, "received", smp.received.as_ref());
-        kv(&mut s, "requested by", smp.requested_by.as_ref());
-        kv(&mut s, "description", smp.description.as_ref());
-        kv(&mut s, "techniques", smp.technique.as_ref());
-        kv(&mut s, "analyst", smp.analyst.as_ref());
+        kv(s, "received", smp.received.as_ref());
+        kv(s, "requested by", smp.requested_by.as_ref());
+        kv(s, "description", smp.description.as_ref());
+        kv(s, "techniques", smp.technique.as_ref());
+        kv(s, "analyst", smp.analyst.as_ref());
         s.push_str("</table>\n");
     }
+}
+
+/// The evidence the case holds, and the plot of its bands.
+fn evidence(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Evidence</h2>\n<table>\n");
     let e = &v.evidence;
-    kv(&mut s, "formula", e.formula_written.as_ref());
+    kv(s, "formula", e.formula_written.as_ref());
     for m in &e.ms {
-        kv(&mut s, "ms", Some(m));
+        kv(s, "ms", Some(m));
     }
     if let Some((lo, hi)) = e.ir_window {
         let ir = wording::ir_evidence(
@@ -111,12 +134,12 @@ pub fn render(v: &ReportView) -> String {
             e.n_bands_written,
             e.n_bands_picked,
         );
-        kv(&mut s, "ir", Some(&ir));
+        kv(s, "ir", Some(&ir));
     }
-    kv(&mut s, "spectrum file", e.spectrum_file.as_ref());
-    kv(&mut s, "spectrum title", e.spectrum_title.as_ref());
+    kv(s, "spectrum file", e.spectrum_file.as_ref());
+    kv(s, "spectrum title", e.spectrum_title.as_ref());
     for n in &e.spectrum_notes {
-        kv(&mut s, "spectrum note", Some(n));
+        kv(s, "spectrum note", Some(n));
     }
     s.push_str("</table>\n");
 
@@ -125,6 +148,10 @@ pub fn render(v: &ReportView) -> String {
         s.push_str(&super::svg::render(v));
         s.push_str("<p class=\"legend\"><span style=\"color:#0f6e68\">▼ explained by a group</span><span style=\"color:#5b5f97\">○ skeleton, pattern or artefact</span><span style=\"color:#b3261e\">× unexplained</span><span>shaded: fingerprint region (below 1500 cm⁻¹)</span></p>\n");
     }
+}
+
+/// Masses and DBE of the formula, and the formula against the mass spectrum.
+fn formula(s: &mut String, v: &ReportView) {
     if let Some(f) = &v.formula_facts {
         s.push_str("<h2>Formula facts</h2>\n<table>\n");
         let _ = writeln!(
@@ -173,6 +200,10 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The salt or hydrate reading and the mixture reading, when there is one.
+fn salt_and_mixture(s: &mut String, v: &ReportView) {
     if let Some(salt) = &v.salt {
         s.push_str("<h2>Salt, hydrate and counter-ion</h2>\n<ul>\n");
         for l in super::wording::salt_lines(salt) {
@@ -187,6 +218,10 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The ranked candidates with their accounting and evidence.
+fn candidates(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Candidates</h2>\n");
     if v.candidates.is_empty() {
         let _ = writeln!(s, "<p>{}.</p>", escape(&capitalised(wording::NO_CANDIDATE)));
@@ -201,7 +236,7 @@ pub fn render(v: &ReportView) -> String {
                 .chain(c.weakening.iter().map(|w| escape(&wording::weakening(w))))
                 .collect();
             row(
-                &mut s,
+                s,
                 &[
                     c.rank.to_string(),
                     format!("{:.2}", c.score),
@@ -218,6 +253,10 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</table>\n");
     }
+}
+
+/// Observed bands against the leading candidates.
+fn band_assignments(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Band assignments</h2>\n");
     if v.band_table.rows.is_empty() {
         let _ = writeln!(s, "<p>{}.</p>", capitalised(wording::NO_BANDS));
@@ -247,7 +286,7 @@ pub fn render(v: &ReportView) -> String {
                     },
                 );
             }
-            row(&mut s, &cells);
+            row(s, &cells);
         }
         s.push_str("</table>\n");
         if !v.band_table.treatments.is_empty() {
@@ -258,13 +297,17 @@ pub fn render(v: &ReportView) -> String {
             s.push_str("</ul>\n");
         }
     }
+}
+
+/// Ruled out, near misses, conflicts and discriminating checks.
+fn verdicts(s: &mut String, v: &ReportView) {
     if !v.ruled_out.is_empty() {
         s.push_str(
             "<h2>Ruled out</h2>\n<table>\n<tr><th>group</th><th>why</th><th>rule</th></tr>\n",
         );
         for r in &v.ruled_out {
             row(
-                &mut s,
+                s,
                 &[
                     escape(&r.group),
                     escape(&r.reason),
@@ -311,26 +354,30 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The library search, the analyst's conclusion, the review and the notes.
+fn case_record(s: &mut String, v: &ReportView) {
     if let Some(l) = &v.library {
         s.push_str(&super::library::html(l, v.library_overlay.as_ref()));
     }
     if let Some(c) = &v.conclusion {
         s.push_str("<h2>Analyst's conclusion</h2>\n<table>\n");
-        kv(&mut s, "accepted", Some(&c.accepted_text));
-        kv(&mut s, "standing", Some(&c.standing));
-        kv(&mut s, "comments", c.comments.as_ref());
+        kv(s, "accepted", Some(&c.accepted_text));
+        kv(s, "standing", Some(&c.standing));
+        kv(s, "comments", c.comments.as_ref());
         s.push_str("</table>\n");
     }
     if let Some(r) = &v.review {
         s.push_str("<h2>Review</h2>\n<table>\n");
-        kv(&mut s, "reviewer", r.reviewer.as_ref());
-        kv(&mut s, "date", r.date.as_ref());
+        kv(s, "reviewer", r.reviewer.as_ref());
+        kv(s, "date", r.date.as_ref());
         kv(
-            &mut s,
+            s,
             "verdict",
             r.verdict.map(|x| x.word().to_owned()).as_ref(),
         );
-        kv(&mut s, "comments", r.comments.as_ref());
+        kv(s, "comments", r.comments.as_ref());
         s.push_str("</table>\n");
     }
     if let Some(n) = &v.notes {
@@ -340,15 +387,15 @@ pub fn render(v: &ReportView) -> String {
             escape(n)
         );
     }
+}
+
+/// Where the report came from, the cautions in full, and the end of the page.
+fn provenance(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Provenance</h2>\n<table>\n");
     let p = &v.provenance;
-    kv(&mut s, "quiddity", Some(&p.quiddity_version));
-    kv(&mut s, "rules digest", Some(&p.rules_digest));
-    kv(
-        &mut s,
-        "tolerance",
-        Some(&format!("±{} cm⁻¹", p.tolerance_cm1)),
-    );
+    kv(s, "quiddity", Some(&p.quiddity_version));
+    kv(s, "rules digest", Some(&p.rules_digest));
+    kv(s, "tolerance", Some(&format!("±{} cm⁻¹", p.tolerance_cm1)));
     for i in &p.inputs {
         let _ = writeln!(
             s,
@@ -358,11 +405,10 @@ pub fn render(v: &ReportView) -> String {
             escape(&i.sha256)
         );
     }
-    kv(&mut s, "generated", p.generated_at.as_ref());
+    kv(s, "generated", p.generated_at.as_ref());
     s.push_str("</table>\n<h2>Cautions</h2>\n<ul class=\"cautions\">\n");
     for c in &v.cautions {
         let _ = writeln!(s, "<li>{}</li>", escape(c));
     }
     s.push_str("</ul>\n</body>\n</html>\n");
-    s
 }

@@ -19,13 +19,33 @@ pub fn md(text: &str) -> String {
     out
 }
 
-/// Renders the Markdown report.
-pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
-    let mut push = |t: String| {
+/// A pusher of whole lines onto `s`.
+fn lines(s: &mut String) -> impl FnMut(String) + '_ {
+    move |t| {
         s.push_str(&t);
         s.push('\n');
-    };
+    }
+}
+
+/// Renders the Markdown report, section by section.
+pub fn render(v: &ReportView) -> String {
+    let mut s = String::new();
+    title(&mut s, v);
+    sample(&mut s, v);
+    evidence(&mut s, v);
+    formula(&mut s, v);
+    salt_and_mixture(&mut s, v);
+    candidates(&mut s, v);
+    band_assignments(&mut s, v);
+    verdicts(&mut s, v);
+    case_record(&mut s, v);
+    provenance(&mut s, v);
+    s
+}
+
+/// The title and the cautions in one sentence.
+fn title(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     let title = [v.case.as_deref(), v.title.as_deref()]
         .iter()
         .flatten()
@@ -42,6 +62,11 @@ pub fn render(v: &ReportView) -> String {
         capitalised(wording::CAUTION),
         md(&wording::cautions(&v.cautions))
     ));
+}
+
+/// The sample block, when the case describes the sample.
+fn sample(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     let smp = &v.sample;
     let sample_rows: Vec<(&str, &Option<String>)> = vec![
         ("received", &smp.received),
@@ -58,6 +83,11 @@ pub fn render(v: &ReportView) -> String {
             }
         }
     }
+}
+
+/// The evidence the case holds.
+fn evidence(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Evidence\n".into());
     let e = &v.evidence;
     if let Some(f) = &e.formula_written {
@@ -86,6 +116,11 @@ pub fn render(v: &ReportView) -> String {
     for n in &e.spectrum_notes {
         push(format!("- **spectrum note:** {}", md(n)));
     }
+}
+
+/// Masses and DBE of the formula, and the formula against the mass spectrum.
+fn formula(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(f) = &v.formula_facts {
         push("\n## Formula facts\n".into());
         push("| quantity | value |\n|---|---|".into());
@@ -108,6 +143,11 @@ pub fn render(v: &ReportView) -> String {
             ));
         }
     }
+}
+
+/// The salt or hydrate reading and the mixture reading, when there is one.
+fn salt_and_mixture(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(salt) = &v.salt {
         push("\n## Salt, hydrate and counter-ion\n".into());
         for l in super::wording::salt_lines(salt) {
@@ -120,6 +160,11 @@ pub fn render(v: &ReportView) -> String {
             push(format!("- {}", md(&l)));
         }
     }
+}
+
+/// The ranked candidates, then the evidence for and against each.
+fn candidates(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Candidates\n".into());
     if v.candidates.is_empty() {
         push(md(&capitalised(wording::NO_CANDIDATE)) + ".");
@@ -154,6 +199,11 @@ pub fn render(v: &ReportView) -> String {
             }
         }
     }
+}
+
+/// Observed bands against the leading candidates.
+fn band_assignments(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Band assignments\n".into());
     if v.band_table.rows.is_empty() {
         push(capitalised(wording::NO_BANDS) + ".");
@@ -185,6 +235,11 @@ pub fn render(v: &ReportView) -> String {
             }
         }
     }
+}
+
+/// Ruled out, near misses, conflicts and discriminating checks.
+fn verdicts(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if !v.ruled_out.is_empty() {
         push("\n## Ruled out\n".into());
         push("| group | why | rule |\n|---|---|---|".into());
@@ -234,6 +289,11 @@ pub fn render(v: &ReportView) -> String {
             ));
         }
     }
+}
+
+/// The library search, the analyst's conclusion, the review and the notes.
+fn case_record(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(l) = &v.library {
         push(super::library::markdown(l).trim_end().to_owned());
     }
@@ -266,6 +326,11 @@ pub fn render(v: &ReportView) -> String {
             push(format!("> {}", md(l)));
         }
     }
+}
+
+/// Where the report came from, and the cautions in full.
+fn provenance(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Provenance\n".into());
     let p = &v.provenance;
     push(format!("- **quiddity:** {}", md(&p.quiddity_version)));
@@ -286,5 +351,4 @@ pub fn render(v: &ReportView) -> String {
     for c in &v.cautions {
         push(format!("- {c}"));
     }
-    s
 }

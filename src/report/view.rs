@@ -265,9 +265,9 @@ impl BandRow {
         self.cells.first().map_or("", |c| c.id.as_str())
     }
 
-    /// The kind of the leading candidate's explanation (`none` without candidates).
-    pub fn kind(&self) -> &str {
-        self.cells.first().map_or("none", |c| c.kind.word())
+    /// The kind of the leading candidate's explanation (unexplained without candidates).
+    pub fn cell_kind(&self) -> CellKind {
+        self.cells.first().map_or(CellKind::Unexplained, |c| c.kind)
     }
 }
 
