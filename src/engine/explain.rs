@@ -293,33 +293,32 @@ fn group_band_evidence(
             case: vec![CaseRef::Band { index: case_index }],
         });
     }
+    // A band rule of the group that no observed band meets rests on the band list.
+    let not_seen = |kind, r: usize, text| Reason {
+        kind,
+        text,
+        rule: cite(r),
+        case: vec![CaseRef::BandList],
+    };
     for &r in &g.presence.absent_exceptions {
         let rule = &g.group.bands[r];
-        weakening.push(Reason {
-            kind: ReasonKind::AllowedAbsent,
-            text: format!(
-                "{id}: {} not seen (allowed absent by symmetry; {})",
-                rule.label,
-                at(&rule.defined_at)
-            ),
-            rule: cite(r),
-            case: vec![CaseRef::BandList],
-        });
+        let text = format!(
+            "{id}: {} not seen (allowed absent by symmetry; {})",
+            rule.label,
+            at(&rule.defined_at)
+        );
+        weakening.push(not_seen(ReasonKind::AllowedAbsent, r, text));
     }
     for &r in &g.presence.missing_support {
         let rule = &g.group.bands[r];
-        weakening.push(Reason {
-            kind: ReasonKind::SupportMissing,
-            text: format!(
-                "{id}: strong {} {:.0}–{:.0} cm⁻¹ not seen ({})",
-                rule.label,
-                rule.range.lo,
-                rule.range.hi,
-                at(&rule.defined_at)
-            ),
-            rule: cite(r),
-            case: vec![CaseRef::BandList],
-        });
+        let text = format!(
+            "{id}: strong {} {:.0}–{:.0} cm⁻¹ not seen ({})",
+            rule.label,
+            rule.range.lo,
+            rule.range.hi,
+            at(&rule.defined_at)
+        );
+        weakening.push(not_seen(ReasonKind::SupportMissing, r, text));
     }
 }
 

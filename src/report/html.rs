@@ -51,19 +51,11 @@ fn kv(s: &mut String, label: &str, value: Option<&String>) {
 
 /// Renders the HTML page, section by section.
 pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
-    head(&mut s, v);
-    sample(&mut s, v);
-    evidence(&mut s, v);
-    formula(&mut s, v);
-    salt_and_mixture(&mut s, v);
-    candidates(&mut s, v);
-    band_assignments(&mut s, v);
-    verdicts(&mut s, v);
-    case_record(&mut s, v);
-    provenance(&mut s, v);
-    s
+    SECTIONS.render(v)
 }
+
+/// This format's sections.
+const SECTIONS: super::Sections = super::module_sections!(head);
 
 /// The document head, the title and the cautions in one sentence.
 fn head(s: &mut String, v: &ReportView) {

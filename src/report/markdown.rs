@@ -29,19 +29,11 @@ fn lines(s: &mut String) -> impl FnMut(String) + '_ {
 
 /// Renders the Markdown report, section by section.
 pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
-    title(&mut s, v);
-    sample(&mut s, v);
-    evidence(&mut s, v);
-    formula(&mut s, v);
-    salt_and_mixture(&mut s, v);
-    candidates(&mut s, v);
-    band_assignments(&mut s, v);
-    verdicts(&mut s, v);
-    case_record(&mut s, v);
-    provenance(&mut s, v);
-    s
+    SECTIONS.render(v)
 }
+
+/// This format's sections.
+const SECTIONS: super::Sections = super::module_sections!(title);
 
 /// The title and the cautions in one sentence.
 fn title(s: &mut String, v: &ReportView) {
