@@ -289,6 +289,23 @@ fn walk(v: &Value, path: &str, doc: &Value, c: &Catalogue, out: &mut Resolved) {
                     out.problems
                         .push(format!("{path}: a {kind} reason with rule {}", m["rule"]));
                 }
+                // What each kind of reason must point at in the case.
+                let needs: &[&str] = match kind {
+                    "band_seen" | "unexplained" => &["band", "residual_band"],
+                    "ms_clue_seen" => &["fragment"],
+                    "allowed_absent" | "support_missing" | "missing_band" => &["band_list"],
+                    _ => &[],
+                };
+                let points = m["case"]
+                    .as_array()
+                    .into_iter()
+                    .flatten()
+                    .any(|r| needs.contains(&r["kind"].as_str().unwrap_or("")));
+                if !needs.is_empty() && !points {
+                    out.problems.push(format!(
+                        "{path}: a {kind} reason points at none of {needs:?}"
+                    ));
+                }
             }
             for (k, x) in m {
                 let p = format!("{path}.{k}");
@@ -481,6 +498,11 @@ fn the_checker_catches_a_broken_reference() {
     no_such_band["candidates"][0]["weakening"][0]["case"][0]["index"] = Value::from(999);
     let p = resolve(&no_such_band, &catalogue).problems;
     assert!(p.len() == 1 && p[0].contains("names no place"), "{p:?}");
+
+    let mut no_place = doc.clone();
+    no_place["candidates"][0]["supporting"][0]["case"] = Value::Array(Vec::new());
+    let p = resolve(&no_place, &catalogue).problems;
+    assert!(p.len() == 1 && p[0].contains("points at none"), "{p:?}");
 
     let mut moved_band = doc.clone();
     moved_band["evidence"]["bands"][2]["place"] = Value::from("cases/lab-0101-carbonyl.yaml:14:7");

@@ -343,18 +343,23 @@ fn ms_clue_evidence(
     let hits =
         crate::ms::match_fragments(&clues, molecular_nominal, &observed, ms::FRAGMENT_TOLERANCE);
     let texts = ms::matched_clues(group, ms_e, molecular_nominal);
+    // The clues hit, in clue order: the same filter `matched_clues` applies, so the words
+    // and the references pair one to one.
     let located = group.ms.iter().enumerate().filter_map(|(ci, clue)| {
         let hit = hits.iter().find(|m| std::ptr::eq(m.clue, clue))?;
         let fragment = observed.iter().position(|o| {
             o.mz == hit.observed.mz && o.relative_intensity == hit.observed.relative_intensity
-        })?;
+        });
         Some((ci, clue, fragment))
     });
     texts
         .into_iter()
         .zip(located)
         .map(|(text, (ci, clue, fragment))| {
-            let mut case = vec![CaseRef::Fragment { index: fragment }];
+            let mut case: Vec<CaseRef> = fragment
+                .map(|index| CaseRef::Fragment { index })
+                .into_iter()
+                .collect();
             if matches!(clue.kind, crate::rules::MsClueKind::Loss { .. }) {
                 case.push(CaseRef::MolecularIon);
             }

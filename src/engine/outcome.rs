@@ -1,5 +1,7 @@
-//! The engine's result: serialisable view types that renderers (text, JSON, reports)
-//! consume. Field names are part of the `solve --json` contract (DEVELOPERS.md, "Contracts").
+//! The engine's result: the types renderers consume. Verdicts are typed (kinds as enums;
+//! each reason with the catalogue rule it rests on, `RuleCite`, and its places in the
+//! case, `CaseRef`). The `solve --json` contract is not these types but their versioned
+//! view, `report::json_view` (docs/json-output.md), so they may change with the engine.
 
 use serde::Serialize;
 use std::collections::BTreeMap;
