@@ -135,7 +135,11 @@ fn the_json_report_parses_and_names_the_contract_fields() {
     let outcome = casefile_solve(&loaded, &catalogue, &SolveOptions::default());
     let json: serde_json::Value =
         serde_json::from_str(&report_text(&loaded, &outcome, Format::Json, None)).unwrap();
-    assert_eq!(json["report_format"], "quiddity-report/1");
+    assert_eq!(json["schema"], quiddity::report::json_view::SCHEMA);
+    assert_eq!(
+        json["schema_version"].as_u64(),
+        Some(u64::from(quiddity::report::json_view::SCHEMA_VERSION))
+    );
     assert_eq!(json["candidates"].as_array().map(Vec::len), Some(0));
     assert!(!json["conflicts"].as_array().unwrap().is_empty());
     assert_eq!(json["formula_facts"]["nominal_mass"], 86);

@@ -13,7 +13,7 @@ use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::budget::Budget;
 use crate::diag::Diagnostic;
 use crate::engine::SolveOptions;
-use crate::report::view::candidate_text;
+use crate::report::wording::candidate_text;
 use crate::report::Format;
 use crate::rules::Catalogue;
 use clap::Args;

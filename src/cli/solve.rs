@@ -6,12 +6,12 @@ use super::casefile::{
     self, format_of, load_case, refuse_input_overwrite, write_atomic, LoadOptions,
 };
 use super::limits::LimitArgs;
-use super::{io_failure, print_json, CommandResult, Failure, Status};
+use super::{io_failure, CommandResult, Failure, Status};
 use crate::diag::Diagnostic;
 use crate::engine::RuleOutKind;
 use crate::engine::{self, Outcome, SolveOptions};
 use crate::report::record::Record;
-use crate::report::view::groups_text;
+use crate::report::wording::{self, groups_text};
 use crate::rules::Catalogue;
 use clap::Args;
 use std::io::Write;
@@ -127,7 +127,9 @@ pub fn run(args: &SolveArgs, out: &mut dyn Write) -> CommandResult {
         let _ = writeln!(err, "record written: {}", path.display());
     }
     if args.json {
-        print_json(out, &outcome)?;
+        // The same document `--report x.json` writes, byte for byte.
+        let doc = casefile::report_text(&loaded, &outcome, crate::report::Format::Json, stamp);
+        out.write_all(doc.as_bytes()).map_err(io_failure)?;
     } else {
         let mut text = render_text(&outcome);
         if let Some((verdict, _)) = casefile::library_verdict(&loaded, &outcome, false) {
@@ -161,12 +163,55 @@ const DETAILED: usize = 3;
 /// Structures listed per candidate in the terminal output.
 const STRUCTURES_SHOWN: usize = 8;
 
-/// The terminal rendering: a header, the ranked table, details of the first few, ruled
-/// out, near misses, conflicts, discriminating checks and the cautions.
+/// The terminal rendering: a header, the ranked table, details of the first few,
+/// conflicts, ruled out, near misses, discriminating checks and the cautions. Every
+/// sentence is `report::wording`'s, so the terminal and the reports say the same thing.
 ///
 /// A salt or hydrate formula adds the report's salt lines under the header.
 pub fn render_text(o: &Outcome) -> String {
     let mut s = String::new();
+    header(&mut s, o);
+    s.push('\n');
+    if o.candidates.is_empty() {
+        s.push_str(wording::NO_CANDIDATE);
+        s.push('\n');
+    } else {
+        s.push_str(&wording::count(
+            o.n_consistent,
+            o.candidates.len(),
+            o.list_truncated,
+            o.enumeration_truncated,
+        ));
+        s.push_str("\n\n");
+        formula_leads(&mut s, o);
+        candidate_table(&mut s, o);
+        for c in o.candidates.iter().take(DETAILED) {
+            candidate_detail(&mut s, c);
+        }
+    }
+    conflicts(&mut s, o);
+    ruled_out(&mut s, o);
+    if !o.near_misses.is_empty() {
+        s.push_str("\nnear misses\n");
+        for n in o.near_misses.iter().take(5) {
+            s.push_str(&format!("  {}\n", wording::near_miss(&n.groups, &n.lacked)));
+        }
+    }
+    if !o.discriminating_checks.is_empty() {
+        s.push_str("\nto tell the leading candidates apart\n");
+        for d in o.discriminating_checks.iter().take(8) {
+            s.push_str(&format!("  {}\n", wording::discriminating(d, "#")));
+        }
+    }
+    s.push('\n');
+    s.push_str(&wording::cautions_sentence(&o.cautions));
+    s.push('\n');
+    s
+}
+
+/// The header line (case, formula, DBE, technique, tolerance), the formula-level checks
+/// and the salt and mixture lines.
+fn header(s: &mut String, o: &Outcome) {
     let mut head = Vec::new();
     if let Some(c) = &o.case {
         head.push(format!("case {c}"));
@@ -186,205 +231,184 @@ pub fn render_text(o: &Outcome) -> String {
     s.push('\n');
     for c in &o.evidence_checks {
         s.push_str(&format!(
-            "  {} {}: {}\n",
-            if c.agrees { "ok  " } else { "FAIL" },
-            c.item,
-            c.detail
+            "  {:<9} {}\n",
+            wording::agreement(c.agrees),
+            wording::evidence_check(c)
         ));
     }
     if let Some(salt) = &o.salt {
-        for l in crate::report::view::salt_lines(salt) {
+        for l in wording::salt_lines(salt) {
             s.push_str(&format!("  salt {l}\n"));
         }
     }
     if let Some(m) = &o.mixture {
-        for l in crate::report::view::mixture_lines(m) {
+        for l in wording::mixture_lines(m) {
             s.push_str(&format!("  mixture {l}\n"));
         }
     }
-    s.push('\n');
-    if o.candidates.is_empty() {
-        s.push_str("no consistent candidate\n");
-    } else {
-        let shown = o.candidates.len();
+}
+
+/// The formulas proposed from the molecular ion, when the case states none.
+fn formula_leads(s: &mut String, o: &Outcome) {
+    if o.formula_leads.is_empty() {
+        return;
+    }
+    s.push_str(wording::FORMULA_LEADS);
+    s.push_str(":\n");
+    s.push_str(&format!("  ({})\n", wording::FORMULA_LEADS_COMPARED));
+    for l in &o.formula_leads {
+        let ppm = l
+            .error_ppm
+            .map(|e| format!("{e:+.1} ppm"))
+            .unwrap_or_else(|| "nominal".to_owned());
         s.push_str(&format!(
-            "{} consistent candidate{}{}{}\n\n",
-            o.n_consistent,
-            if o.n_consistent == 1 { "" } else { "s" },
-            if o.list_truncated {
-                format!(" (showing {shown})")
-            } else {
-                String::new()
-            },
-            if o.enumeration_truncated {
-                "; the enumeration limit was reached, more may exist"
-            } else {
-                ""
-            }
+            "  {:>3}  {:<14} DBE {:<4} {:<10} MS score {:>6.2}  {} consistent\n",
+            l.rank, l.formula, l.dbe, ppm, l.ms_score, l.n_consistent
         ));
-        if !o.formula_leads.is_empty() {
-            s.push_str("formulas from the molecular ion (no formula stated), each solved:\n");
-            s.push_str(
-                "  (candidates of different formulas are compared by their candidate score alone; \
-                 the MS score only chose which formulas were solved and breaks ties)\n",
-            );
-            for l in &o.formula_leads {
-                let ppm = l
-                    .error_ppm
-                    .map(|e| format!("{e:+.1} ppm"))
-                    .unwrap_or_else(|| "nominal".to_owned());
+    }
+    s.push('\n');
+}
+
+/// The ranked table: rank, score, the formula when candidates differ in it, groups.
+fn candidate_table(s: &mut String, o: &Outcome) {
+    let formula_width = o
+        .candidates
+        .iter()
+        .filter_map(|c| c.formula.as_ref().map(|f| f.chars().count()))
+        .max();
+    match formula_width {
+        Some(w) => s.push_str(&format!(" rank   score  {:<w$}  groups\n", "formula")),
+        None => s.push_str(" rank   score  groups\n"),
+    }
+    for c in &o.candidates {
+        let formula = match (formula_width, &c.formula) {
+            (Some(w), Some(f)) => format!("{f:<w$}  "),
+            _ => String::new(),
+        };
+        s.push_str(&format!(
+            "{:>5}  {:>6.2}  {formula}{}\n",
+            c.rank,
+            c.score,
+            groups_text(&c.groups)
+        ));
+    }
+}
+
+/// One candidate in full: families, DBE and atom accounting, its bands, the evidence
+/// against it and its structures.
+fn candidate_detail(s: &mut String, c: &crate::engine::Candidate) {
+    s.push_str(&format!("\n#{}  {}\n", c.rank, groups_text(&c.groups)));
+    let fam: Vec<String> = c
+        .families
+        .iter()
+        .filter(|(k, _)| !c.groups.contains_key(*k))
+        .map(|(k, v)| format!("{k} {v}"))
+        .collect();
+    if !fam.is_empty() {
+        s.push_str(&format!("    families   {}\n", fam.join(", ")));
+    }
+    s.push_str(&format!("    {}\n", c.dbe_accounting));
+    for a in &c.atom_accounting {
+        s.push_str(&format!("    {a}\n"));
+    }
+    s.push_str("    bands\n");
+    for b in &c.bands {
+        let obs = format!(
+            "{:.0} {}{}",
+            b.at,
+            b.strength,
+            b.shape
+                .as_ref()
+                .map(|x| format!(" {x}"))
+                .unwrap_or_default()
+        );
+        let why = match b.explained_by.first() {
+            Some(e) => wording::explanation(e, 9),
+            None => wording::unexplained(b.demanded).to_owned(),
+        };
+        s.push_str(&format!("      {obs:<20} {why}\n"));
+        if let Some(t) = &b.treatment {
+            s.push_str(&format!("      {:<20}   ↳ {t}\n", ""));
+        }
+    }
+    for w in &c.weakening {
+        s.push_str(&format!("    {}\n", wording::weakening(&w.text)));
+    }
+    if let Some(st) = &c.structures {
+        structures(s, st);
+    }
+}
+
+/// A candidate's constitutional isomers, the first few.
+fn structures(s: &mut String, st: &crate::engine::StructureSection) {
+    match (&st.note, st.count) {
+        (Some(note), _) => s.push_str(&format!("    structures {note}\n")),
+        (None, Some(n)) => {
+            s.push_str(&format!("    structures {}\n", wording::isomer_count(n)));
+            for r in st.ranked.iter().take(STRUCTURES_SHOWN) {
+                s.push_str(&format!("      {:>5.1}  {}\n", r.score, r.smiles));
+            }
+            if st.ranked.len() > STRUCTURES_SHOWN {
                 s.push_str(&format!(
-                    "  {:>3}  {:<14} DBE {:<4} {:<10} MS score {:>6.2}  {} consistent\n",
-                    l.rank, l.formula, l.dbe, ppm, l.ms_score, l.n_consistent
+                    "      {}\n",
+                    wording::more_isomers(st.ranked.len() - STRUCTURES_SHOWN)
                 ));
             }
-            s.push('\n');
         }
-        let formula_width = o
-            .candidates
-            .iter()
-            .filter_map(|c| c.formula.as_ref().map(|f| f.chars().count()))
-            .max();
-        match formula_width {
-            Some(w) => s.push_str(&format!(" rank   score  {:<w$}  groups\n", "formula")),
-            None => s.push_str(" rank   score  groups\n"),
+        (None, None) => {}
+    }
+}
+
+/// The conflicts: the items, why they cannot hold together, the causes to check.
+fn conflicts(s: &mut String, o: &Outcome) {
+    if o.conflicts.is_empty() {
+        return;
+    }
+    s.push_str(&format!("\nconflict: {}\n", wording::CONFLICT));
+    for c in &o.conflicts {
+        for i in &c.items {
+            s.push_str(&format!("  - {i}\n"));
         }
-        for c in &o.candidates {
-            let formula = match (formula_width, &c.formula) {
-                (Some(w), Some(f)) => format!("{f:<w$}  "),
-                _ => String::new(),
-            };
-            s.push_str(&format!(
-                "{:>5}  {:>6.2}  {formula}{}\n",
-                c.rank,
-                c.score,
-                groups_text(&c.groups)
-            ));
+        for e in &c.explanation {
+            s.push_str(&format!("    {}\n", wording::because(e)));
         }
-        for c in o.candidates.iter().take(DETAILED) {
-            s.push_str(&format!("\n#{}  {}\n", c.rank, groups_text(&c.groups)));
-            let fam: Vec<String> = c
-                .families
-                .iter()
-                .filter(|(k, _)| !c.groups.contains_key(*k))
-                .map(|(k, v)| format!("{k} {v}"))
-                .collect();
-            if !fam.is_empty() {
-                s.push_str(&format!("    families   {}\n", fam.join(", ")));
-            }
-            s.push_str(&format!("    {}\n", c.dbe_accounting));
-            for a in &c.atom_accounting {
-                s.push_str(&format!("    {a}\n"));
-            }
-            s.push_str("    bands\n");
-            for b in &c.bands {
-                let obs = format!(
-                    "{:.0} {}{}",
-                    b.at,
-                    b.strength,
-                    b.shape
-                        .as_ref()
-                        .map(|x| format!(" {x}"))
-                        .unwrap_or_default()
-                );
-                let why = match b.explained_by.first() {
-                    Some(e) => format!("{:<9} {} — {} ({})", e.kind, e.id, e.rule, e.defined_at),
-                    None if b.demanded => "UNEXPLAINED".to_owned(),
-                    None => "unexplained (not demanded)".to_owned(),
-                };
-                s.push_str(&format!("      {obs:<20} {why}\n"));
-                if let Some(t) = &b.treatment {
-                    s.push_str(&format!("      {:<20}   ↳ {t}\n", ""));
-                }
-            }
-            for w in &c.weakening {
-                s.push_str(&format!("    against: {w}\n"));
-            }
-            if let Some(st) = &c.structures {
-                match (&st.note, st.count) {
-                    (Some(note), _) => s.push_str(&format!("    structures {note}\n")),
-                    (None, Some(n)) => {
-                        s.push_str(&format!(
-                            "    structures {n} constitutional isomer{}, best IR feature score first\n",
-                            if n == 1 { "" } else { "s" }
-                        ));
-                        for r in st.ranked.iter().take(STRUCTURES_SHOWN) {
-                            s.push_str(&format!("      {:>5.1}  {}\n", r.score, r.smiles));
-                        }
-                        if st.ranked.len() > STRUCTURES_SHOWN {
-                            s.push_str(&format!(
-                                "      ... {} more (see --json)\n",
-                                st.ranked.len() - STRUCTURES_SHOWN
-                            ));
-                        }
-                    }
-                    (None, None) => {}
-                }
-            }
+        for limit in &c.search_limits {
+            s.push_str(&format!("    {}\n", wording::search_limit(limit)));
+        }
+        for cause in &c.suggested_causes {
+            s.push_str(&format!("    {}\n", wording::check_cause(cause)));
         }
     }
-    if !o.conflicts.is_empty() {
-        s.push_str("\nconflict: these evidence items cannot hold together\n");
-        for c in &o.conflicts {
-            for i in &c.items {
-                s.push_str(&format!("  - {i}\n"));
-            }
-            for e in &c.explanation {
-                s.push_str(&format!("    because {e}\n"));
-            }
-            for limit in &c.search_limits {
-                s.push_str(&format!(
-                    "    search limit: {limit} (the set may not be minimal)\n"
-                ));
-            }
-            s.push_str("  usual causes to check:\n");
-            for cause in &c.suggested_causes {
-                s.push_str(&format!("    · {cause}\n"));
-            }
-        }
+}
+
+/// The groups ruled out, those the formula cannot hold counted only.
+fn ruled_out(s: &mut String, o: &Outcome) {
+    if o.ruled_out.is_empty() {
+        return;
     }
-    if !o.ruled_out.is_empty() {
-        s.push_str("\nruled out\n");
-        let width = o.ruled_out.iter().map(|r| r.group.len()).max().unwrap_or(0);
-        for r in o
-            .ruled_out
-            .iter()
-            .filter(|r| r.kind != RuleOutKind::Composition)
-        {
-            s.push_str(&format!("  {:<width$}  {}\n", r.group, r.reason));
-        }
-        let by_formula = o
-            .ruled_out
-            .iter()
-            .filter(|r| r.kind == RuleOutKind::Composition)
-            .count();
-        if by_formula > 0 {
-            s.push_str(&format!(
-                "  ({by_formula} more groups cannot fit the formula; see --json)\n"
-            ));
-        }
+    s.push_str("\nruled out\n");
+    let width = o.ruled_out.iter().map(|r| r.group.len()).max().unwrap_or(0);
+    for r in o
+        .ruled_out
+        .iter()
+        .filter(|r| r.kind != RuleOutKind::Composition)
+    {
+        s.push_str(&format!(
+            "  {:<width$}  {}{}\n",
+            r.group,
+            r.reason,
+            wording::ruled_out_rule(r.rule.as_deref())
+        ));
     }
-    if !o.near_misses.is_empty() {
-        s.push_str("\nnear misses\n");
-        for n in o.near_misses.iter().take(5) {
-            s.push_str(&format!(
-                "  {}: {}\n",
-                groups_text(&n.groups),
-                n.lacked.join("; ")
-            ));
-        }
+    let by_formula = o
+        .ruled_out
+        .iter()
+        .filter(|r| r.kind == RuleOutKind::Composition)
+        .count();
+    if by_formula > 0 {
+        s.push_str(&format!(
+            "  {}\n",
+            wording::composition_left_out(by_formula)
+        ));
     }
-    if !o.discriminating_checks.is_empty() {
-        s.push_str("\nto tell the leading candidates apart\n");
-        for d in o.discriminating_checks.iter().take(8) {
-            s.push_str(&format!(
-                "  [{} vs {}] {}\n",
-                d.between[0], d.between[1], d.observation
-            ));
-        }
-    }
-    s.push_str("\ncaution: ");
-    s.push_str(&o.cautions.join("; "));
-    s.push_str(".\n");
-    s
 }

@@ -1,5 +1,7 @@
-//! The engine's result: serialisable view types that renderers (text, JSON, reports)
-//! consume. Field names are part of the `solve --json` contract (DEVELOPERS.md, "Contracts").
+//! The engine's result: the types renderers consume. Verdicts are typed (kinds as enums;
+//! each reason with the catalogue rule it rests on, `RuleCite`, and its places in the
+//! case, `CaseRef`). The `solve --json` contract is not these types but their versioned
+//! view, `report::json_view` (docs/json-output.md), so they may change with the engine.
 
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -102,10 +104,10 @@ pub struct Candidate {
     pub atom_accounting: Vec<String>,
     /// Observed band → what explains it.
     pub bands: Vec<BandAssignment>,
-    /// Evidence in favour, in words.
-    pub supporting: Vec<String>,
-    /// Evidence against (that did not rule it out), in words.
-    pub weakening: Vec<String>,
+    /// Evidence in favour, each with its rule and its place in the case.
+    pub supporting: Vec<Reason>,
+    /// Evidence against (that did not rule it out), each with its rule and place.
+    pub weakening: Vec<Reason>,
     /// Constitutional isomers with exactly these groups, when few enough to list
     /// (filled by `engine::structures::attach`).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -147,6 +149,10 @@ pub struct ScoreTerm {
 /// One observed band and its explanations in a candidate.
 #[derive(Clone, Debug, Serialize)]
 pub struct BandAssignment {
+    /// Index of the band in the band list of the case solved (written and picked bands,
+    /// as the engine read them; for a mixture with a known component subtracted, the
+    /// residual band list).
+    pub band_index: usize,
     /// Position, cm⁻¹.
     pub at: f64,
     /// Strength word.
@@ -177,6 +183,8 @@ pub struct Explanation {
     pub rule: String,
     /// `file:line` of the rule.
     pub defined_at: String,
+    /// The rule, typed.
+    pub cite: RuleCite,
     /// Match quality in [0, 1].
     pub quality: f64,
 }
@@ -308,6 +316,10 @@ pub struct RuledOut {
     pub rule: Option<String>,
     /// The evidence behind the decision.
     pub evidence: Vec<String>,
+    /// The rule behind the decision, typed (`rule` in words).
+    pub cite: Option<RuleCite>,
+    /// The places in the case the decision rests on.
+    pub case: Vec<CaseRef>,
 }
 
 /// A combination that failed on one point only.
@@ -317,6 +329,8 @@ pub struct NearMiss {
     pub groups: BTreeMap<String, u32>,
     /// What it lacked.
     pub lacked: Vec<String>,
+    /// The same, typed (`reasons[i].text == lacked[i]`).
+    pub reasons: Vec<Reason>,
 }
 
 /// A minimal set of evidence items that cannot hold together.
@@ -359,4 +373,122 @@ pub struct EvidenceCheck {
     pub agrees: bool,
     /// Words.
     pub detail: String,
+}
+
+/// The kind of catalogue entry a statement rests on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum RuleKind {
+    /// A group as a whole (its atoms, DBE and bonds).
+    Group,
+    /// One band rule of a group (`index` into the group's bands).
+    GroupBand,
+    /// One MS clue of a group (`index` into the group's MS clues).
+    GroupMs,
+    /// A skeleton (C–H) rule.
+    Skeleton,
+    /// A fingerprint pattern.
+    Pattern,
+    /// A sample or instrument artefact (water of crystallisation included).
+    Artefact,
+    /// A rule of the engine itself, not of the catalogue (the vapour rotational branch).
+    BuiltIn,
+}
+
+/// The rule a verdict rests on: which catalogue entry, and where it is written.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct RuleCite {
+    /// What kind of entry.
+    pub kind: RuleKind,
+    /// Group, skeleton, pattern or artefact id.
+    pub id: String,
+    /// Index of the band rule or MS clue within the group, for those kinds.
+    pub index: Option<usize>,
+    /// Catalogue file (relative to the catalogue root); none for a built-in rule.
+    pub file: Option<String>,
+    /// 1-based line of the entry in `file`.
+    pub line: Option<usize>,
+}
+
+impl RuleCite {
+    /// A catalogue entry at `at`.
+    pub fn catalogue(
+        kind: RuleKind,
+        id: &str,
+        index: Option<usize>,
+        at: &crate::rules::RuleRef,
+    ) -> RuleCite {
+        RuleCite {
+            kind,
+            id: id.to_owned(),
+            index,
+            file: Some(at.file.clone()),
+            line: Some(at.line),
+        }
+    }
+}
+
+/// A place in the case a verdict rests on.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum CaseRef {
+    /// The stated formula.
+    Formula,
+    /// One band of the case's band list, by index.
+    Band {
+        /// Index into the case's band list.
+        index: usize,
+    },
+    /// The band list as a whole (a band looked for and not found in it).
+    BandList,
+    /// The stated molecular ion.
+    MolecularIon,
+    /// The stated M+1 percentage.
+    #[serde(rename = "m_plus_1")]
+    MPlus1,
+    /// The stated M+2 percentage.
+    #[serde(rename = "m_plus_2")]
+    MPlus2,
+    /// One fragment ion, by index in the case's fragment list.
+    Fragment {
+        /// Index into `ms.fragments`.
+        index: usize,
+    },
+}
+
+/// What a reason says, by kind (the sentence is in `Reason::text`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ReasonKind {
+    /// A band rule of the group is met by an observed band.
+    BandSeen,
+    /// An MS clue of the group is met by an observed fragment.
+    MsClueSeen,
+    /// A band of the group is not seen, which symmetry allows.
+    AllowedAbsent,
+    /// A strong supporting band of the group is not seen.
+    SupportMissing,
+    /// An observed band no rule of the candidate explains.
+    Unexplained,
+    /// A demanded band of the group is missing.
+    MissingBand,
+    /// A relation between bands or groups does not hold.
+    Relation,
+    /// The bond conditions of the groups cannot be met.
+    Bonds,
+}
+
+/// One statement about a candidate: what kind, in words, the rule it rests on and the
+/// places in the case.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Reason {
+    /// What it says, by kind.
+    pub kind: ReasonKind,
+    /// The sentence.
+    pub text: String,
+    /// The catalogue rule it rests on (none for an unexplained band, a relation or the
+    /// bond conditions: no single rule).
+    pub rule: Option<RuleCite>,
+    /// The places in the case.
+    pub case: Vec<CaseRef>,
 }

@@ -3,7 +3,8 @@
 //! user-supplied string goes through [`escape`].
 
 use super::text::cell_text;
-use super::view::{groups_text, ReportView};
+use super::view::{CellKind, ReportView};
+use super::wording::{self, capitalised};
 use std::fmt::Write;
 
 /// Escapes text for HTML element content and attribute values.
@@ -48,9 +49,16 @@ fn kv(s: &mut String, label: &str, value: Option<&String>) {
     }
 }
 
-/// Renders the HTML page.
+/// Renders the HTML page, section by section.
 pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
+    SECTIONS.render(v)
+}
+
+/// This format's sections.
+const SECTIONS: super::Sections = super::module_sections!(head);
+
+/// The document head, the title and the cautions in one sentence.
+fn head(s: &mut String, v: &ReportView) {
     let title = [v.case.as_deref(), v.title.as_deref()]
         .iter()
         .flatten()
@@ -74,9 +82,14 @@ pub fn render(v: &ReportView) -> String {
     );
     let _ = writeln!(
         s,
-        "<p class=\"caution\"><strong>Caution:</strong> {}.</p>",
-        escape(&v.cautions.join("; "))
+        "<p class=\"caution\"><strong>{}:</strong> {}.</p>",
+        capitalised(wording::CAUTION),
+        escape(&wording::cautions(&v.cautions))
     );
+}
+
+/// The sample table, when the case describes the sample.
+fn sample(s: &mut String, v: &ReportView) {
     let smp = &v.sample;
     if [
         &smp.received,
@@ -89,32 +102,36 @@ pub fn render(v: &ReportView) -> String {
     .any(|x| x.is_some())
     {
         s.push_str("<h2>Sample</h2>\n<table>\n");
-        kv(&mut s, "received", smp.received.as_ref());
-        kv(&mut s, "requested by", smp.requested_by.as_ref());
-        kv(&mut s, "description", smp.description.as_ref());
-        kv(&mut s, "techniques", smp.technique.as_ref());
-        kv(&mut s, "analyst", smp.analyst.as_ref());
+        kv(s, "received", smp.received.as_ref());
+        kv(s, "requested by", smp.requested_by.as_ref());
+        kv(s, "description", smp.description.as_ref());
+        kv(s, "techniques", smp.technique.as_ref());
+        kv(s, "analyst", smp.analyst.as_ref());
         s.push_str("</table>\n");
     }
+}
+
+/// The evidence the case holds, and the plot of its bands.
+fn evidence(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Evidence</h2>\n<table>\n");
     let e = &v.evidence;
-    kv(&mut s, "formula", e.formula_written.as_ref());
+    kv(s, "formula", e.formula_written.as_ref());
     for m in &e.ms {
-        kv(&mut s, "ms", Some(m));
+        kv(s, "ms", Some(m));
     }
     if let Some((lo, hi)) = e.ir_window {
-        let ir = format!(
-            "technique {}, window {lo:.0}–{hi:.0} cm⁻¹, {} band(s) written, {} picked from the spectrum",
-            e.ir_technique.as_deref().unwrap_or("not stated"),
+        let ir = wording::ir_evidence(
+            e.ir_technique.as_deref(),
+            (lo, hi),
             e.n_bands_written,
-            e.n_bands_picked
+            e.n_bands_picked,
         );
-        kv(&mut s, "ir", Some(&ir));
+        kv(s, "ir", Some(&ir));
     }
-    kv(&mut s, "spectrum file", e.spectrum_file.as_ref());
-    kv(&mut s, "spectrum title", e.spectrum_title.as_ref());
+    kv(s, "spectrum file", e.spectrum_file.as_ref());
+    kv(s, "spectrum title", e.spectrum_title.as_ref());
     for n in &e.spectrum_notes {
-        kv(&mut s, "spectrum note", Some(n));
+        kv(s, "spectrum note", Some(n));
     }
     s.push_str("</table>\n");
 
@@ -123,6 +140,10 @@ pub fn render(v: &ReportView) -> String {
         s.push_str(&super::svg::render(v));
         s.push_str("<p class=\"legend\"><span style=\"color:#0f6e68\">▼ explained by a group</span><span style=\"color:#5b5f97\">○ skeleton, pattern or artefact</span><span style=\"color:#b3261e\">× unexplained</span><span>shaded: fingerprint region (below 1500 cm⁻¹)</span></p>\n");
     }
+}
+
+/// Masses and DBE of the formula, and the formula against the mass spectrum.
+fn formula(s: &mut String, v: &ReportView) {
     if let Some(f) = &v.formula_facts {
         s.push_str("<h2>Formula facts</h2>\n<table>\n");
         let _ = writeln!(
@@ -148,7 +169,7 @@ pub fn render(v: &ReportView) -> String {
         let _ = writeln!(
             s,
             "<tr><th>DBE</th><td class=\"num\">{}</td></tr>",
-            f.dbe.map_or("not defined".to_owned(), |d| format!("{d}"))
+            wording::dbe(f.dbe)
         );
         s.push_str("</table>\n");
     }
@@ -157,35 +178,45 @@ pub fn render(v: &ReportView) -> String {
         for c in &v.evidence_checks {
             let _ = writeln!(
                 s,
-                "<li>{} <strong>{}</strong>: {}</li>",
+                "<li>{} {}</li>",
                 if c.agrees {
-                    "agrees"
+                    wording::agreement(true).to_owned()
                 } else {
-                    "<span class=\"unexplained\">DISAGREES</span>"
+                    format!(
+                        "<span class=\"unexplained\">{}</span>",
+                        wording::agreement(false)
+                    )
                 },
-                escape(c.item.word()),
-                escape(&c.detail)
+                escape(&wording::evidence_check(c))
             );
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The salt or hydrate reading and the mixture reading, when there is one.
+fn salt_and_mixture(s: &mut String, v: &ReportView) {
     if let Some(salt) = &v.salt {
         s.push_str("<h2>Salt, hydrate and counter-ion</h2>\n<ul>\n");
-        for l in super::view::salt_lines(salt) {
+        for l in super::wording::salt_lines(salt) {
             let _ = writeln!(s, "<li>{}</li>", escape(&l));
         }
         s.push_str("</ul>\n");
     }
     if let Some(m) = &v.mixture {
         s.push_str("<h2>Mixture</h2>\n<ul>\n");
-        for l in super::view::mixture_lines(m) {
+        for l in super::wording::mixture_lines(m) {
             let _ = writeln!(s, "<li>{}</li>", escape(&l));
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The ranked candidates with their accounting and evidence.
+fn candidates(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Candidates</h2>\n");
     if v.candidates.is_empty() {
-        s.push_str("<p>No consistent candidate (see the conflicts below).</p>\n");
+        let _ = writeln!(s, "<p>{}.</p>", escape(&capitalised(wording::NO_CANDIDATE)));
     } else {
         let _ = writeln!(s, "<p>{}.</p>", v.count_sentence());
         s.push_str("<table class=\"candidates\">\n<tr><th>rank</th><th>score</th><th>groups</th><th>DBE</th><th>atoms</th><th>for / against</th></tr>\n");
@@ -193,15 +224,11 @@ pub fn render(v: &ReportView) -> String {
             let notes: Vec<String> = c
                 .supporting
                 .iter()
-                .map(|w| format!("for: {}", escape(w)))
-                .chain(
-                    c.weakening
-                        .iter()
-                        .map(|w| format!("against: {}", escape(w))),
-                )
+                .map(|w| escape(&wording::supporting(w)))
+                .chain(c.weakening.iter().map(|w| escape(&wording::weakening(w))))
                 .collect();
             row(
-                &mut s,
+                s,
                 &[
                     c.rank.to_string(),
                     format!("{:.2}", c.score),
@@ -218,9 +245,13 @@ pub fn render(v: &ReportView) -> String {
         }
         s.push_str("</table>\n");
     }
+}
+
+/// Observed bands against the leading candidates.
+fn band_assignments(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Band assignments</h2>\n");
     if v.band_table.rows.is_empty() {
-        s.push_str("<p>No IR bands.</p>\n");
+        let _ = writeln!(s, "<p>{}.</p>", capitalised(wording::NO_BANDS));
     } else {
         s.push_str("<table class=\"bands\">\n<tr><th>cm⁻¹</th><th>strength</th><th>shape</th><th>from</th>");
         for r in &v.band_table.ranks {
@@ -235,36 +266,40 @@ pub fn render(v: &ReportView) -> String {
                 escape(&b.place),
             ];
             for i in 0..v.band_table.ranks.len() {
-                let t = cell_text(b, i);
-                let rule = b.cells.get(i).and_then(|c| c.rule.as_ref());
-                cells.push(match (t.as_str(), rule) {
-                    ("UNEXPLAINED", _) => {
-                        "<span class=\"unexplained\">UNEXPLAINED</span>".to_owned()
-                    }
-                    (_, Some(r)) => format!("{}<br><small>{}</small>", escape(&t), escape(r)),
-                    _ => escape(&t),
-                });
+                let t = escape(&cell_text(b, i));
+                let cell = b.cells.get(i);
+                cells.push(
+                    match (cell.map(|c| c.kind), cell.and_then(|c| c.rule.as_ref())) {
+                        (Some(CellKind::Unexplained), _) if b.demanded => {
+                            format!("<span class=\"unexplained\">{t}</span>")
+                        }
+                        (_, Some(r)) => format!("{t}<br><small>{}</small>", escape(r)),
+                        _ => t,
+                    },
+                );
             }
-            row(&mut s, &cells);
+            row(s, &cells);
         }
         s.push_str("</table>\n");
         if !v.band_table.treatments.is_empty() {
-            s.push_str(
-                "<p>How the leading candidate took bands it excused or reshaped:</p>\n<ul>\n",
-            );
+            let _ = writeln!(s, "<p>{}:</p>\n<ul>", capitalised(wording::TREATMENTS));
             for t in &v.band_table.treatments {
                 let _ = writeln!(s, "<li>{}</li>", escape(t));
             }
             s.push_str("</ul>\n");
         }
     }
+}
+
+/// Ruled out, near misses, conflicts and discriminating checks.
+fn verdicts(s: &mut String, v: &ReportView) {
     if !v.ruled_out.is_empty() {
         s.push_str(
             "<h2>Ruled out</h2>\n<table>\n<tr><th>group</th><th>why</th><th>rule</th></tr>\n",
         );
         for r in &v.ruled_out {
             row(
-                &mut s,
+                s,
                 &[
                     escape(&r.group),
                     escape(&r.reason),
@@ -279,9 +314,8 @@ pub fn render(v: &ReportView) -> String {
         for n in &v.near_misses {
             let _ = writeln!(
                 s,
-                "<li>{}: {}</li>",
-                escape(&groups_text(&n.groups)),
-                escape(&n.lacked.join("; "))
+                "<li>{}</li>",
+                escape(&wording::near_miss(&n.groups, &n.lacked))
             );
         }
         s.push_str("</ul>\n");
@@ -289,22 +323,18 @@ pub fn render(v: &ReportView) -> String {
     if !v.conflicts.is_empty() {
         s.push_str("<h2>Conflicts</h2>\n");
         for c in &v.conflicts {
-            s.push_str("<p>These evidence items cannot hold together:</p>\n<ul>\n");
+            let _ = writeln!(s, "<p>{}:</p>\n<ul>", capitalised(wording::CONFLICT));
             for i in &c.items {
                 let _ = writeln!(s, "<li>{}</li>", escape(i));
             }
             for x in &c.explanation {
-                let _ = writeln!(s, "<li>because {}</li>", escape(x));
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::because(x)));
             }
             for x in &c.search_limits {
-                let _ = writeln!(
-                    s,
-                    "<li>search limit: {} (the set may not be minimal)</li>",
-                    escape(x)
-                );
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::search_limit(x)));
             }
             for x in &c.suggested_causes {
-                let _ = writeln!(s, "<li>check: {}</li>", escape(x));
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::check_cause(x)));
             }
             s.push_str("</ul>\n");
         }
@@ -312,38 +342,34 @@ pub fn render(v: &ReportView) -> String {
     if !v.discriminating_checks.is_empty() {
         s.push_str("<h2>Discriminating checks</h2>\n<ul>\n");
         for d in &v.discriminating_checks {
-            let _ = writeln!(
-                s,
-                "<li>#{} vs #{} ({}, favours #{}): {}</li>",
-                d.between[0],
-                d.between[1],
-                escape(d.kind.word()),
-                d.favours,
-                escape(&d.observation)
-            );
+            let _ = writeln!(s, "<li>{}</li>", escape(&wording::discriminating(d, "#")));
         }
         s.push_str("</ul>\n");
     }
+}
+
+/// The library search, the analyst's conclusion, the review and the notes.
+fn case_record(s: &mut String, v: &ReportView) {
     if let Some(l) = &v.library {
         s.push_str(&super::library::html(l, v.library_overlay.as_ref()));
     }
     if let Some(c) = &v.conclusion {
         s.push_str("<h2>Analyst's conclusion</h2>\n<table>\n");
-        kv(&mut s, "accepted", Some(&c.accepted_text));
-        kv(&mut s, "standing", Some(&c.standing));
-        kv(&mut s, "comments", c.comments.as_ref());
+        kv(s, "accepted", Some(&c.accepted_text));
+        kv(s, "standing", Some(&c.standing));
+        kv(s, "comments", c.comments.as_ref());
         s.push_str("</table>\n");
     }
     if let Some(r) = &v.review {
         s.push_str("<h2>Review</h2>\n<table>\n");
-        kv(&mut s, "reviewer", r.reviewer.as_ref());
-        kv(&mut s, "date", r.date.as_ref());
+        kv(s, "reviewer", r.reviewer.as_ref());
+        kv(s, "date", r.date.as_ref());
         kv(
-            &mut s,
+            s,
             "verdict",
             r.verdict.map(|x| x.word().to_owned()).as_ref(),
         );
-        kv(&mut s, "comments", r.comments.as_ref());
+        kv(s, "comments", r.comments.as_ref());
         s.push_str("</table>\n");
     }
     if let Some(n) = &v.notes {
@@ -353,15 +379,15 @@ pub fn render(v: &ReportView) -> String {
             escape(n)
         );
     }
+}
+
+/// Where the report came from, the cautions in full, and the end of the page.
+fn provenance(s: &mut String, v: &ReportView) {
     s.push_str("<h2>Provenance</h2>\n<table>\n");
     let p = &v.provenance;
-    kv(&mut s, "quiddity", Some(&p.quiddity_version));
-    kv(&mut s, "rules digest", Some(&p.rules_digest));
-    kv(
-        &mut s,
-        "tolerance",
-        Some(&format!("±{} cm⁻¹", p.tolerance_cm1)),
-    );
+    kv(s, "quiddity", Some(&p.quiddity_version));
+    kv(s, "rules digest", Some(&p.rules_digest));
+    kv(s, "tolerance", Some(&format!("±{} cm⁻¹", p.tolerance_cm1)));
     for i in &p.inputs {
         let _ = writeln!(
             s,
@@ -371,11 +397,10 @@ pub fn render(v: &ReportView) -> String {
             escape(&i.sha256)
         );
     }
-    kv(&mut s, "generated", p.generated_at.as_ref());
+    kv(s, "generated", p.generated_at.as_ref());
     s.push_str("</table>\n<h2>Cautions</h2>\n<ul class=\"cautions\">\n");
     for c in &v.cautions {
         let _ = writeln!(s, "<li>{}</li>", escape(c));
     }
     s.push_str("</ul>\n</body>\n</html>\n");
-    s
 }

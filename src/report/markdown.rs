@@ -2,7 +2,8 @@
 //! Every user-supplied string is escaped so that it stays text (no markup, no raw HTML).
 
 use super::text::{cell_text, flat};
-use super::view::{groups_text, ReportView};
+use super::view::ReportView;
+use super::wording::{self, capitalised};
 
 /// Escapes free text for Markdown: one line, inline markup characters backslash-escaped
 /// (emphasis, code, links, raw HTML, table pipes, entities, strike-through). Line-start
@@ -18,13 +19,25 @@ pub fn md(text: &str) -> String {
     out
 }
 
-/// Renders the Markdown report.
-pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
-    let mut push = |t: String| {
+/// A pusher of whole lines onto `s`.
+fn lines(s: &mut String) -> impl FnMut(String) + '_ {
+    move |t| {
         s.push_str(&t);
         s.push('\n');
-    };
+    }
+}
+
+/// Renders the Markdown report, section by section.
+pub fn render(v: &ReportView) -> String {
+    SECTIONS.render(v)
+}
+
+/// This format's sections.
+const SECTIONS: super::Sections = super::module_sections!(title);
+
+/// The title and the cautions in one sentence.
+fn title(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     let title = [v.case.as_deref(), v.title.as_deref()]
         .iter()
         .flatten()
@@ -36,7 +49,16 @@ pub fn render(v: &ReportView) -> String {
         if title.is_empty() { "" } else { ": " }
     ));
     push(String::new());
-    push(format!("> **Caution:** {}.", v.cautions.join("; ")));
+    push(format!(
+        "> **{}:** {}.",
+        capitalised(wording::CAUTION),
+        md(&wording::cautions(&v.cautions))
+    ));
+}
+
+/// The sample block, when the case describes the sample.
+fn sample(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     let smp = &v.sample;
     let sample_rows: Vec<(&str, &Option<String>)> = vec![
         ("received", &smp.received),
@@ -53,6 +75,11 @@ pub fn render(v: &ReportView) -> String {
             }
         }
     }
+}
+
+/// The evidence the case holds.
+fn evidence(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Evidence\n".into());
     let e = &v.evidence;
     if let Some(f) = &e.formula_written {
@@ -63,10 +90,13 @@ pub fn render(v: &ReportView) -> String {
     }
     if let Some((lo, hi)) = e.ir_window {
         push(format!(
-            "- **ir:** technique {}, window {lo:.0}–{hi:.0} cm⁻¹, {} band(s) written, {} picked from the spectrum",
-            e.ir_technique.as_deref().unwrap_or("not stated"),
-            e.n_bands_written,
-            e.n_bands_picked
+            "- **ir:** {}",
+            md(&wording::ir_evidence(
+                e.ir_technique.as_deref(),
+                (lo, hi),
+                e.n_bands_written,
+                e.n_bands_picked
+            ))
         ));
     }
     if let Some(f) = &e.spectrum_file {
@@ -78,6 +108,11 @@ pub fn render(v: &ReportView) -> String {
     for n in &e.spectrum_notes {
         push(format!("- **spectrum note:** {}", md(n)));
     }
+}
+
+/// Masses and DBE of the formula, and the formula against the mass spectrum.
+fn formula(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(f) = &v.formula_facts {
         push("\n## Formula facts\n".into());
         push("| quantity | value |\n|---|---|".into());
@@ -88,37 +123,43 @@ pub fn render(v: &ReportView) -> String {
         ));
         push(format!("| average mass | {:.4} u |", f.average_mass));
         push(format!("| nominal mass | {} |", f.nominal_mass));
-        push(format!(
-            "| DBE | {} |",
-            f.dbe.map_or("not defined".to_owned(), |d| format!("{d}"))
-        ));
+        push(format!("| DBE | {} |", wording::dbe(f.dbe)));
     }
     if !v.evidence_checks.is_empty() {
         push("\n## Formula against the mass spectrum\n".into());
         for c in &v.evidence_checks {
             push(format!(
-                "- {} **{}**: {}",
-                if c.agrees { "agrees" } else { "DISAGREES" },
-                md(c.item.word()),
-                md(&c.detail)
+                "- {} {}",
+                wording::agreement(c.agrees),
+                md(&wording::evidence_check(c))
             ));
         }
     }
+}
+
+/// The salt or hydrate reading and the mixture reading, when there is one.
+fn salt_and_mixture(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(salt) = &v.salt {
         push("\n## Salt, hydrate and counter-ion\n".into());
-        for l in super::view::salt_lines(salt) {
+        for l in super::wording::salt_lines(salt) {
             push(format!("- {}", md(&l)));
         }
     }
     if let Some(m) = &v.mixture {
         push("\n## Mixture\n".into());
-        for l in super::view::mixture_lines(m) {
+        for l in super::wording::mixture_lines(m) {
             push(format!("- {}", md(&l)));
         }
     }
+}
+
+/// The ranked candidates, then the evidence for and against each.
+fn candidates(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Candidates\n".into());
     if v.candidates.is_empty() {
-        push("No consistent candidate (see the conflicts below).".into());
+        push(md(&capitalised(wording::NO_CANDIDATE)) + ".");
     } else {
         push(format!("{}.\n", v.count_sentence()));
         push("| rank | score | groups | DBE | atoms |\n|---:|---:|---|---|---|".into());
@@ -143,16 +184,21 @@ pub fn render(v: &ReportView) -> String {
         {
             push(format!("\n**#{} {}**\n", c.rank, md(&c.groups_text)));
             for w in &c.supporting {
-                push(format!("- for: {}", md(w)));
+                push(format!("- {}", md(&wording::supporting(w))));
             }
             for w in &c.weakening {
-                push(format!("- against: {}", md(w)));
+                push(format!("- {}", md(&wording::weakening(w))));
             }
         }
     }
+}
+
+/// Observed bands against the leading candidates.
+fn band_assignments(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Band assignments\n".into());
     if v.band_table.rows.is_empty() {
-        push("No IR bands.".into());
+        push(capitalised(wording::NO_BANDS) + ".");
     } else {
         let mut head = "| cm⁻¹ | strength | shape |".to_owned();
         let mut rule = "|---:|---|---|".to_owned();
@@ -175,12 +221,17 @@ pub fn render(v: &ReportView) -> String {
             push(l);
         }
         if !v.band_table.treatments.is_empty() {
-            push("\nHow the leading candidate took bands it excused or reshaped:\n".into());
+            push(format!("\n{}:\n", capitalised(wording::TREATMENTS)));
             for t in &v.band_table.treatments {
                 push(format!("- {}", md(t)));
             }
         }
     }
+}
+
+/// Ruled out, near misses, conflicts and discriminating checks.
+fn verdicts(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if !v.ruled_out.is_empty() {
         push("\n## Ruled out\n".into());
         push("| group | why | rule |\n|---|---|---|".into());
@@ -197,46 +248,44 @@ pub fn render(v: &ReportView) -> String {
         push("\n## Near misses\n".into());
         for n in &v.near_misses {
             push(format!(
-                "- {}: {}",
-                md(&groups_text(&n.groups)),
-                md(&n.lacked.join("; "))
+                "- {}",
+                md(&wording::near_miss(&n.groups, &n.lacked))
             ));
         }
     }
     if !v.conflicts.is_empty() {
         push("\n## Conflicts\n".into());
         for c in &v.conflicts {
-            push("These evidence items cannot hold together:\n".into());
+            push(format!("{}:\n", capitalised(wording::CONFLICT)));
             for i in &c.items {
                 push(format!("- {}", md(i)));
             }
             for x in &c.explanation {
-                push(format!("- because {}", md(x)));
+                push(format!("- {}", md(&wording::because(x))));
             }
             for x in &c.search_limits {
-                push(format!(
-                    "- search limit: {} (the set may not be minimal)",
-                    md(x)
-                ));
+                push(format!("- {}", md(&wording::search_limit(x))));
             }
             for x in &c.suggested_causes {
-                push(format!("- check: {}", md(x)));
+                push(format!("- {}", md(&wording::check_cause(x))));
             }
         }
     }
     if !v.discriminating_checks.is_empty() {
         push("\n## Discriminating checks\n".into());
         for d in &v.discriminating_checks {
+            // `#` escaped so that no renderer takes `#2` for a link.
             push(format!(
-                "- \\#{} vs \\#{} ({}, favours \\#{}): {}",
-                d.between[0],
-                d.between[1],
-                md(d.kind.word()),
-                d.favours,
-                md(&d.observation)
+                "- {}",
+                md(&wording::discriminating(d, "#")).replace('#', "\\#")
             ));
         }
     }
+}
+
+/// The library search, the analyst's conclusion, the review and the notes.
+fn case_record(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     if let Some(l) = &v.library {
         push(super::library::markdown(l).trim_end().to_owned());
     }
@@ -269,6 +318,11 @@ pub fn render(v: &ReportView) -> String {
             push(format!("> {}", md(l)));
         }
     }
+}
+
+/// Where the report came from, and the cautions in full.
+fn provenance(s: &mut String, v: &ReportView) {
+    let mut push = lines(s);
     push("\n## Provenance\n".into());
     let p = &v.provenance;
     push(format!("- **quiddity:** {}", md(&p.quiddity_version)));
@@ -289,5 +343,4 @@ pub fn render(v: &ReportView) -> String {
     for c in &v.cautions {
         push(format!("- {c}"));
     }
-    s
 }

@@ -3,7 +3,8 @@
 //! SHA-256 of every input, so that a second analyst can tell whether recomputing today
 //! gives the same answer from the same bytes — and if not, exactly what moved.
 
-use super::view::{groups_text, round, InputFile, QUIDDITY_VERSION};
+use super::view::{round, InputFile, QUIDDITY_VERSION};
+use super::wording::groups_text;
 use crate::engine::{Outcome, SolveOptions};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;

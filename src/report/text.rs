@@ -1,7 +1,8 @@
 //! Plain-text report: aligned columns, one section per part of the view, for printing and
 //! for a reviewer's line-by-line check.
 
-use super::view::{BandRow, ReportView};
+use super::view::{BandRow, CellKind, ReportView};
+use super::wording;
 use std::fmt::Write;
 
 fn line(s: &mut String, text: impl AsRef<str>) {
@@ -29,37 +30,35 @@ fn field(s: &mut String, label: &str, value: Option<&String>) {
 /// The text of one band cell: `id (kind)`.
 pub fn cell_text(row: &BandRow, i: usize) -> String {
     match row.cells.get(i) {
-        Some(c) if c.kind == super::view::CellKind::Unexplained => {
-            if row.demanded {
-                "UNEXPLAINED".to_owned()
-            } else {
-                "unexplained (not demanded)".to_owned()
-            }
-        }
-        Some(c) => format!("{} ({})", c.id, c.kind.word()),
+        Some(c) if c.kind == CellKind::Unexplained => wording::unexplained(row.demanded).to_owned(),
+        Some(c) => wording::cell(&c.id, c.kind.word()),
         None => String::new(),
     }
 }
 
-/// Renders the text report.
+/// Renders the text report, section by section.
 pub fn render(v: &ReportView) -> String {
-    let mut s = String::new();
+    SECTIONS.render(v)
+}
+
+/// This format's sections.
+const SECTIONS: super::Sections = super::module_sections!(title);
+
+/// The title, underlined, and the cautions in one sentence.
+fn title(s: &mut String, v: &ReportView) {
     let head = match (&v.case, &v.title) {
         (Some(c), Some(t)) => format!("quiddity case report · {} · {}", flat(c), flat(t)),
         (Some(c), None) => format!("quiddity case report · {}", flat(c)),
         (None, Some(t)) => format!("quiddity case report · {}", flat(t)),
         (None, None) => "quiddity case report".to_owned(),
     };
-    line(&mut s, &head);
-    line(&mut s, "=".repeat(head.chars().count()));
-    line(
-        &mut s,
-        format!(
-            "caution: {}.",
-            v.cautions.first().map_or("", String::as_str)
-        ),
-    );
+    line(s, &head);
+    line(s, "=".repeat(head.chars().count()));
+    line(s, wording::cautions_sentence(&v.cautions));
+}
 
+/// The sample block, when the case describes the sample.
+fn sample(s: &mut String, v: &ReportView) {
     let smp = &v.sample;
     if smp.received.is_some()
         || smp.requested_by.is_some()
@@ -67,135 +66,136 @@ pub fn render(v: &ReportView) -> String {
         || smp.technique.is_some()
         || smp.analyst.is_some()
     {
-        heading(&mut s, "sample");
-        field(&mut s, "received", smp.received.as_ref());
-        field(&mut s, "requested by", smp.requested_by.as_ref());
-        field(&mut s, "description", smp.description.as_ref());
-        field(&mut s, "techniques", smp.technique.as_ref());
-        field(&mut s, "analyst", smp.analyst.as_ref());
+        heading(s, "sample");
+        field(s, "received", smp.received.as_ref());
+        field(s, "requested by", smp.requested_by.as_ref());
+        field(s, "description", smp.description.as_ref());
+        field(s, "techniques", smp.technique.as_ref());
+        field(s, "analyst", smp.analyst.as_ref());
     }
+}
 
-    heading(&mut s, "evidence");
+/// The evidence the case holds.
+fn evidence(s: &mut String, v: &ReportView) {
+    heading(s, "evidence");
     let e = &v.evidence;
-    field(&mut s, "formula", e.formula_written.as_ref());
+    field(s, "formula", e.formula_written.as_ref());
     for m in &e.ms {
-        line(&mut s, format!("  {:<14} {m}", "ms"));
+        line(s, format!("  {:<14} {m}", "ms"));
     }
     if let Some((lo, hi)) = e.ir_window {
         line(
-            &mut s,
+            s,
             format!(
-                "  {:<14} technique {}, window {lo:.0}–{hi:.0} cm⁻¹, {} band(s) written, {} picked from the spectrum",
+                "  {:<14} {}",
                 "ir",
-                e.ir_technique.as_deref().unwrap_or("not stated"),
-                e.n_bands_written,
-                e.n_bands_picked
+                wording::ir_evidence(
+                    e.ir_technique.as_deref(),
+                    (lo, hi),
+                    e.n_bands_written,
+                    e.n_bands_picked
+                )
             ),
         );
     }
-    field(&mut s, "spectrum file", e.spectrum_file.as_ref());
-    field(&mut s, "spectrum title", e.spectrum_title.as_ref());
+    field(s, "spectrum file", e.spectrum_file.as_ref());
+    field(s, "spectrum title", e.spectrum_title.as_ref());
     for n in &e.spectrum_notes {
-        line(&mut s, format!("  {:<14} {}", "spectrum note", flat(n)));
+        line(s, format!("  {:<14} {}", "spectrum note", flat(n)));
     }
+}
 
+/// Masses and DBE of the formula, and the formula against the mass spectrum.
+fn formula(s: &mut String, v: &ReportView) {
     if let Some(f) = &v.formula_facts {
-        heading(&mut s, "formula facts");
+        heading(s, "formula facts");
+        line(s, format!("  {:<22} {}", "formula (Hill order)", f.formula));
         line(
-            &mut s,
-            format!("  {:<22} {}", "formula (Hill order)", f.formula),
-        );
-        line(
-            &mut s,
+            s,
             format!("  {:<22} {:.6} u", "monoisotopic mass", f.monoisotopic_mass),
         );
         line(
-            &mut s,
+            s,
             format!("  {:<22} {:.4} u", "average mass", f.average_mass),
         );
-        line(
-            &mut s,
-            format!("  {:<22} {}", "nominal mass", f.nominal_mass),
-        );
-        line(
-            &mut s,
-            format!(
-                "  {:<22} {}",
-                "DBE",
-                f.dbe.map_or("not defined".to_owned(), |d| format!("{d}"))
-            ),
-        );
+        line(s, format!("  {:<22} {}", "nominal mass", f.nominal_mass));
+        line(s, format!("  {:<22} {}", "DBE", wording::dbe(f.dbe)));
     }
     if !v.evidence_checks.is_empty() {
-        heading(&mut s, "formula against the mass spectrum");
+        heading(s, "formula against the mass spectrum");
         for c in &v.evidence_checks {
             line(
-                &mut s,
+                s,
                 format!(
-                    "  {} {}: {}",
-                    if c.agrees { "agrees   " } else { "DISAGREES" },
-                    c.item,
-                    c.detail
+                    "  {:<9} {}",
+                    wording::agreement(c.agrees),
+                    wording::evidence_check(c)
                 ),
             );
         }
     }
+}
 
+/// The salt or hydrate reading and the mixture reading, when there is one.
+fn salt_and_mixture(s: &mut String, v: &ReportView) {
     if let Some(salt) = &v.salt {
-        heading(&mut s, "salt, hydrate and counter-ion");
-        for l in super::view::salt_lines(salt) {
-            line(&mut s, format!("  {l}"));
+        heading(s, "salt, hydrate and counter-ion");
+        for l in super::wording::salt_lines(salt) {
+            line(s, format!("  {l}"));
         }
     }
 
     if let Some(m) = &v.mixture {
-        heading(&mut s, "mixture");
-        for l in super::view::mixture_lines(m) {
-            line(&mut s, format!("  {l}"));
+        heading(s, "mixture");
+        for l in super::wording::mixture_lines(m) {
+            line(s, format!("  {l}"));
         }
     }
+}
 
-    heading(&mut s, "candidates");
+/// The ranked candidates, then each with its accounting and evidence.
+fn candidates(s: &mut String, v: &ReportView) {
+    heading(s, "candidates");
     if v.candidates.is_empty() {
-        line(
-            &mut s,
-            "  no consistent candidate (see the conflicts below)",
-        );
+        line(s, format!("  {}", wording::NO_CANDIDATE));
     } else {
-        line(&mut s, format!("  {}", v.count_sentence()));
-        line(&mut s, format!("  {:>4}  {:>7}  groups", "rank", "score"));
+        line(s, format!("  {}", v.count_sentence()));
+        line(s, format!("  {:>4}  {:>7}  groups", "rank", "score"));
         for c in &v.candidates {
             line(
-                &mut s,
+                s,
                 format!("  {:>4}  {:>7.2}  {}", c.rank, c.score, c.groups_text),
             );
         }
         for c in &v.candidates {
             s.push('\n');
-            line(&mut s, format!("  #{} {}", c.rank, c.groups_text));
-            line(&mut s, format!("      {}", c.dbe_accounting));
+            line(s, format!("  #{} {}", c.rank, c.groups_text));
+            line(s, format!("      {}", c.dbe_accounting));
             for a in &c.atom_accounting {
-                line(&mut s, format!("      {a}"));
+                line(s, format!("      {a}"));
             }
             for w in &c.supporting {
-                line(&mut s, format!("      for:     {}", flat(w)));
+                line(s, format!("      {}", wording::supporting(&flat(w))));
             }
             for w in &c.weakening {
-                line(&mut s, format!("      against: {}", flat(w)));
+                line(s, format!("      {}", wording::weakening(&flat(w))));
             }
         }
     }
+}
 
-    heading(&mut s, "band assignments");
+/// Observed bands against the leading candidates, with the rules behind them.
+fn band_assignments(s: &mut String, v: &ReportView) {
+    heading(s, "band assignments");
     if v.band_table.rows.is_empty() {
-        line(&mut s, "  no IR bands");
+        line(s, format!("  {}", wording::NO_BANDS));
     } else {
         let width = 30;
         let mut head = format!("  {:>7}  {:<8}  {:<6}", "cm⁻¹", "strength", "shape");
         for r in &v.band_table.ranks {
             let _ = write!(head, "  {:<width$}", format!("#{r}"));
         }
-        line(&mut s, head.trim_end());
+        line(s, head.trim_end());
         for row in &v.band_table.rows {
             let mut l = format!(
                 "  {:>7.1}  {:<8}  {:<6}",
@@ -207,28 +207,22 @@ pub fn render(v: &ReportView) -> String {
                 let _ = write!(l, "  {:<width$}", cell_text(row, i));
             }
             let _ = write!(l, "  from {}", row.place);
-            line(&mut s, l.trim_end());
+            line(s, l.trim_end());
         }
         if !v.band_table.treatments.is_empty() {
-            line(
-                &mut s,
-                "  how the leading candidate took bands it excused or reshaped:",
-            );
+            line(s, format!("  {}:", wording::TREATMENTS));
             for t in &v.band_table.treatments {
-                line(&mut s, format!("    {}", flat(t)));
+                line(s, format!("    {}", flat(t)));
             }
         }
         if let Some(first) = v.band_table.rows.first() {
             if !first.cells.is_empty() {
-                line(
-                    &mut s,
-                    "  rules behind the leading candidate's assignments:",
-                );
+                line(s, format!("  {}:", wording::ASSIGNMENT_RULES));
                 let mut seen = Vec::new();
                 for row in &v.band_table.rows {
                     if let Some(rule) = row.cells.first().and_then(|c| c.rule.as_ref()) {
                         if !seen.contains(rule) {
-                            line(&mut s, format!("    {} — {rule}", row.label()));
+                            line(s, format!("    {} — {rule}", row.label()));
                             seen.push(rule.clone());
                         }
                     }
@@ -236,122 +230,107 @@ pub fn render(v: &ReportView) -> String {
             }
         }
     }
+}
 
+/// Ruled out, near misses, conflicts and discriminating checks.
+fn verdicts(s: &mut String, v: &ReportView) {
     if !v.ruled_out.is_empty() {
-        heading(&mut s, "ruled out");
+        heading(s, "ruled out");
         let width = v.ruled_out.iter().map(|r| r.group.len()).max().unwrap_or(0);
         for r in &v.ruled_out {
             line(
-                &mut s,
+                s,
                 format!(
                     "  {:<width$}  {}{}",
                     r.group,
                     flat(&r.reason),
-                    r.rule
-                        .as_ref()
-                        .map(|x| format!(" [rule {x}]"))
-                        .unwrap_or_default()
+                    wording::ruled_out_rule(r.rule.as_deref())
                 ),
             );
         }
     }
     if !v.near_misses.is_empty() {
-        heading(&mut s, "near misses");
+        heading(s, "near misses");
         for n in &v.near_misses {
-            line(
-                &mut s,
-                format!(
-                    "  {}: {}",
-                    super::view::groups_text(&n.groups),
-                    n.lacked.join("; ")
-                ),
-            );
+            line(s, format!("  {}", wording::near_miss(&n.groups, &n.lacked)));
         }
     }
     if !v.conflicts.is_empty() {
-        heading(&mut s, "conflicts");
+        heading(s, "conflicts");
         for c in &v.conflicts {
-            line(&mut s, "  these evidence items cannot hold together:");
+            line(s, format!("  {}:", wording::CONFLICT));
             for i in &c.items {
-                line(&mut s, format!("    - {i}"));
+                line(s, format!("    - {i}"));
             }
             for e in &c.explanation {
-                line(&mut s, format!("    because {e}"));
+                line(s, format!("    {}", wording::because(e)));
             }
             for limit in &c.search_limits {
-                line(
-                    &mut s,
-                    format!("    search limit: {limit} (the set may not be minimal)"),
-                );
+                line(s, format!("    {}", wording::search_limit(limit)));
             }
             for cause in &c.suggested_causes {
-                line(&mut s, format!("    check: {cause}"));
+                line(s, format!("    {}", wording::check_cause(cause)));
             }
         }
     }
     if !v.discriminating_checks.is_empty() {
-        heading(&mut s, "discriminating checks");
+        heading(s, "discriminating checks");
         for d in &v.discriminating_checks {
-            line(
-                &mut s,
-                format!(
-                    "  [#{} vs #{}, {}, favours #{}] {}",
-                    d.between[0], d.between[1], d.kind, d.favours, d.observation
-                ),
-            );
+            line(s, format!("  {}", wording::discriminating(d, "#")));
         }
     }
+}
+
+/// The library search, the analyst's conclusion, the review and the notes.
+fn case_record(s: &mut String, v: &ReportView) {
     if let Some(l) = &v.library {
-        heading(&mut s, "reference library");
+        heading(s, "reference library");
         s.push_str(&super::library::text(l));
     }
     if let Some(c) = &v.conclusion {
-        heading(&mut s, "analyst's conclusion");
-        line(&mut s, format!("  {:<14} {}", "accepted", c.accepted_text));
-        line(&mut s, format!("  {:<14} {}", "standing", c.standing));
-        field(&mut s, "comments", c.comments.as_ref());
+        heading(s, "analyst's conclusion");
+        line(s, format!("  {:<14} {}", "accepted", c.accepted_text));
+        line(s, format!("  {:<14} {}", "standing", c.standing));
+        field(s, "comments", c.comments.as_ref());
     }
     if let Some(r) = &v.review {
-        heading(&mut s, "review");
-        field(&mut s, "reviewer", r.reviewer.as_ref());
-        field(&mut s, "date", r.date.as_ref());
+        heading(s, "review");
+        field(s, "reviewer", r.reviewer.as_ref());
+        field(s, "date", r.date.as_ref());
         if let Some(verdict) = r.verdict {
-            line(&mut s, format!("  {:<14} {}", "verdict", verdict.word()));
+            line(s, format!("  {:<14} {}", "verdict", verdict.word()));
         }
-        field(&mut s, "comments", r.comments.as_ref());
+        field(s, "comments", r.comments.as_ref());
     }
     if let Some(n) = &v.notes {
-        heading(&mut s, "notes");
+        heading(s, "notes");
         for l in n.lines() {
-            line(&mut s, format!("  {l}"));
+            line(s, format!("  {l}"));
         }
     }
-    heading(&mut s, "provenance");
+}
+
+/// Where the report came from, and the cautions in full.
+fn provenance(s: &mut String, v: &ReportView) {
+    heading(s, "provenance");
     let p = &v.provenance;
+    line(s, format!("  {:<14} {}", "quiddity", p.quiddity_version));
+    line(s, format!("  {:<14} {}", "rules digest", p.rules_digest));
     line(
-        &mut s,
-        format!("  {:<14} {}", "quiddity", p.quiddity_version),
-    );
-    line(
-        &mut s,
-        format!("  {:<14} {}", "rules digest", p.rules_digest),
-    );
-    line(
-        &mut s,
+        s,
         format!("  {:<14} ±{} cm⁻¹", "tolerance", p.tolerance_cm1),
     );
     for i in &p.inputs {
         line(
-            &mut s,
+            s,
             format!("  {:<14} {}  sha256 {}", i.role, flat(&i.path), i.sha256),
         );
     }
     if let Some(t) = &p.generated_at {
-        line(&mut s, format!("  {:<14} {t}", "generated"));
+        line(s, format!("  {:<14} {t}", "generated"));
     }
-    heading(&mut s, "cautions");
+    heading(s, "cautions");
     for c in &v.cautions {
-        line(&mut s, format!("  - {c}"));
+        line(s, format!("  - {c}"));
     }
-    s
 }

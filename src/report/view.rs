@@ -3,6 +3,7 @@
 //! the engine or the case directly, so every format says the same thing.
 
 use super::plot::PlotTrace;
+use super::wording::{self, candidate_text, groups_text};
 use crate::case::{Case, Review, Sample};
 use crate::engine::{Conflict, DiscriminatingCheck, EvidenceCheck, NearMiss, Outcome, RuledOut};
 use serde::Serialize;
@@ -42,10 +43,10 @@ pub struct Provenance {
 }
 
 /// The whole report.
-#[derive(Clone, Debug, Serialize)]
+#[derive(Clone, Debug)]
 pub struct ReportView {
-    /// Identifies this JSON layout.
-    pub report_format: &'static str,
+    /// The JSON document (its own versioned view; `library` is added at render time).
+    pub json: super::json_view::JsonView,
     /// Case identifier.
     pub case: Option<String>,
     /// Case title.
@@ -65,10 +66,8 @@ pub struct ReportView {
     /// Formula-level checks (MS agreement).
     pub evidence_checks: Vec<EvidenceCheck>,
     /// A salt or hydrate formula: the organic part deduced and what else it holds.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub salt: Option<crate::engine::salt::SaltOutcome>,
     /// One compound could not explain the spectrum: the two-component reading.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub mixture: Option<crate::engine::mixture::MixtureOutcome>,
     /// Consistent combinations found in all.
     pub n_consistent: usize,
@@ -92,110 +91,25 @@ pub struct ReportView {
     pub cautions: Vec<String>,
     /// Where the report came from.
     pub provenance: Provenance,
-    /// The spectrum trace for plotting (HTML only; not part of the JSON).
-    #[serde(skip)]
+    /// The spectrum trace for plotting (HTML only).
     pub plot: Option<PlotTrace>,
     /// The reference-library search and its hits checked against the case.
-    #[serde(skip_serializing_if = "Option::is_none")]
     pub library: Option<crate::verdict::LibraryVerdict>,
     /// The unknown and its best hits for the overlay plot (HTML only).
-    #[serde(skip)]
     pub library_overlay: Option<super::plot::LibraryOverlay>,
 }
 
 impl ReportView {
     /// "N consistent combination(s)", with the listing and enumeration limits when they
-    /// applied; the one wording every renderer uses.
+    /// applied (see [`wording::count`]).
     pub fn count_sentence(&self) -> String {
-        let mut out = format!("{} consistent combination(s)", self.n_consistent);
-        if self.list_truncated {
-            out.push_str(&format!(", the first {} listed", self.candidates.len()));
-        }
-        if self.enumeration_truncated {
-            out.push_str("; the enumeration limit was reached, more may exist");
-        }
-        out
+        wording::count(
+            self.n_consistent,
+            self.candidates.len(),
+            self.list_truncated,
+            self.enumeration_truncated,
+        )
     }
-}
-
-/// The salt or hydrate section as lines, the one wording every renderer uses.
-pub fn salt_lines(salt: &crate::engine::salt::SaltOutcome) -> Vec<String> {
-    let dbe = |d: Option<f64>| d.map_or("not defined".to_owned(), |d| format!("{d}"));
-    let mut out = vec![
-        format!(
-            "organic part deduced: {}{} (DBE {}); stated formula {} (DBE {})",
-            if salt.organic_count > 1 {
-                format!("{} × ", salt.organic_count)
-            } else {
-                String::new()
-            },
-            salt.organic_formula,
-            dbe(salt.organic_dbe),
-            salt.stated_formula,
-            dbe(salt.stated_dbe)
-        ),
-        format!(
-            "read as: {}",
-            crate::engine::salt::reading_word(salt.reading)
-        ),
-    ];
-    let parts: Vec<String> = salt
-        .parts
-        .iter()
-        .map(|p| {
-            let role = match p.role {
-                "acid" => "counter-ion from the acid",
-                "metal" => "counter-ion (metal cation)",
-                "water" => "water of crystallisation",
-                _ => "other part, in the atom balance only",
-            };
-            format!("{} {}: {role}", p.count, p.formula)
-        })
-        .collect();
-    if !parts.is_empty() {
-        out.push(format!("accounted for: {}", parts.join("; ")));
-    }
-    out.extend(salt.statements.iter().cloned());
-    out.extend(salt.checks.iter().cloned());
-    out
-}
-
-/// The mixture section as lines, the one wording every renderer uses.
-pub fn mixture_lines(m: &crate::engine::mixture::MixtureOutcome) -> Vec<String> {
-    let at = |v: &[f64]| {
-        v.iter()
-            .map(|a| format!("{a:.0}"))
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
-    let mut out = vec![format!("considered because {}", m.trigger)];
-    if let Some(c) = &m.component {
-        out.push(format!(
-            "conclusion: a mixture of {} ({}) and the compound deduced below",
-            c.name, c.place
-        ));
-        out.push(match (c.factor, c.absorbance_share) {
-            (Some(f), Some(s)) => format!(
-                "fraction: {:.0} % of the integrated absorbance (reference factor {f}; a spectral share, not a mass fraction)",
-                s * 100.0
-            ),
-            _ => "fraction: not estimated (band lists only)".to_owned(),
-        });
-        out.push(format!(
-            "bands attributed to it: {}",
-            at(&c.attributed_bands)
-        ));
-        out.push(format!("residual bands deduced: {}", at(&m.residual_bands)));
-    }
-    if !m.unexplained_bands.is_empty() && m.component.is_none() {
-        out.push(format!(
-            "a second compound would have to explain: {} cm⁻¹",
-            at(&m.unexplained_bands)
-        ));
-    }
-    out.extend(m.evidence.iter().map(|e| format!("evidence: {e}")));
-    out.extend(m.tried.iter().map(|t| format!("tried: {t}")));
-    out
 }
 
 /// The analyst's conclusion in the report.
@@ -351,37 +265,10 @@ impl BandRow {
         self.cells.first().map_or("", |c| c.id.as_str())
     }
 
-    /// The kind of the leading candidate's explanation (`none` without candidates).
-    pub fn kind(&self) -> &str {
-        self.cells.first().map_or("none", |c| c.kind.word())
+    /// The kind of the leading candidate's explanation (unexplained without candidates).
+    pub fn cell_kind(&self) -> CellKind {
+        self.cells.first().map_or(CellKind::Unexplained, |c| c.kind)
     }
-}
-
-/// A candidate in words: its groups, prefixed with its formula when the formula came from
-/// the molecular ion (`C4H8O2: ester_saturated`).
-pub fn candidate_text(c: &crate::engine::Candidate) -> String {
-    match &c.formula {
-        Some(f) => format!("{f}: {}", groups_text(&c.groups)),
-        None => groups_text(&c.groups),
-    }
-}
-
-/// Group counts in words: `2 × alkene + ketone`.
-pub fn groups_text(groups: &BTreeMap<String, u32>) -> String {
-    if groups.is_empty() {
-        return "(hydrocarbon skeleton only)".into();
-    }
-    groups
-        .iter()
-        .map(|(k, v)| {
-            if *v > 1 {
-                format!("{v} × {k}")
-            } else {
-                k.clone()
-            }
-        })
-        .collect::<Vec<_>>()
-        .join(" + ")
 }
 
 /// Builds the report view.
@@ -391,117 +278,20 @@ pub fn build(
     provenance: Provenance,
     plot: Option<PlotTrace>,
 ) -> ReportView {
-    let formula_facts = case.formula.as_ref().map(|f| FormulaFacts {
-        formula: outcome
-            .formula
-            .clone()
-            .unwrap_or_else(|| f.composition.to_string()),
-        monoisotopic_mass: round(f.formula.monoisotopic_mass(), 6),
-        average_mass: round(f.formula.average_mass(), 4),
-        nominal_mass: f.formula.nominal_mass(),
-        dbe: outcome.dbe,
-    });
-    let mut ms = Vec::new();
-    if let Some(m) = &case.ms {
-        if let Some((mz, _)) = &m.molecular_ion {
-            ms.push(format!(
-                "molecular ion m/z {mz} as {} (tolerance {} ppm when accurate)",
-                m.ion.canonical(),
-                m.ppm
-            ));
-        }
-        if let Some((v, _)) = &m.m_plus_1 {
-            ms.push(format!("M+1 {v} % of M"));
-        }
-        if let Some((v, _)) = &m.m_plus_2 {
-            ms.push(format!("M+2 {v} % of M"));
-        }
-        if !m.fragments.is_empty() {
-            let list: Vec<String> = m
-                .fragments
-                .iter()
-                .map(|((mz, rel), _)| format!("{mz} ({rel})"))
-                .collect();
-            ms.push(format!(
-                "fragments m/z (relative intensity): {}",
-                list.join(", ")
-            ));
-        }
-    }
-    let (n_written, n_picked) = case.ir.as_ref().map_or((0, 0), |ir| {
-        let picked = ir
-            .bands
-            .iter()
-            .filter(|b| {
-                ir.spectrum
-                    .as_ref()
-                    .is_some_and(|s| s.origin == b.place.origin)
-            })
-            .count();
-        (ir.bands.len() - picked, picked)
-    });
-    let spectrum = case.ir.as_ref().and_then(|ir| ir.spectrum.as_ref());
-    let evidence = EvidenceSummary {
-        formula_written: case.formula.as_ref().map(|f| f.text.clone()),
-        ms,
-        ir_technique: case
-            .ir
-            .as_ref()
-            .and_then(|ir| ir.technique.map(|t| t.word().to_owned())),
-        ir_window: case.ir.as_ref().map(|ir| ir.window),
-        n_bands_written: n_written,
-        n_bands_picked: n_picked,
-        spectrum_file: spectrum.map(|s| s.written.clone()),
-        spectrum_title: spectrum.and_then(|s| s.title.clone()),
-        spectrum_notes: spectrum.map(|s| s.notes.clone()).unwrap_or_default(),
-    };
-    let candidates: Vec<CandidateView> = outcome
-        .candidates
-        .iter()
-        .map(|c| CandidateView {
-            rank: c.rank,
-            formula: c.formula.clone(),
-            groups: c.groups.clone(),
-            groups_text: candidate_text(c),
-            score: round(c.score, 4),
-            skeleton_carbons: c.skeleton_carbons,
-            dbe_accounting: c.dbe_accounting.clone(),
-            atom_accounting: c.atom_accounting.clone(),
-            supporting: c.supporting.clone(),
-            weakening: c.weakening.clone(),
-            structures: c.structures.clone(),
-        })
-        .collect();
+    let formula_facts = formula_facts(case, outcome);
+    let evidence = evidence_summary(case);
+    let candidates: Vec<CandidateView> = outcome.candidates.iter().map(candidate_view).collect();
     let band_table = band_table(case, outcome);
-    let conclusion = case.conclusion.as_ref().map(|c| {
-        let matches_rank = outcome
-            .candidates
-            .iter()
-            .find(|cand| cand.groups == c.accepted)
-            .map(|cand| cand.rank);
-        let standing = if c.accepted.is_empty() {
-            "no candidate accepted yet".to_owned()
-        } else {
-            match matches_rank {
-                Some(1) => "the accepted candidate is the leading candidate".to_owned(),
-                Some(r) => format!("the accepted candidate is consistent, ranked {r}"),
-                None if outcome.list_truncated || outcome.enumeration_truncated => {
-                    "the accepted candidate is not among the listed candidates (the list is cut)"
-                        .to_owned()
-                }
-                None => "the accepted candidate is not among the consistent candidates".to_owned(),
-            }
-        };
-        ConclusionView {
-            accepted: c.accepted.clone(),
-            accepted_text: groups_text(&c.accepted),
-            matches_rank,
-            standing,
-            comments: c.comments.clone(),
-        }
-    });
+    let conclusion = conclusion_view(case, outcome);
+    let json = super::json_view::build(
+        case,
+        outcome,
+        conclusion.clone(),
+        formula_facts.clone(),
+        provenance.clone(),
+    );
     ReportView {
-        report_format: "quiddity-report/1",
+        json,
         case: case.id.clone(),
         title: case.title.clone(),
         sample: case.sample.clone(),
@@ -530,6 +320,94 @@ pub fn build(
     }
 }
 
+/// Masses and DBE of the stated formula.
+fn formula_facts(case: &Case, outcome: &Outcome) -> Option<FormulaFacts> {
+    case.formula.as_ref().map(|f| FormulaFacts {
+        formula: outcome
+            .formula
+            .clone()
+            .unwrap_or_else(|| f.composition.to_string()),
+        monoisotopic_mass: round(f.formula.monoisotopic_mass(), 6),
+        average_mass: round(f.formula.average_mass(), 4),
+        nominal_mass: f.formula.nominal_mass(),
+        dbe: outcome.dbe,
+    })
+}
+
+/// What evidence the case holds, in words and counts.
+fn evidence_summary(case: &Case) -> EvidenceSummary {
+    let (n_written, n_picked) = case.ir.as_ref().map_or((0, 0), |ir| {
+        let picked = ir
+            .bands
+            .iter()
+            .filter(|b| {
+                ir.spectrum
+                    .as_ref()
+                    .is_some_and(|s| s.origin == b.place.origin)
+            })
+            .count();
+        (ir.bands.len() - picked, picked)
+    });
+    let spectrum = case.ir.as_ref().and_then(|ir| ir.spectrum.as_ref());
+    EvidenceSummary {
+        formula_written: case.formula.as_ref().map(|f| f.text.clone()),
+        ms: case
+            .ms
+            .as_ref()
+            .map(wording::ms_evidence)
+            .unwrap_or_default(),
+        ir_technique: case
+            .ir
+            .as_ref()
+            .and_then(|ir| ir.technique.map(|t| t.word().to_owned())),
+        ir_window: case.ir.as_ref().map(|ir| ir.window),
+        n_bands_written: n_written,
+        n_bands_picked: n_picked,
+        spectrum_file: spectrum.map(|s| s.written.clone()),
+        spectrum_title: spectrum.and_then(|s| s.title.clone()),
+        spectrum_notes: spectrum.map(|s| s.notes.clone()).unwrap_or_default(),
+    }
+}
+
+/// One candidate as the reports show it.
+fn candidate_view(c: &crate::engine::Candidate) -> CandidateView {
+    CandidateView {
+        rank: c.rank,
+        formula: c.formula.clone(),
+        groups: c.groups.clone(),
+        groups_text: candidate_text(c),
+        score: round(c.score, 4),
+        skeleton_carbons: c.skeleton_carbons,
+        dbe_accounting: c.dbe_accounting.clone(),
+        atom_accounting: c.atom_accounting.clone(),
+        supporting: c.supporting.iter().map(|r| r.text.clone()).collect(),
+        weakening: c.weakening.iter().map(|r| r.text.clone()).collect(),
+        structures: c.structures.clone(),
+    }
+}
+
+/// The analyst's conclusion and how it stands against the outcome.
+fn conclusion_view(case: &Case, outcome: &Outcome) -> Option<ConclusionView> {
+    case.conclusion.as_ref().map(|c| {
+        let matches_rank = outcome
+            .candidates
+            .iter()
+            .find(|cand| cand.groups == c.accepted)
+            .map(|cand| cand.rank);
+        ConclusionView {
+            accepted: c.accepted.clone(),
+            accepted_text: groups_text(&c.accepted),
+            matches_rank,
+            standing: wording::standing(
+                c.accepted.is_empty(),
+                matches_rank,
+                outcome.list_truncated || outcome.enumeration_truncated,
+            ),
+            comments: c.comments.clone(),
+        }
+    })
+}
+
 fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
     let leading: Vec<_> = outcome.candidates.iter().take(BAND_TABLE_COLUMNS).collect();
     let ranks = leading.iter().map(|c| c.rank).collect();
@@ -554,7 +432,7 @@ fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
                             Some(e) => BandCell {
                                 kind: CellKind::Explained(e.kind),
                                 id: e.id.clone(),
-                                rule: Some(format!("{} ({})", e.rule, e.defined_at)),
+                                rule: Some(wording::cell_rule(e)),
                             },
                             None => BandCell {
                                 kind: CellKind::Unexplained,
@@ -589,7 +467,7 @@ fn band_table(case: &Case, outcome: &Outcome) -> BandTable {
                 .filter_map(|b| {
                     b.treatment
                         .as_ref()
-                        .map(|t| format!("{:.0} cm⁻¹ ({} {}): {t}", b.at, b.strength, b.place))
+                        .map(|t| wording::treatment(b.at, &b.strength, &b.place, t))
                 })
                 .collect()
         })
