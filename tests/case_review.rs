@@ -8,6 +8,7 @@ use quiddity::cli::casefile::{load_case, record_path, LoadOptions};
 use quiddity::cli::review::review_case;
 use quiddity::engine::{solve, SolveOptions};
 use quiddity::report::record::{Difference, Record};
+use quiddity::report::view::InputRole;
 use quiddity::rules::embedded_catalogue;
 use std::path::{Path, PathBuf};
 
@@ -60,7 +61,7 @@ fn a_tampered_spectrum_is_named() {
     std::fs::write(&spectrum, text).unwrap();
     let diffs = review(&case, None);
     assert!(
-        matches!(diffs.as_slice(), [Difference::InputChanged { role, path, .. }] if role == "spectrum" && path == "spectra/aromatic-ketone-like.jdx"),
+        matches!(diffs.as_slice(), [Difference::InputChanged { role, path, .. }] if *role == InputRole::Spectrum && path == "spectra/aromatic-ketone-like.jdx"),
         "{diffs:?}"
     );
     assert!(diffs[0]
@@ -76,9 +77,9 @@ fn a_changed_case_file_and_the_conclusion_it_moves_are_both_reported() {
     std::fs::write(&case, text.replace("formula: C8H8O", "formula: C8H10O")).unwrap();
     let diffs = review(&case, None);
     assert!(
-        diffs
-            .iter()
-            .any(|d| matches!(d, Difference::InputChanged { role, .. } if role == "case")),
+        diffs.iter().any(
+            |d| matches!(d, Difference::InputChanged { role, .. } if *role == InputRole::Case)
+        ),
         "{diffs:?}"
     );
     assert!(

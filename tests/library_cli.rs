@@ -10,6 +10,7 @@ use quiddity::cli::library::{load_library, IndexState};
 use quiddity::cli::review::review_case;
 use quiddity::engine::{solve, SolveOptions};
 use quiddity::report::record::{Difference, Record};
+use quiddity::report::view::InputRole;
 use quiddity::rules::embedded_catalogue;
 use std::path::{Path, PathBuf};
 use std::process::Command;
@@ -225,7 +226,7 @@ fn review_notices_a_changed_library() {
     std::fs::remove_file(dir.path().join("reference-library/ester-e4.jdx")).unwrap();
     let diffs = review(&case);
     assert!(
-        matches!(&diffs[..], [Difference::InputChanged { role, path, .. }] if role == "library" && path == "reference-library"),
+        matches!(&diffs[..], [Difference::InputChanged { role, path, .. }] if *role == InputRole::Library && path == "reference-library"),
         "{diffs:?}"
     );
     assert!(diffs[0]

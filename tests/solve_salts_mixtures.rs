@@ -67,7 +67,7 @@ fn sodium_acetate_is_read_as_the_sodium_salt_of_acetic_acid() {
     assert!(salt
         .parts
         .iter()
-        .any(|p| p.formula == "Na+" && p.role == "metal"));
+        .any(|p| p.formula == "Na+" && p.role == quiddity::engine::salt::PartRole::Metal));
     assert_eq!(rank_of(&o, &groups(&[("carboxylate_salt", 1)])), Some(1));
     // The families roll the salt form up to the free acid's group.
     assert_eq!(o.candidates[0].families.get("carboxylic_acid"), Some(&1));
@@ -220,7 +220,10 @@ fn water_of_crystallisation_is_accounted_and_its_bands_are_seen() {
         "",
     );
     let salt = o.salt.as_ref().expect("salt");
-    assert!(salt.parts.iter().any(|p| p.role == "water" && p.count == 3));
+    assert!(salt
+        .parts
+        .iter()
+        .any(|p| p.role == quiddity::engine::salt::PartRole::Water && p.count == 3));
     assert!(
         salt.checks
             .iter()

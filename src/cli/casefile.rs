@@ -9,7 +9,7 @@ use crate::case::paths::{check_written_path, is_inside};
 use crate::case::{self, Case, ReferencedFile};
 use crate::diag::Diagnostic;
 use crate::engine::{self, Outcome, SolveOptions};
-use crate::report::view::{InputFile, QUIDDITY_VERSION};
+use crate::report::view::{InputFile, InputRole, QUIDDITY_VERSION};
 use crate::report::{self, Format, Provenance};
 use crate::rules::Catalogue;
 use crate::yaml::{locate_value, KeyPath};
@@ -106,12 +106,12 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
         return Err(diagnostics.into());
     };
     let mut inputs = vec![InputFile {
-        role: "case".to_owned(),
+        role: InputRole::Case,
         path: file_name(path),
         sha256: sha256_hex(&bytes),
     }];
     inputs.extend(files.iter().map(|f| InputFile {
-        role: "spectrum".to_owned(),
+        role: InputRole::Spectrum,
         path: f.written.clone(),
         sha256: sha256_hex(&f.bytes),
     }));
@@ -134,7 +134,7 @@ pub fn load_case(path: &Path, options: &LoadOptions) -> Result<LoadedCase, Failu
                 Failure::from(all)
             })?;
             inputs.push(InputFile {
-                role: "library".to_owned(),
+                role: InputRole::Library,
                 path: lib.written.clone(),
                 sha256: loaded.index.digest(),
             });

@@ -69,8 +69,34 @@ pub struct CounterIon {
     pub formula: String,
     /// Units per formula unit of the salt.
     pub count: u32,
-    /// `acid`, `metal`, `water` or `other` (kept in the atom balance only).
-    pub role: &'static str,
+    /// What the part is to the salt.
+    pub role: PartRole,
+}
+
+/// What an accounted part is to a salt (serialised as the lower-case word).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum PartRole {
+    /// A counter-ion from an acid (HCl, H2SO4).
+    Acid,
+    /// A metal cation read out of the organic part.
+    Metal,
+    /// Water of crystallisation.
+    Water,
+    /// Anything else, kept in the atom balance only.
+    Other,
+}
+
+impl PartRole {
+    /// The word the statements and the JSON use.
+    pub fn word(self) -> &'static str {
+        match self {
+            PartRole::Acid => "acid",
+            PartRole::Metal => "metal",
+            PartRole::Water => "water",
+            PartRole::Other => "other",
+        }
+    }
 }
 
 /// One way of reading a stated formula.
@@ -324,7 +350,7 @@ impl SortedParts {
             };
             if is_water(c) {
                 sorted.water += n;
-                sorted.parts.push(other("water"));
+                sorted.parts.push(other(PartRole::Water));
             } else if c.count("C") > 0 && sorted.organic.is_none() {
                 sorted.organic = Some(OrganicPart {
                     composition: c.clone(),
@@ -333,7 +359,7 @@ impl SortedParts {
                 });
             } else if c.count("C") > 0 {
                 sorted.extra_organic = true;
-                sorted.parts.push(other("other"));
+                sorted.parts.push(other(PartRole::Other));
             } else if is_acid(c) {
                 sorted.acids.units += n;
                 sorted.acids.protons += n * c.count("H");
@@ -346,10 +372,10 @@ impl SortedParts {
                 sorted.parts.push(CounterIon {
                     formula: written_unit,
                     count: n,
-                    role: "acid",
+                    role: PartRole::Acid,
                 });
             } else {
-                sorted.parts.push(other("other"));
+                sorted.parts.push(other(PartRole::Other));
             }
         }
         sorted
@@ -388,7 +414,7 @@ impl MetalSalt {
                 ions.push(CounterIon {
                     formula: format!("{symbol}{}", if *v == 1 { "+" } else { "2+" }),
                     count: n * m,
-                    role: "metal",
+                    role: PartRole::Metal,
                 });
                 why.push(format!(
                     "{symbol} in an organic formula is read as the cation of a salt (common practice): \
@@ -446,7 +472,7 @@ fn hydrohalide_readings(comp: &Composition) -> Vec<Reading> {
                 parts: vec![CounterIon {
                     formula: format!("H{x}"),
                     count: k,
-                    role: "acid",
+                    role: PartRole::Acid,
                 }],
                 water: 0,
                 sites: IonicSites {
@@ -600,7 +626,7 @@ fn dbe_statement(stated: &Composition, organic: &Composition, reading: &Reading)
         } else {
             String::new()
         };
-        accounted.push(format!("{times}{} ({})", p.formula, p.role));
+        accounted.push(format!("{times}{} ({})", p.formula, p.role.word()));
     }
     format!(
         "atoms: {stated} = {}{organic} + {}; DBE of the stated formula {}, of the organic part {} \

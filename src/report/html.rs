@@ -392,7 +392,7 @@ fn provenance(s: &mut String, v: &ReportView) {
         let _ = writeln!(
             s,
             "<tr><th>{}</th><td>{}<br><code>sha256 {}</code></td></tr>",
-            escape(&i.role),
+            escape(i.role.word()),
             escape(&i.path),
             escape(&i.sha256)
         );

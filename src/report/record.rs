@@ -3,7 +3,7 @@
 //! SHA-256 of every input, so that a second analyst can tell whether recomputing today
 //! gives the same answer from the same bytes — and if not, exactly what moved.
 
-use super::view::{round, InputFile, QUIDDITY_VERSION};
+use super::view::{round, InputFile, InputRole, QUIDDITY_VERSION};
 use super::wording::groups_text;
 use crate::engine::{Outcome, SolveOptions};
 use serde::{Deserialize, Serialize};
@@ -133,8 +133,8 @@ impl Record {
 pub enum Difference {
     /// An input file's bytes differ from those recorded.
     InputChanged {
-        /// `case` or `spectrum`.
-        role: String,
+        /// What the file is to the case.
+        role: InputRole,
         /// The file.
         path: String,
         /// Digest recorded.
@@ -144,12 +144,12 @@ pub enum Difference {
     },
     /// An input recorded is no longer named, or a new one is.
     InputSetChanged {
-        /// `case` or `spectrum`.
-        role: String,
+        /// What the file is to the case.
+        role: InputRole,
         /// The file.
         path: String,
-        /// `no longer named by the case` or `not in the record`.
-        what: String,
+        /// Which way the set changed.
+        what: SetChange,
     },
     /// The rules catalogue differs.
     RulesChanged {
@@ -170,6 +170,17 @@ pub enum Difference {
     },
 }
 
+/// Which way the set of inputs changed (serialised as the words of earlier versions).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub enum SetChange {
+    /// Recorded, but the case no longer names it.
+    #[serde(rename = "no longer named by the case")]
+    NoLongerNamed,
+    /// Named by the case, but not in the record.
+    #[serde(rename = "not in the record")]
+    NotInRecord,
+}
+
 impl std::fmt::Display for Difference {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         match self {
@@ -178,7 +189,7 @@ impl std::fmt::Display for Difference {
                 path,
                 recorded,
                 now,
-            } if role == "library" => write!(
+            } if *role == InputRole::Library => write!(
                 f,
                 "library {path} changed since recording: references added, removed or changed (library digest {} recorded, {} now)",
                 short(recorded),
@@ -196,6 +207,10 @@ impl std::fmt::Display for Difference {
                 short(now)
             ),
             Difference::InputSetChanged { role, path, what } => {
+                let what = match what {
+                    SetChange::NoLongerNamed => "no longer named by the case",
+                    SetChange::NotInRecord => "not in the record",
+                };
                 write!(f, "{role} file {path}: {what}")
             }
             Difference::RulesChanged { recorded, now } => write!(
@@ -302,33 +317,33 @@ fn compare_inputs(rec: &Record, now: &Record, found: &mut ReviewFindings) {
         match now
             .inputs
             .iter()
-            .find(|n| n.role == r.role && (n.path == r.path || r.role == "case"))
+            .find(|n| n.role == r.role && (n.path == r.path || r.role == InputRole::Case))
         {
             Some(n) if n.sha256 != r.sha256 => found.differences.push(Difference::InputChanged {
-                role: r.role.clone(),
+                role: r.role,
                 path: n.path.clone(),
                 recorded: r.sha256.clone(),
                 now: n.sha256.clone(),
             }),
             Some(_) => {}
             None => found.differences.push(Difference::InputSetChanged {
-                role: r.role.clone(),
+                role: r.role,
                 path: r.path.clone(),
-                what: "no longer named by the case".to_owned(),
+                what: SetChange::NoLongerNamed,
             }),
         }
     }
     for n in &now.inputs {
-        if n.role != "case"
+        if n.role != InputRole::Case
             && !rec
                 .inputs
                 .iter()
                 .any(|r| r.role == n.role && r.path == n.path)
         {
             found.differences.push(Difference::InputSetChanged {
-                role: n.role.clone(),
+                role: n.role,
                 path: n.path.clone(),
-                what: "not in the record".to_owned(),
+                what: SetChange::NotInRecord,
             });
         }
     }

@@ -15,11 +15,40 @@ pub const BAND_TABLE_COLUMNS: usize = 3;
 /// The version string reports and records carry.
 pub const QUIDDITY_VERSION: &str = env!("CARGO_PKG_VERSION");
 
+/// What an input file is to the case (serialised as the lower-case word).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, serde::Deserialize)]
+#[serde(rename_all = "lowercase")]
+pub enum InputRole {
+    /// The case file itself.
+    Case,
+    /// A spectrum file the case names.
+    Spectrum,
+    /// The reference library the case names (its digest is the index's).
+    Library,
+}
+
+impl InputRole {
+    /// The word reports and records use.
+    pub fn word(self) -> &'static str {
+        match self {
+            InputRole::Case => "case",
+            InputRole::Spectrum => "spectrum",
+            InputRole::Library => "library",
+        }
+    }
+}
+
+impl std::fmt::Display for InputRole {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.pad(self.word())
+    }
+}
+
 /// One input file and its digest.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, serde::Deserialize)]
 pub struct InputFile {
-    /// `case` or `spectrum`.
-    pub role: String,
+    /// What the file is to the case.
+    pub role: InputRole,
     /// The path: the case file as opened, a spectrum as written in the case.
     pub path: String,
     /// Lower-case hex SHA-256 of the file's bytes.

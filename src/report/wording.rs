@@ -250,11 +250,12 @@ pub fn salt_lines(salt: &crate::engine::salt::SaltOutcome) -> Vec<String> {
         .parts
         .iter()
         .map(|p| {
+            use crate::engine::salt::PartRole;
             let role = match p.role {
-                "acid" => "counter-ion from the acid",
-                "metal" => "counter-ion (metal cation)",
-                "water" => "water of crystallisation",
-                _ => "other part, in the atom balance only",
+                PartRole::Acid => "counter-ion from the acid",
+                PartRole::Metal => "counter-ion (metal cation)",
+                PartRole::Water => "water of crystallisation",
+                PartRole::Other => "other part, in the atom balance only",
             };
             format!("{} {}: {role}", p.count, p.formula)
         })

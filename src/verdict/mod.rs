@@ -303,7 +303,9 @@ fn check_groups(
     let ruled: Vec<String> = groups
         .keys()
         .filter_map(|id| outcome.ruled_out.iter().find(|r| r.group == *id))
-        .filter(|r| formula_agrees != Some(false) || !r.reason.starts_with("composition"))
+        .filter(|r| {
+            formula_agrees != Some(false) || r.kind != crate::engine::RuleOutKind::Composition
+        })
         .map(|r| format!("{} ({})", r.group, r.reason))
         .collect();
     if !ruled.is_empty() {
