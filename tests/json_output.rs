@@ -198,6 +198,7 @@ fn catalogue_place(c: &Catalogue, kind: &str, id: &str, index: Option<usize>) ->
         "group" => group().map(|g| g.defined_at.clone()),
         "group_band" => group()?.bands.get(index?).map(|b| b.defined_at.clone()),
         "group_ms" => group()?.ms.get(index?).map(|m| m.defined_at.clone()),
+        "group_check" => group()?.checks.get(index?).map(|k| k.defined_at.clone()),
         "skeleton" => c
             .skeleton
             .iter()
@@ -224,7 +225,7 @@ fn check_rule(r: &Value, path: &str, c: &Catalogue, out: &mut Resolved) {
     let index = r["index"].as_u64().map(|i| i as usize);
     *out.rules.entry(kind.to_owned()).or_default() += 1;
     if kind == "built_in" {
-        if id != quiddity::engine::explain::BRANCH_RULE_ID || !r["file"].is_null() {
+        if !quiddity::engine::BUILT_IN_RULES.contains(&id) || !r["file"].is_null() {
             out.problems
                 .push(format!("{path}: unknown built-in rule {r}"));
         }
@@ -284,7 +285,7 @@ fn walk(v: &Value, path: &str, doc: &Value, c: &Catalogue, out: &mut Resolved) {
             if m.contains_key("text") && m.contains_key("rule") && m.contains_key("case") {
                 let kind = m["kind"].as_str().unwrap_or("?");
                 *out.reasons.entry(kind.to_owned()).or_default() += 1;
-                let ruleless = ["unexplained", "relation", "bonds"].contains(&kind);
+                let ruleless = kind == "unexplained";
                 if m["rule"].is_null() != ruleless {
                     out.problems
                         .push(format!("{path}: a {kind} reason with rule {}", m["rule"]));
@@ -294,6 +295,7 @@ fn walk(v: &Value, path: &str, doc: &Value, c: &Catalogue, out: &mut Resolved) {
                     "band_seen" | "unexplained" => &["band", "residual_band"],
                     "ms_clue_seen" => &["fragment"],
                     "allowed_absent" | "support_missing" | "missing_band" => &["band_list"],
+                    "bonds" => &["formula", "molecular_ion"],
                     _ => &[],
                 };
                 let points = m["case"]
@@ -449,12 +451,20 @@ fn every_reference_resolves_to_a_catalogue_rule_and_a_place_in_the_case() {
     }
     // Not vacuous: the demo cases exercise each kind of reference many times.
     assert!(docs.len() >= 18, "{} demo cases", docs.len());
-    for kind in ["group", "group_band", "group_ms", "skeleton", "artefact"] {
+    for kind in [
+        "group",
+        "group_band",
+        "group_ms",
+        "group_check",
+        "skeleton",
+        "artefact",
+    ] {
         assert!(
             rules.get(kind).copied().unwrap_or(0) >= 3,
             "rule references of kind {kind}: {rules:?}"
         );
     }
+    assert!(rules.get("built_in").is_some(), "{rules:?}");
     assert!(rules.values().sum::<usize>() >= 500, "{rules:?}");
     for kind in ["formula", "band", "band_list", "molecular_ion", "fragment"] {
         assert!(
@@ -463,12 +473,19 @@ fn every_reference_resolves_to_a_catalogue_rule_and_a_place_in_the_case() {
         );
     }
     assert!(cases.values().sum::<usize>() >= 500, "{cases:?}");
-    for kind in ["band_seen", "ms_clue_seen", "unexplained", "missing_band"] {
+    for kind in [
+        "band_seen",
+        "ms_clue_seen",
+        "unexplained",
+        "missing_band",
+        "relation",
+    ] {
         assert!(
             reasons.get(kind).copied().unwrap_or(0) >= 3,
             "reasons of kind {kind}: {reasons:?}"
         );
     }
+    assert!(reasons.get("bonds").is_some(), "{reasons:?}");
 }
 
 #[test]

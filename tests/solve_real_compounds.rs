@@ -915,7 +915,7 @@ fn the_engine_keeps_the_true_group_set_of_real_compounds() {
             None => lost.push(format!(
                 "{name} {formula}: truth {truth:?} not among {} candidates; near misses with it: {:?}",
                 outcome.n_consistent,
-                outcome.near_misses.iter().filter(|n| n.groups == truth).map(|n| n.lacked.clone()).collect::<Vec<_>>()
+                outcome.near_misses.iter().filter(|n| n.groups == truth).map(|n| quiddity::report::wording::near_miss(&n.groups, &n.reasons)).collect::<Vec<_>>()
             )),
         }
     }

@@ -194,7 +194,10 @@ pub fn render_text(o: &Outcome) -> String {
     if !o.near_misses.is_empty() {
         s.push_str("\nnear misses\n");
         for n in o.near_misses.iter().take(5) {
-            s.push_str(&format!("  {}\n", wording::near_miss(&n.groups, &n.lacked)));
+            s.push_str(&format!(
+                "  {}\n",
+                wording::near_miss(&n.groups, &n.reasons)
+            ));
         }
     }
     if !o.discriminating_checks.is_empty() {

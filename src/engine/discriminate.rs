@@ -4,9 +4,7 @@
 //! catalogue's `checks:` of the group and its parents).
 
 use super::model::Problem;
-use super::outcome::CheckKind;
-use super::outcome::DiscriminatingCheck;
-use crate::rules::MsClueKind;
+use super::outcome::{CheckBasis, CheckKind, DiscriminatingCheck, RuleCite, RuleKind};
 
 /// Checks separating the best candidate from each of the next ones (at most `limit`).
 pub fn checks(
@@ -21,6 +19,15 @@ pub fn checks(
     for (k, (other, _)) in ranked.iter().enumerate().skip(1).take(4) {
         let rank_other = k + 1;
         for (a, a_rank, b, b_rank) in [(top, 1, other, rank_other), (other, rank_other, top, 1)] {
+            let check = |kind, group: &str, basis, rule| DiscriminatingCheck {
+                between: [a_rank.min(b_rank), a_rank.max(b_rank)],
+                favours: a_rank,
+                against: b_rank,
+                kind,
+                group: group.to_owned(),
+                basis,
+                rule,
+            };
             for (gi, g) in problem.groups.iter().enumerate() {
                 if a[gi] == 0 || b[gi] > 0 {
                     continue;
@@ -45,31 +52,38 @@ pub fn checks(
                             })
                     });
                     if !b_has {
-                        out.push(DiscriminatingCheck {
-                            between: [a_rank.min(b_rank), a_rank.max(b_rank)],
-                            observation: format!(
-                                "IR: {} at {:.0}–{:.0} cm⁻¹ expected for {} (rank {a_rank}), not for rank {b_rank}",
-                                rule.label, rule.range.lo, rule.range.hi, g.group.id
+                        out.push(check(
+                            CheckKind::Ir,
+                            &g.group.id,
+                            CheckBasis::Band {
+                                label: rule.label.clone(),
+                                lo: rule.range.lo,
+                                hi: rule.range.hi,
+                            },
+                            RuleCite::catalogue(
+                                RuleKind::GroupBand,
+                                &g.group.id,
+                                Some(ri),
+                                &rule.defined_at,
                             ),
-                            favours: a_rank,
-                            kind: CheckKind::Ir,
-                        });
+                        ));
                     }
                 }
-                for clue in &g.group.ms {
-                    let what = match clue.kind {
-                        MsClueKind::Ion { mz } => format!("m/z {mz}"),
-                        MsClueKind::Loss { mass } => format!("loss of {mass} u from M"),
-                    };
-                    out.push(DiscriminatingCheck {
-                        between: [a_rank.min(b_rank), a_rank.max(b_rank)],
-                        observation: format!(
-                            "MS: {what} ({}) supports {} (rank {a_rank})",
-                            clue.label, g.group.id
+                for (ci, clue) in g.group.ms.iter().enumerate() {
+                    out.push(check(
+                        CheckKind::Ms,
+                        &g.group.id,
+                        CheckBasis::Ms {
+                            label: clue.label.clone(),
+                            clue: clue.kind.clone(),
+                        },
+                        RuleCite::catalogue(
+                            RuleKind::GroupMs,
+                            &g.group.id,
+                            Some(ci),
+                            &clue.defined_at,
                         ),
-                        favours: a_rank,
-                        kind: CheckKind::Ms,
-                    });
+                    ));
                 }
                 // Wet tests and NMR regions of the catalogue: those of g's own family
                 // line, where b holds nothing of that family.
@@ -80,26 +94,48 @@ pub fn checks(
                     let Some(family_group) = problem.catalogue.group(family) else {
                         continue;
                     };
-                    for check in &family_group.checks {
-                        out.push(DiscriminatingCheck {
-                            between: [a_rank.min(b_rank), a_rank.max(b_rank)],
-                            observation: format!(
-                                "{} — expected for rank {a_rank}, not rank {b_rank}",
-                                check.text
-                            ),
-                            favours: a_rank,
-                            kind: match check.kind {
-                                crate::rules::CheckKind::WetTest => CheckKind::WetTest,
-                                crate::rules::CheckKind::Nmr => CheckKind::Nmr,
+                    for (ci, c) in family_group.checks.iter().enumerate() {
+                        let kind = match c.kind {
+                            crate::rules::CheckKind::WetTest => CheckKind::WetTest,
+                            crate::rules::CheckKind::Nmr => CheckKind::Nmr,
+                        };
+                        out.push(check(
+                            kind,
+                            &family_group.id,
+                            CheckBasis::Catalogue {
+                                text: c.text.clone(),
                             },
-                        });
+                            RuleCite::catalogue(
+                                RuleKind::GroupCheck,
+                                &family_group.id,
+                                Some(ci),
+                                &c.defined_at,
+                            ),
+                        ));
                     }
                 }
             }
         }
     }
-    let mut seen = std::collections::BTreeSet::new();
-    out.retain(|c| seen.insert(c.observation.clone()));
-    out.truncate(limit);
-    out
+    let mut kept: Vec<DiscriminatingCheck> = Vec::new();
+    for c in out {
+        if !kept.iter().any(|k| says_the_same(k, &c)) {
+            kept.push(c);
+        }
+    }
+    kept.truncate(limit);
+    kept
+}
+
+/// True when two checks ask for the same observation in the same words: an MS clue
+/// supports its group whichever rank it is compared with, so it is listed once.
+fn says_the_same(a: &DiscriminatingCheck, b: &DiscriminatingCheck) -> bool {
+    let ranks = a.favours == b.favours && a.against == b.against;
+    match (&a.basis, &b.basis) {
+        (CheckBasis::Ms { .. }, CheckBasis::Ms { .. }) => {
+            a.favours == b.favours && a.group == b.group && a.basis == b.basis
+        }
+        (CheckBasis::Catalogue { text: x }, CheckBasis::Catalogue { text: y }) => ranks && x == y,
+        _ => ranks && a.group == b.group && a.basis == b.basis,
+    }
 }

@@ -5,6 +5,7 @@
 
 use super::constraints::{band_explanation, bonds, ionic, relations};
 use super::model::Problem;
+use super::outcome::{BondFailure, RelationFailure};
 
 /// One reason a combination fails.
 #[derive(Clone, Debug, PartialEq)]
@@ -17,11 +18,11 @@ pub enum Failure {
         rules: Vec<usize>,
     },
     /// A relation is violated.
-    Relation(String),
+    Relation(RelationFailure),
     /// An active band (index) is unexplained.
     Unexplained(usize),
     /// The bond conditions fail.
-    Bonds(String),
+    Bonds(BondFailure),
 }
 
 /// Checks a combination; with `all` false, stops at the first failure.
@@ -61,28 +62,4 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
         out.push(Failure::Bonds(reason));
     }
     out
-}
-
-/// Words for a failure.
-pub fn describe(problem: &Problem<'_>, failure: &Failure) -> String {
-    match failure {
-        Failure::MissingBand { group, rules } => {
-            let g = problem.groups[*group].group;
-            let rule = &g.bands[rules[0]];
-            format!(
-                "{}: {}",
-                g.id,
-                super::constraints::diagnostic_bands::describe_missing(
-                    rule,
-                    problem.technique,
-                    problem.tolerance
-                )
-            )
-        }
-        Failure::Relation(r) => r.clone(),
-        Failure::Unexplained(b) => {
-            band_explanation::describe_unexplained(&problem.bands[*b].1.band)
-        }
-        Failure::Bonds(r) => format!("bonds: {r}"),
-    }
 }

@@ -3,7 +3,7 @@
 //! evidence, families whose every member is excluded, near misses).
 
 use super::constraints::{band_explanation, composition, dbe, diagnostic_bands, ms};
-use super::evaluate::{describe, Failure};
+use super::evaluate::Failure;
 use super::model::Problem;
 use super::outcome::*;
 use crate::case::MsEvidence;
@@ -60,6 +60,7 @@ pub fn candidate(
         weakening.push(Reason {
             kind: ReasonKind::Unexplained,
             text: format!("{} band at {:.0} cm⁻¹ unexplained", b.strength, b.at),
+            detail: None,
             rule: None,
             case: vec![CaseRef::Band {
                 index: b.band_index,
@@ -289,6 +290,7 @@ fn group_band_evidence(
                 ob.band.strength,
                 at(&rule.defined_at)
             ),
+            detail: None,
             rule: cite(m.rule_idx),
             case: vec![CaseRef::Band { index: case_index }],
         });
@@ -297,6 +299,7 @@ fn group_band_evidence(
     let not_seen = |kind, r: usize, text| Reason {
         kind,
         text,
+        detail: None,
         rule: cite(r),
         case: vec![CaseRef::BandList],
     };
@@ -366,6 +369,7 @@ fn ms_clue_evidence(
             Reason {
                 kind: ReasonKind::MsClueSeen,
                 text: format!("{}: MS {text}", group.id),
+                detail: None,
                 rule: Some(RuleCite::catalogue(
                     RuleKind::GroupMs,
                     &group.id,
@@ -527,55 +531,81 @@ fn missing_band(
     }
 }
 
-/// Words for the failures of a near miss.
+/// The failures of a near miss, typed.
 pub fn near_miss(problem: &Problem<'_>, counts: &[u32], failures: &[Failure]) -> NearMiss {
-    let reasons: Vec<Reason> = failures
-        .iter()
-        .map(|f| failure_reason(problem, f))
-        .collect();
     NearMiss {
         groups: group_map(problem, counts),
-        lacked: reasons.iter().map(|r| r.text.clone()).collect(),
-        reasons,
+        reasons: failures
+            .iter()
+            .map(|f| failure_reason(problem, f))
+            .collect(),
     }
 }
 
-/// One failure of a near miss, typed: its words, the rule and the place in the case.
+/// A built-in rule of the engine.
+fn built_in(id: &str) -> RuleCite {
+    RuleCite {
+        kind: RuleKind::BuiltIn,
+        id: id.to_owned(),
+        index: None,
+        file: None,
+        line: None,
+    }
+}
+
+/// One failure of a near miss, typed: its words (or typed statement), the rule and the
+/// place in the case.
 fn failure_reason(problem: &Problem<'_>, failure: &Failure) -> Reason {
-    let text = describe(problem, failure);
     match failure {
         Failure::MissingBand { group, rules } => {
             let g = problem.groups[*group].group;
+            let rule = &g.bands[rules[0]];
+            let missing =
+                diagnostic_bands::describe_missing(rule, problem.technique, problem.tolerance);
             Reason {
                 kind: ReasonKind::MissingBand,
-                text,
+                text: format!("{}: {missing}", g.id),
+                detail: None,
                 rule: Some(RuleCite::catalogue(
                     RuleKind::GroupBand,
                     &g.id,
                     Some(rules[0]),
-                    &g.bands[rules[0]].defined_at,
+                    &rule.defined_at,
                 )),
                 case: vec![CaseRef::BandList],
             }
         }
-        Failure::Relation(_) => Reason {
-            kind: ReasonKind::Relation,
-            text,
-            rule: None,
-            case: Vec::new(),
-        },
+        Failure::Relation(r) => {
+            let rule = match r {
+                RelationFailure::Excludes { group, .. }
+                | RelationFailure::RequiresAny { group, .. } => problem
+                    .catalogue
+                    .group(group)
+                    .map(|g| RuleCite::catalogue(RuleKind::Group, &g.id, None, &g.defined_at)),
+                RelationFailure::SaltSites { .. } => Some(built_in(SALT_SITES_RULE_ID)),
+            };
+            Reason {
+                kind: ReasonKind::Relation,
+                text: String::new(),
+                detail: Some(ReasonDetail::Relation(r.clone())),
+                rule,
+                case: Vec::new(),
+            }
+        }
         Failure::Unexplained(b) => Reason {
             kind: ReasonKind::Unexplained,
-            text,
+            text: band_explanation::describe_unexplained(&problem.bands[*b].1.band),
+            detail: None,
             rule: None,
             case: vec![CaseRef::Band {
                 index: problem.bands[*b].0,
             }],
         },
-        Failure::Bonds(_) => Reason {
+        Failure::Bonds(b) => Reason {
             kind: ReasonKind::Bonds,
-            text,
-            rule: None,
+            text: String::new(),
+            detail: Some(ReasonDetail::Bonds(b.clone())),
+            rule: Some(built_in(BOND_CONDITIONS_RULE_ID)),
             case: vec![CaseRef::Formula],
         },
     }

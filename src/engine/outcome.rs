@@ -327,10 +327,138 @@ pub struct RuledOut {
 pub struct NearMiss {
     /// Concrete group counts.
     pub groups: BTreeMap<String, u32>,
-    /// What it lacked.
-    pub lacked: Vec<String>,
-    /// The same, typed (`reasons[i].text == lacked[i]`).
+    /// What it lacked, typed (its sentences: `report::wording::reason`).
     pub reasons: Vec<Reason>,
+}
+
+/// The rules of the engine itself that a `RuleKind::BuiltIn` reference may name.
+pub const BUILT_IN_RULES: &[&str] = &[
+    super::explain::BRANCH_RULE_ID,
+    SALT_SITES_RULE_ID,
+    BOND_CONDITIONS_RULE_ID,
+];
+
+/// The built-in rule that a salt's organic part holds one salt-form group per
+/// counter-ion (docs/salts-mixtures.md).
+pub const SALT_SITES_RULE_ID: &str = "salt_sites";
+
+/// The built-in rule that the groups and skeleton carbons join into one molecule with
+/// the formula's hydrogens (docs/engine.md, `engine::constraints::bonds`).
+pub const BOND_CONDITIONS_RULE_ID: &str = "bond_conditions";
+
+/// A relation between groups that does not hold.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum RelationFailure {
+    /// Two groups that exclude each other are both held (`group`'s `excludes`).
+    Excludes {
+        /// The group whose rule says so.
+        group: String,
+        /// The group it excludes.
+        other: String,
+    },
+    /// A group is held without any of the groups it requires (`requires_any`).
+    RequiresAny {
+        /// The group whose rule says so.
+        group: String,
+        /// The groups of which one is required.
+        any_of: Vec<String>,
+    },
+    /// The salt-form groups of one side do not pair with the counter-ions.
+    SaltSites {
+        /// The side (cation: ammonium with acid anions; anion: carboxylate with metals).
+        side: crate::rules::Ionic,
+        /// Fewest groups of that side the counter-ions allow.
+        fewest: u32,
+        /// Most groups of that side the counter-ions allow.
+        most: u32,
+        /// Groups of that side the combination holds.
+        held: u32,
+    },
+}
+
+/// Which bond condition (`engine::constraints::bonds`) a combination fails.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum BondFailure {
+    /// A plain ring needs three atoms that bond twice.
+    RingAtoms {
+        /// Atoms that bond twice.
+        have: u64,
+    },
+    /// The groups hold more H than the formula.
+    GroupHydrogens {
+        /// H the groups hold.
+        held: u64,
+        /// H of the formula.
+        formula: u64,
+    },
+    /// More free H than open positions that may carry H.
+    OpenPositions {
+        /// H left for open positions.
+        free: u64,
+        /// Positions that may carry H.
+        positions: u64,
+    },
+    /// The hydrogen count leaves an odd number of bond ends.
+    OddEnds,
+    /// No atoms besides hydrogen.
+    NoHeavyAtoms,
+    /// Too few bonds to join the parts into one molecule.
+    TooFewBonds {
+        /// Parts (group instances and skeleton carbons).
+        parts: u64,
+        /// Bonds the hydrogen count leaves.
+        bonds: u64,
+    },
+    /// More bonds than single atoms can take without multiple bonds outside the groups.
+    TooManyBonds {
+        /// Parts.
+        parts: u64,
+        /// Bonds the hydrogen count leaves.
+        bonds: u64,
+    },
+    /// The open ends cannot be paired (heteroatoms bond only to carbon between groups).
+    Unpaired {
+        /// Heteroatom-borne ends.
+        hetero: u64,
+        /// Carbon-borne ends.
+        carbon: u64,
+        /// Bonds between parts.
+        bonds: u64,
+    },
+    /// A band needs sp3 C–H and there is no saturated carbon.
+    NoSaturatedCarbon,
+    /// A band needs an sp2 C–H and no sp2 carbon can carry H.
+    NoSp2Hydrogen,
+    /// A group needs more distinct atoms outside it than the candidate has.
+    DistinctAtoms {
+        /// The group.
+        group: String,
+        /// Bonds to distinct atoms it needs.
+        need: u64,
+        /// Atoms outside it.
+        outside: u64,
+    },
+    /// A group needs more distinct carbons for its heteroatom bonds than are offered.
+    DistinctCarbons {
+        /// The group.
+        group: String,
+        /// Carbons it needs.
+        need: u64,
+        /// Carbons offered.
+        offered: u64,
+    },
+}
+
+/// A statement whose sentence the report makes from its typed fields.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ReasonDetail {
+    /// A relation that does not hold.
+    Relation(RelationFailure),
+    /// A bond condition that fails.
+    Bonds(BondFailure),
 }
 
 /// A minimal set of evidence items that cannot hold together.
@@ -351,17 +479,53 @@ pub struct Conflict {
     pub search_limits: Vec<String>,
 }
 
-/// An observation that would separate two candidates.
-#[derive(Clone, Debug, Serialize)]
+/// An observation that would separate two candidates (its sentence:
+/// `report::wording::observation`).
+#[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct DiscriminatingCheck {
     /// Ranks compared.
     pub between: [usize; 2],
-    /// What to look for.
-    pub observation: String,
     /// Rank whose group predicts it.
     pub favours: usize,
+    /// The other rank, which does not predict it.
+    pub against: usize,
     /// Kind of observation.
     pub kind: CheckKind,
+    /// The group (or family) of the favoured rank that predicts it.
+    pub group: String,
+    /// What to look for, typed.
+    pub basis: CheckBasis,
+    /// The catalogue entry that predicts it: a band rule, an MS clue or a check of the
+    /// group.
+    pub rule: RuleCite,
+}
+
+/// What a discriminating check looks for.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum CheckBasis {
+    /// A supporting band of the group not yet seen, which the other candidate cannot
+    /// explain.
+    Band {
+        /// The band rule's label.
+        label: String,
+        /// Low end of its range, cm⁻¹.
+        lo: f64,
+        /// High end of its range, cm⁻¹.
+        hi: f64,
+    },
+    /// An MS clue of the group.
+    Ms {
+        /// The clue's label.
+        label: String,
+        /// The ion or loss.
+        clue: crate::rules::MsClueKind,
+    },
+    /// A wet test or NMR region of the group's family line, in the catalogue's words.
+    Catalogue {
+        /// The catalogue's text of the check.
+        text: String,
+    },
 }
 
 /// A formula-level check (MS agreement).
@@ -391,7 +555,10 @@ pub enum RuleKind {
     Pattern,
     /// A sample or instrument artefact (water of crystallisation included).
     Artefact,
-    /// A rule of the engine itself, not of the catalogue (the vapour rotational branch).
+    /// One wet test or NMR check of a group (`index` into the group's checks).
+    GroupCheck,
+    /// A rule of the engine itself, not of the catalogue (the vapour rotational branch,
+    /// the salt sites, the bond conditions: [`BUILT_IN_RULES`]).
     BuiltIn,
 }
 
@@ -402,7 +569,7 @@ pub struct RuleCite {
     pub kind: RuleKind,
     /// Group, skeleton, pattern or artefact id.
     pub id: String,
-    /// Index of the band rule or MS clue within the group, for those kinds.
+    /// Index of the band rule, MS clue or check within the group, for those kinds.
     pub index: Option<usize>,
     /// Catalogue file (relative to the catalogue root); none for a built-in rule.
     pub file: Option<String>,
@@ -484,10 +651,12 @@ pub enum ReasonKind {
 pub struct Reason {
     /// What it says, by kind.
     pub kind: ReasonKind,
-    /// The sentence.
+    /// The engine's sentence; empty when `detail` carries the statement (every
+    /// renderer words a reason through `report::wording::reason`).
     pub text: String,
-    /// The catalogue rule it rests on (none for an unexplained band, a relation or the
-    /// bond conditions: no single rule).
+    /// The statement, typed, for the kinds the report words (relations, bonds).
+    pub detail: Option<ReasonDetail>,
+    /// The catalogue rule it rests on (none for an unexplained band: no single rule).
     pub rule: Option<RuleCite>,
     /// The places in the case.
     pub case: Vec<CaseRef>,

@@ -92,7 +92,7 @@ fn c4h10o_with_a_broad_3350_band_is_an_alcohol_not_an_ether() {
     assert!(
         o.near_misses
             .iter()
-            .any(|n| n.groups.contains_key("ether") && n.lacked[0].contains("3350")),
+            .any(|n| n.groups.contains_key("ether") && n.reasons[0].text.contains("3350")),
         "{:?}",
         o.near_misses
     );

@@ -315,7 +315,7 @@ fn verdicts(s: &mut String, v: &ReportView) {
             let _ = writeln!(
                 s,
                 "<li>{}</li>",
-                escape(&wording::near_miss(&n.groups, &n.lacked))
+                escape(&wording::near_miss(&n.groups, &n.reasons))
             );
         }
         s.push_str("</ul>\n");

@@ -26,7 +26,7 @@ pub const SCHEMA: &str = "quiddity-solve";
 /// Bump it when a field is removed, renamed or changes type or meaning; adding an
 /// optional field (or a new value of an enumerated word that readers are told to expect)
 /// does not bump it. docs/json-output.md keeps the history.
-pub const SCHEMA_VERSION: u32 = 1;
+pub const SCHEMA_VERSION: u32 = 2;
 
 /// The whole document.
 #[derive(Clone, Debug, Serialize)]
@@ -373,6 +373,8 @@ pub struct DiscriminatingCheckJson {
     pub favours: usize,
     /// Kind of observation.
     pub kind: CheckKind,
+    /// The catalogue entry that predicts it.
+    pub rule: RuleCite,
 }
 
 /// What a caution asks, by kind.
@@ -452,7 +454,7 @@ impl Placer {
         list.iter()
             .map(|r| ReasonJson {
                 kind: r.kind,
-                text: r.text.clone(),
+                text: super::wording::reason(r),
                 rule: r.rule.clone(),
                 case: self.places(&r.case),
             })
@@ -650,7 +652,8 @@ fn verdicts(outcome: &Outcome, placer: &Placer) -> Verdicts {
             .iter()
             .map(|d| DiscriminatingCheckJson {
                 between: d.between,
-                observation: d.observation.clone(),
+                observation: super::wording::observation(d),
+                rule: d.rule.clone(),
                 favours: d.favours,
                 kind: d.kind,
             })

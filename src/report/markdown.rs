@@ -249,7 +249,7 @@ fn verdicts(s: &mut String, v: &ReportView) {
         for n in &v.near_misses {
             push(format!(
                 "- {}",
-                md(&wording::near_miss(&n.groups, &n.lacked))
+                md(&wording::near_miss(&n.groups, &n.reasons))
             ));
         }
     }

@@ -252,7 +252,10 @@ fn verdicts(s: &mut String, v: &ReportView) {
     if !v.near_misses.is_empty() {
         heading(s, "near misses");
         for n in &v.near_misses {
-            line(s, format!("  {}", wording::near_miss(&n.groups, &n.lacked)));
+            line(
+                s,
+                format!("  {}", wording::near_miss(&n.groups, &n.reasons)),
+            );
         }
     }
     if !v.conflicts.is_empty() {

@@ -3,7 +3,11 @@
 //! functions, so they say the same thing. Renderers add layout, alignment and escaping
 //! only; they never compose a sentence of their own nor branch on one.
 
-use crate::engine::{DiscriminatingCheck, EvidenceCheck, Explanation};
+use crate::engine::{
+    BondFailure, CheckBasis, DiscriminatingCheck, EvidenceCheck, Explanation, Reason, ReasonDetail,
+    RelationFailure,
+};
+use crate::rules::{Ionic, MsClueKind};
 use std::collections::BTreeMap;
 
 /// The first line of a conflict section.
@@ -105,8 +109,102 @@ pub fn weakening(text: &str) -> String {
 }
 
 /// A near miss: its groups and what it lacked.
-pub fn near_miss(groups: &BTreeMap<String, u32>, lacked: &[String]) -> String {
+pub fn near_miss(groups: &BTreeMap<String, u32>, lacked: &[Reason]) -> String {
+    let lacked: Vec<String> = lacked.iter().map(reason).collect();
     format!("{}: {}", groups_text(groups), lacked.join("; "))
+}
+
+/// A reason in words: the engine's sentence, or the sentence of its typed statement.
+pub fn reason(r: &Reason) -> String {
+    match &r.detail {
+        Some(ReasonDetail::Relation(f)) => relation(f),
+        Some(ReasonDetail::Bonds(f)) => bonds(f),
+        None => r.text.clone(),
+    }
+}
+
+/// A relation between groups that does not hold.
+pub fn relation(f: &RelationFailure) -> String {
+    match f {
+        RelationFailure::Excludes { group, other } => {
+            format!("{group} and {other} exclude each other")
+        }
+        RelationFailure::RequiresAny { group, any_of } => {
+            format!("{group} requires one of: {}", any_of.join(", "))
+        }
+        RelationFailure::SaltSites {
+            side,
+            fewest,
+            most,
+            held,
+        } => {
+            let want = if fewest == most {
+                format!("{fewest}")
+            } else {
+                format!("{fewest} to {most}")
+            };
+            let partner = match side {
+                Ionic::Cation => "acid counter-ions pair",
+                Ionic::Anion => "metal counter-ions pair",
+            };
+            format!(
+                "the {partner} {want} {} group(s), the combination holds {held}",
+                side.word()
+            )
+        }
+    }
+}
+
+/// A bond condition that fails, `bonds: …`.
+pub fn bonds(f: &BondFailure) -> String {
+    let why = match f {
+        BondFailure::RingAtoms { have } => format!(
+            "a ring needs at least three atoms that bond twice; the candidate has {have}"
+        ),
+        BondFailure::GroupHydrogens { held, formula } => {
+            format!("the groups hold {held} H but the formula has {formula}")
+        }
+        BondFailure::OpenPositions { free, positions } => format!(
+            "{free} H must sit on open positions but only {positions} positions may carry H"
+        ),
+        BondFailure::OddEnds => "the hydrogen count leaves an odd number of bond ends".to_owned(),
+        BondFailure::NoHeavyAtoms => "no atoms besides hydrogen".to_owned(),
+        BondFailure::TooFewBonds { parts, bonds } => format!(
+            "{parts} parts need at least {} bonds to form one molecule, the hydrogen count leaves {bonds}",
+            parts.saturating_sub(1)
+        ),
+        BondFailure::TooManyBonds { parts, bonds } => format!(
+            "{bonds} bonds between {parts} parts would need multiple bonds outside the groups"
+        ),
+        BondFailure::Unpaired {
+            hetero,
+            carbon,
+            bonds,
+        } => format!(
+            "the open bonds cannot be paired: {hetero} heteroatom-borne and {carbon} carbon-borne ends for {bonds} bonds (heteroatoms bond only to carbon between groups)"
+        ),
+        BondFailure::NoSaturatedCarbon => {
+            "a band needs sp3 C–H but the candidate has no saturated carbon".to_owned()
+        }
+        BondFailure::NoSp2Hydrogen => {
+            "a band needs an sp2 C–H but no sp2 carbon of the candidate can carry H".to_owned()
+        }
+        BondFailure::DistinctAtoms {
+            group,
+            need,
+            outside,
+        } => format!(
+            "{group} needs {need} bonds to distinct atoms outside it, the candidate has {outside}"
+        ),
+        BondFailure::DistinctCarbons {
+            group,
+            need,
+            offered,
+        } => format!(
+            "{group} needs {need} distinct carbons to bond its heteroatom to, the candidate offers {offered}"
+        ),
+    };
+    format!("bonds: {why}")
 }
 
 /// Why the items of a conflict cannot hold together.
@@ -143,8 +241,28 @@ pub fn discriminating(d: &DiscriminatingCheck, hash: &str) -> String {
         d.between[1],
         d.kind.word(),
         d.favours,
-        d.observation
+        observation(d)
     )
+}
+
+/// What a discriminating check asks to look for.
+pub fn observation(d: &DiscriminatingCheck) -> String {
+    let (a, b, group) = (d.favours, d.against, &d.group);
+    match &d.basis {
+        CheckBasis::Band { label, lo, hi } => format!(
+            "IR: {label} at {lo:.0}–{hi:.0} cm⁻¹ expected for {group} (rank {a}), not for rank {b}"
+        ),
+        CheckBasis::Ms { label, clue } => {
+            let what = match clue {
+                MsClueKind::Ion { mz } => format!("m/z {mz}"),
+                MsClueKind::Loss { mass } => format!("loss of {mass} u from M"),
+            };
+            format!("MS: {what} ({label}) supports {group} (rank {a})")
+        }
+        CheckBasis::Catalogue { text } => {
+            format!("{text} — expected for rank {a}, not rank {b}")
+        }
+    }
 }
 
 /// The label of the cautions line.

@@ -24,17 +24,19 @@
 //!    an open position of an sp2 group).
 
 use super::super::model::Problem;
+use super::super::outcome::BondFailure;
 use super::band_explanation::HydrogenNeeds;
 use crate::chem::composition::{standard_valence, Composition};
 
-/// Checks the bond conditions; `Err` carries the reason in words.
+/// Checks the bond conditions; `Err` carries the condition that fails (worded by
+/// `report::wording::bonds`).
 pub fn check(
     problem: &Problem<'_>,
     counts: &[u32],
     present: &[usize],
     skeleton_c: u32,
     needs: &HydrogenNeeds,
-) -> Result<(), String> {
+) -> Result<(), BondFailure> {
     let tally = Tally::of(problem, counts, present, skeleton_c);
     check_plain_rings(problem, counts, present, skeleton_c)?;
     let bonds = BondCount::from_hydrogens(problem, &tally)?;
@@ -142,7 +144,7 @@ fn check_plain_rings(
     counts: &[u32],
     present: &[usize],
     skeleton_c: u32,
-) -> Result<(), String> {
+) -> Result<(), BondFailure> {
     let plain_rings: u32 = present
         .iter()
         .filter(|&&i| !problem.groups[i].has_atoms && problem.groups[i].group.dbe > 0)
@@ -157,9 +159,7 @@ fn check_plain_rings(
             .map(|&i| u64::from(counts[i]) * atoms_bonding_twice(&problem.groups[i].group.atoms))
             .sum::<u64>();
     if ring_capable < 3 {
-        return Err(format!(
-            "a ring needs at least three atoms that bond twice; the candidate has {ring_capable}"
-        ));
+        return Err(BondFailure::RingAtoms { have: ring_capable });
     }
     Ok(())
 }
@@ -184,40 +184,41 @@ struct BondCount {
 impl BondCount {
     /// Places the free hydrogens and checks that the bonds left join the nodes into one
     /// molecule.
-    fn from_hydrogens(problem: &Problem<'_>, t: &Tally) -> Result<Self, String> {
+    fn from_hydrogens(problem: &Problem<'_>, t: &Tally) -> Result<Self, BondFailure> {
         let h_total = u64::from(problem.formula_h);
         if t.h_fixed > h_total {
-            return Err(format!(
-                "the groups hold {} H but the formula has {h_total}",
-                t.h_fixed
-            ));
+            return Err(BondFailure::GroupHydrogens {
+                held: t.h_fixed,
+                formula: h_total,
+            });
         }
         let h_free = h_total - t.h_fixed;
         if h_free > t.h_capable_ends() {
-            return Err(format!(
-                "{h_free} H must sit on open positions but only {} positions may carry H",
-                t.h_capable_ends()
-            ));
+            return Err(BondFailure::OpenPositions {
+                free: h_free,
+                positions: t.h_capable_ends(),
+            });
         }
         let twice_e = t.open_ends() - h_free;
         if twice_e % 2 == 1 {
-            return Err("the hydrogen count leaves an odd number of bond ends".to_owned());
+            return Err(BondFailure::OddEnds);
         }
         let e = twice_e / 2;
         let nodes = t.nodes();
         if nodes == 0 {
-            return Err("no atoms besides hydrogen".to_owned());
+            return Err(BondFailure::NoHeavyAtoms);
         }
         if e + 1 < nodes {
-            return Err(format!(
-                "{nodes} parts need at least {} bonds to form one molecule, the hydrogen count leaves {e}",
-                nodes - 1
-            ));
+            return Err(BondFailure::TooFewBonds {
+                parts: nodes,
+                bonds: e,
+            });
         }
         if t.multi_atom_nodes == 0 && e > nodes * (nodes - 1) / 2 {
-            return Err(format!(
-                "{e} bonds between {nodes} parts would need multiple bonds outside the groups"
-            ));
+            return Err(BondFailure::TooManyBonds {
+                parts: nodes,
+                bonds: e,
+            });
         }
         Ok(Self { twice_e, e })
     }
@@ -232,7 +233,7 @@ fn check_end_split(
     t: &Tally,
     bonds: &BondCount,
     needs: &HydrogenNeeds,
-) -> Result<(), String> {
+) -> Result<(), BondFailure> {
     let (sk_cap, co_cap) = carbon_caps(problem, counts, t, needs)?;
     let twice_e = bonds.twice_e;
     let carbon_max = t.carbon_must + co_cap + sk_cap;
@@ -246,12 +247,11 @@ fn check_end_split(
         carbon_used >= carbon_min && carbon_used <= carbon_max && hetero_used <= carbon_used
     });
     if !split_ok {
-        return Err(format!(
-            "the open bonds cannot be paired: {} heteroatom-borne and {} carbon-borne ends for {} bonds (heteroatoms bond only to carbon between groups)",
-            t.hetero_must + t.hetero_or_h,
-            t.carbon_must + t.carbon_or_h + t.skeleton_ends(),
-            bonds.e
-        ));
+        return Err(BondFailure::Unpaired {
+            hetero: t.hetero_must + t.hetero_or_h,
+            carbon: t.carbon_must + t.carbon_or_h + t.skeleton_ends(),
+            bonds: bonds.e,
+        });
     }
     Ok(())
 }
@@ -263,14 +263,12 @@ fn carbon_caps(
     counts: &[u32],
     t: &Tally,
     needs: &HydrogenNeeds,
-) -> Result<(u64, u64), String> {
+) -> Result<(u64, u64), BondFailure> {
     let mut sk_cap = t.skeleton_c * 4u64.min(t.heavy_atoms.saturating_sub(1));
     let mut co_cap = t.carbon_or_h;
     if needs.sp3_h && !t.sp3_group_h {
         if t.skeleton_c == 0 {
-            return Err(
-                "a band needs sp3 C–H but the candidate has no saturated carbon".to_owned(),
-            );
+            return Err(BondFailure::NoSaturatedCarbon);
         }
         sk_cap = sk_cap.min(t.skeleton_ends() - 1);
     }
@@ -280,9 +278,7 @@ fn carbon_caps(
             .map(|&g| u64::from(counts[g]) * u64::from(problem.groups[g].group.bonds.carbon_or_h))
             .sum();
         if carrier_co == 0 {
-            return Err(
-                "a band needs an sp2 C–H but no sp2 carbon of the candidate can carry H".to_owned(),
-            );
+            return Err(BondFailure::NoSp2Hydrogen);
         }
         co_cap = t.carbon_or_h - 1;
     }
@@ -295,7 +291,7 @@ fn check_distinct_partners(
     counts: &[u32],
     present: &[usize],
     t: &Tally,
-) -> Result<(), String> {
+) -> Result<(), BondFailure> {
     for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
         if n == 0 || !g.has_atoms {
             continue;
@@ -305,10 +301,11 @@ fn check_distinct_partners(
         let own_heavy = u64::from(g.group.atoms.n_atoms() - g.h);
         let outside = t.heavy_atoms - own_heavy;
         if must > outside {
-            return Err(format!(
-                "{} needs {must} bonds to distinct atoms outside it, the candidate has {outside}",
-                g.group.id
-            ));
+            return Err(BondFailure::DistinctAtoms {
+                group: g.group.id.clone(),
+                need: must,
+                outside,
+            });
         }
         let own_carbons = if b.carbon + b.carbon_or_h > 0 {
             u64::from(g.c)
@@ -317,10 +314,11 @@ fn check_distinct_partners(
         };
         let carbon_partners = t.bondable_carbons - own_carbons;
         if u64::from(b.hetero) > carbon_partners {
-            return Err(format!(
-                "{} needs {} distinct carbons to bond its heteroatom to, the candidate offers {carbon_partners}",
-                g.group.id, b.hetero
-            ));
+            return Err(BondFailure::DistinctCarbons {
+                group: g.group.id.clone(),
+                need: u64::from(b.hetero),
+                offered: carbon_partners,
+            });
         }
     }
     Ok(())
@@ -336,7 +334,7 @@ mod tests {
     use std::collections::BTreeSet;
 
     /// Checks one combination (group ids with counts) against `formula`.
-    fn verdict(formula: &str, groups: &[(&str, u32)]) -> Result<(), String> {
+    fn verdict(formula: &str, groups: &[(&str, u32)]) -> Result<(), BondFailure> {
         let (case, d) = parse(&format!("formula: {formula}\n"), "t.yaml");
         let case = case.unwrap_or_else(|| panic!("{d:?}"));
         let cat = small_catalogue();

@@ -3,6 +3,7 @@
 //! Without a counter-ion no salt-form group enters the problem at all (`Problem::new`).
 
 use super::super::model::Problem;
+use super::super::outcome::RelationFailure;
 use crate::rules::Ionic;
 
 /// How many salt-form groups of each side the organic part must hold, inclusive ranges
@@ -30,9 +31,9 @@ impl IonicSites {
     }
 }
 
-/// The count of each side's salt-form groups against the sites; one sentence per side
+/// The count of each side's salt-form groups against the sites; one failure per side
 /// that does not fit.
-pub fn check(problem: &Problem<'_>, counts: &[u32]) -> Vec<String> {
+pub fn check(problem: &Problem<'_>, counts: &[u32]) -> Vec<RelationFailure> {
     let mut out = Vec::new();
     for side in [Ionic::Cation, Ionic::Anion] {
         let (lo, hi) = problem.ionic_sites.of(side);
@@ -44,19 +45,12 @@ pub fn check(problem: &Problem<'_>, counts: &[u32]) -> Vec<String> {
             .map(|(_, n)| *n)
             .sum();
         if held < lo || held > hi {
-            let want = if lo == hi {
-                format!("{lo}")
-            } else {
-                format!("{lo} to {hi}")
-            };
-            let partner = match side {
-                Ionic::Cation => "acid counter-ions pair",
-                Ionic::Anion => "metal counter-ions pair",
-            };
-            out.push(format!(
-                "the {partner} {want} {} group(s), the combination holds {held}",
-                side.word()
-            ));
+            out.push(RelationFailure::SaltSites {
+                side,
+                fewest: lo,
+                most: hi,
+                held,
+            });
         }
     }
     out

@@ -2,27 +2,27 @@
 //! needs an aromatic ring). Parents count for their subtypes both ways.
 
 use super::super::model::Problem;
+use super::super::outcome::RelationFailure;
 
 /// Checks the relations (`present`: the indices with a non-zero count); returns each
-/// violation in words.
-pub fn check(problem: &Problem<'_>, counts: &[u32], present: &[usize]) -> Vec<String> {
+/// violation, typed (worded by `report::wording::relation`).
+pub fn check(problem: &Problem<'_>, counts: &[u32], present: &[usize]) -> Vec<RelationFailure> {
     let mut out = Vec::new();
     for &i in present {
         let g = problem.groups[i].group;
         for &j in &problem.excludes[i] {
             if j > i && counts[j] > 0 {
-                out.push(format!(
-                    "{} and {} exclude each other",
-                    g.id, problem.groups[j].group.id
-                ));
+                out.push(RelationFailure::Excludes {
+                    group: g.id.clone(),
+                    other: problem.groups[j].group.id.clone(),
+                });
             }
         }
         if !g.requires_any.is_empty() && !problem.requires[i].iter().any(|&j| counts[j] > 0) {
-            out.push(format!(
-                "{} requires one of: {}",
-                g.id,
-                g.requires_any.join(", ")
-            ));
+            out.push(RelationFailure::RequiresAny {
+                group: g.id.clone(),
+                any_of: g.requires_any.clone(),
+            });
         }
     }
     out
@@ -55,7 +55,10 @@ mod tests {
         let present = vec![idx("phenol")];
         assert_eq!(
             check(&problem, &counts, &present),
-            vec!["phenol requires one of: aromatic_ring".to_owned()]
+            vec![RelationFailure::RequiresAny {
+                group: "phenol".to_owned(),
+                any_of: vec!["aromatic_ring".to_owned()]
+            }]
         );
         counts[idx("aromatic_ring")] = 1;
         let present = vec![idx("phenol"), idx("aromatic_ring")];
