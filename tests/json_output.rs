@@ -314,6 +314,11 @@ fn walk(v: &Value, path: &str, doc: &Value, c: &Catalogue, out: &mut Resolved) {
                 match (k.as_str(), x) {
                     ("rule", Value::Object(_)) => check_rule(x, &p, c, out),
                     ("case" | "item", Value::Object(_)) => check_case_ref(x, &p, doc, out),
+                    ("rules", Value::Array(items)) => {
+                        for (i, r) in items.iter().enumerate() {
+                            check_rule(r, &format!("{p}[{i}]"), c, out);
+                        }
+                    }
                     ("case", Value::Array(items)) => {
                         for (i, r) in items.iter().enumerate() {
                             check_case_ref(r, &format!("{p}[{i}]"), doc, out);

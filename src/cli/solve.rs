@@ -373,7 +373,7 @@ fn conflicts(s: &mut String, o: &Outcome) {
             s.push_str(&format!("  - {i}\n"));
         }
         for e in &c.explanation {
-            s.push_str(&format!("    {}\n", wording::because(e)));
+            s.push_str(&format!("    {}\n", wording::because(&e.text)));
         }
         for limit in &c.search_limits {
             s.push_str(&format!("    {}\n", wording::search_limit(limit)));

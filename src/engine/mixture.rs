@@ -450,7 +450,11 @@ impl Reading {
         for c in &single.conflicts {
             evidence.push(format!(
                 "single-compound conflict: {}",
-                c.explanation.join("; ")
+                c.explanation
+                    .iter()
+                    .map(|e| e.text.as_str())
+                    .collect::<Vec<_>>()
+                    .join("; ")
             ));
         }
         evidence.push(format!(

@@ -456,72 +456,29 @@ fn conflict_report(
             EvidenceItem::Formula => {
                 if let Some(f) = &problem.formula {
                     if problem.formula_dbe.is_none() {
-                        explanation.push(constraints::dbe::describe_formula_dbe(f));
+                        explanation.push(ConflictExplanation {
+                            kind: ConflictWhy::FormulaDbe,
+                            text: constraints::dbe::describe_formula_dbe(f),
+                            case: vec![CaseRef::Formula],
+                            rules: Vec::new(),
+                        });
                     }
                 }
             }
-            EvidenceItem::Band(i) => {
-                let Some(bi) = problem.bands.iter().position(|(orig, _)| orig == i) else {
-                    continue;
-                };
-                let ex = &problem.explainers[bi];
-                let band = &problem.bands[bi].1.band;
-                // Group the candidate explainers by why each is unavailable.
-                let mut by_reason: Vec<(String, Vec<String>)> = Vec::new();
-                for (g, _, _) in &ex.groups {
-                    let gd = &problem.groups[*g];
-                    let why = constraints::composition::impossible(problem, *g)
-                        .or_else(|| {
-                            gd.presence.missing.first().map(|r| {
-                                constraints::diagnostic_bands::describe_missing(
-                                    &gd.group.bands[r[0]],
-                                    problem.technique,
-                                    problem.tolerance,
-                                )
-                            })
-                        })
-                        .unwrap_or_else(|| "no consistent combination holds it".to_owned());
-                    match by_reason.iter_mut().find(|(w, _)| *w == why) {
-                        Some((_, ids)) => {
-                            if !ids.contains(&gd.group.id) {
-                                ids.push(gd.group.id.clone());
-                            }
-                        }
-                        None => by_reason.push((why, vec![gd.group.id.clone()])),
-                    }
-                }
-                let ids: Vec<String> = by_reason
-                    .iter()
-                    .map(|(why, ids)| format!("{} ({why})", ids.join(", ")))
-                    .collect();
-                if ex.demanded {
-                    if ids.is_empty() {
-                        explanation.push(format!(
-                            "the band at {:.0} cm⁻¹ must be explained and no rule covers it",
-                            band.at
-                        ));
-                    } else {
-                        explanation.push(format!(
-                            "the band at {:.0} cm⁻¹ must be explained, only by: {}",
-                            band.at,
-                            ids.join("; ")
-                        ));
-                    }
-                } else {
-                    explanation.push(format!(
-                        "the band at {:.0} cm⁻¹ is demanded by a group's diagnostic rule",
-                        band.at
-                    ));
-                }
-            }
+            EvidenceItem::Band(i) => explanation.extend(band_conflict(problem, *i)),
             EvidenceItem::MolecularIon | EvidenceItem::MPlus2 => {
-                let key = if *item == EvidenceItem::MPlus2 {
-                    EvidenceKind::MPlus2
+                let (key, place) = if *item == EvidenceItem::MPlus2 {
+                    (EvidenceKind::MPlus2, CaseRef::MPlus2)
                 } else {
-                    EvidenceKind::MolecularIon
+                    (EvidenceKind::MolecularIon, CaseRef::MolecularIon)
                 };
                 for c in evidence_checks.iter().filter(|c| c.item == key) {
-                    explanation.push(c.detail.clone());
+                    explanation.push(ConflictExplanation {
+                        kind: ConflictWhy::MsCheck,
+                        text: c.detail.clone(),
+                        case: vec![place],
+                        rules: Vec::new(),
+                    });
                 }
             }
         }
@@ -536,6 +493,103 @@ fn conflict_report(
         suggested_causes: conflicts::suggested_causes(case, &items),
         search_limits: limits,
     }]
+}
+
+/// Why a band of a conflict cannot be explained: the groups whose band rules would
+/// explain it, grouped by why each is unavailable, with those rules and the rules that
+/// block them.
+fn band_conflict(problem: &Problem<'_>, case_band: usize) -> Option<ConflictExplanation> {
+    let bi = problem
+        .bands
+        .iter()
+        .position(|(orig, _)| *orig == case_band)?;
+    let ex = &problem.explainers[bi];
+    let band = &problem.bands[bi].1.band;
+    let mut by_reason: Vec<(String, Vec<String>)> = Vec::new();
+    let mut rules: Vec<RuleCite> = Vec::new();
+    let mut cite = |c: RuleCite| {
+        if !rules.contains(&c) {
+            rules.push(c);
+        }
+    };
+    for &(g, ri, _) in &ex.groups {
+        let gd = &problem.groups[g];
+        let group = gd.group;
+        cite(RuleCite::catalogue(
+            RuleKind::GroupBand,
+            &group.id,
+            Some(ri),
+            &group.bands[ri].defined_at,
+        ));
+        let why = if let Some(why) = constraints::composition::impossible(problem, g) {
+            cite(RuleCite::catalogue(
+                RuleKind::Group,
+                &group.id,
+                None,
+                &group.defined_at,
+            ));
+            why
+        } else if let Some(r) = gd.presence.missing.first() {
+            let rule = &group.bands[r[0]];
+            cite(RuleCite::catalogue(
+                RuleKind::GroupBand,
+                &group.id,
+                Some(r[0]),
+                &rule.defined_at,
+            ));
+            constraints::diagnostic_bands::describe_missing(
+                rule,
+                problem.technique,
+                problem.tolerance,
+            )
+        } else {
+            "no consistent combination holds it".to_owned()
+        };
+        match by_reason.iter_mut().find(|(w, _)| *w == why) {
+            Some((_, ids)) => {
+                if !ids.contains(&group.id) {
+                    ids.push(group.id.clone());
+                }
+            }
+            None => by_reason.push((why, vec![group.id.clone()])),
+        }
+    }
+    let ids: Vec<String> = by_reason
+        .iter()
+        .map(|(why, ids)| format!("{} ({why})", ids.join(", ")))
+        .collect();
+    let (kind, text) = if !ex.demanded {
+        (
+            ConflictWhy::BandDemanded,
+            format!(
+                "the band at {:.0} cm⁻¹ is demanded by a group's diagnostic rule",
+                band.at
+            ),
+        )
+    } else if ids.is_empty() {
+        (
+            ConflictWhy::BandUncovered,
+            format!(
+                "the band at {:.0} cm⁻¹ must be explained and no rule covers it",
+                band.at
+            ),
+        )
+    } else {
+        (
+            ConflictWhy::BandOnlyBy,
+            format!(
+                "the band at {:.0} cm⁻¹ must be explained, only by: {}",
+                band.at,
+                ids.join("; ")
+            ),
+        )
+    };
+    Some(ConflictExplanation {
+        kind,
+        text,
+        case: vec![CaseRef::Band { index: case_band }],
+        rules,
+    })
 }
 
 #[cfg(test)]

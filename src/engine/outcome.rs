@@ -468,8 +468,8 @@ pub struct Conflict {
     pub items: Vec<String>,
     /// The same items, typed (`items[i]` words `evidence[i]`).
     pub evidence: Vec<super::model::EvidenceItem>,
-    /// Why they cannot hold together.
-    pub explanation: Vec<String>,
+    /// Why they cannot hold together, each with the places and rules it rests on.
+    pub explanation: Vec<ConflictExplanation>,
     /// Usual causes to check.
     pub suggested_causes: Vec<String>,
     /// Tests of the conflict search that stopped at their limit, in words (empty when
@@ -477,6 +477,37 @@ pub struct Conflict {
     /// may not be minimal.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub search_limits: Vec<String>,
+}
+
+/// One statement of why a conflict's items cannot hold together.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ConflictExplanation {
+    /// What it says, by kind.
+    pub kind: ConflictWhy,
+    /// The sentence (the constraint's wording: an evidence check's detail, the formula's
+    /// DBE, the groups that could explain a band and why each cannot).
+    pub text: String,
+    /// The places in the case it is about.
+    pub case: Vec<CaseRef>,
+    /// The catalogue rules it rests on: for a band, the band rules that would explain it
+    /// and the rules that keep their groups out (composition, a missing band).
+    pub rules: Vec<RuleCite>,
+}
+
+/// What a conflict explanation says, by kind.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ConflictWhy {
+    /// The formula's DBE is not a whole non-negative number.
+    FormulaDbe,
+    /// A band must be explained and no rule of the catalogue covers it.
+    BandUncovered,
+    /// A band must be explained, and only groups that cannot be present would.
+    BandOnlyBy,
+    /// A band is demanded by a group's diagnostic rule.
+    BandDemanded,
+    /// An MS check disagrees with the formula.
+    MsCheck,
 }
 
 /// An observation that would separate two candidates (its sentence:

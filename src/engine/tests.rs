@@ -170,7 +170,9 @@ fn a_molecular_ion_that_disagrees_with_the_formula_is_a_conflict() {
     let c = &o.conflicts[0];
     assert_eq!(c.items.len(), 2, "{:?}", c.items);
     assert!(
-        c.explanation.iter().any(|e| e.contains("nitrogen rule")),
+        c.explanation
+            .iter()
+            .any(|e| e.text.contains("nitrogen rule")),
         "{:?}",
         c.explanation
     );

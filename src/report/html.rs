@@ -328,7 +328,7 @@ fn verdicts(s: &mut String, v: &ReportView) {
                 let _ = writeln!(s, "<li>{}</li>", escape(i));
             }
             for x in &c.explanation {
-                let _ = writeln!(s, "<li>{}</li>", escape(&wording::because(x)));
+                let _ = writeln!(s, "<li>{}</li>", escape(&wording::because(&x.text)));
             }
             for x in &c.search_limits {
                 let _ = writeln!(s, "<li>{}</li>", escape(&wording::search_limit(x)));

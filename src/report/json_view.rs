@@ -12,8 +12,8 @@
 use super::view::{round, ConclusionView, FormulaFacts, Provenance};
 use crate::case::{Case, Review, Sample};
 use crate::engine::{
-    self, CaseRef, CheckKind, EvidenceItem, EvidenceKind, ExplanationKind, Outcome, Reason,
-    ReasonKind, RuleCite, RuleOutKind,
+    self, CaseRef, CheckKind, ConflictWhy, EvidenceItem, EvidenceKind, ExplanationKind, Outcome,
+    Reason, ReasonKind, RuleCite, RuleOutKind,
 };
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -345,12 +345,25 @@ pub struct ConflictJson {
     /// The items.
     pub items: Vec<ConflictItemJson>,
     /// Why they cannot hold together.
-    pub explanation: Vec<String>,
+    pub explanation: Vec<ConflictExplanationJson>,
     /// Usual causes to check.
     pub suggested_causes: Vec<String>,
     /// Tests of the conflict search that stopped at their limit (the set may then not be
     /// minimal).
     pub search_limits: Vec<String>,
+}
+
+/// One statement of why a conflict's items cannot hold together.
+#[derive(Clone, Debug, Serialize)]
+pub struct ConflictExplanationJson {
+    /// What it says, by kind.
+    pub kind: ConflictWhy,
+    /// The sentence.
+    pub text: String,
+    /// The places in the case it is about.
+    pub case: Vec<PlaceRef>,
+    /// The catalogue rules it rests on.
+    pub rules: Vec<RuleCite>,
 }
 
 /// One item of a conflict.
@@ -642,7 +655,16 @@ fn verdicts(outcome: &Outcome, placer: &Placer) -> Verdicts {
                         case: placer.item(*item),
                     })
                     .collect(),
-                explanation: c.explanation.clone(),
+                explanation: c
+                    .explanation
+                    .iter()
+                    .map(|e| ConflictExplanationJson {
+                        kind: e.kind,
+                        text: e.text.clone(),
+                        case: placer.places(&e.case),
+                        rules: e.rules.clone(),
+                    })
+                    .collect(),
                 suggested_causes: c.suggested_causes.clone(),
                 search_limits: c.search_limits.clone(),
             })

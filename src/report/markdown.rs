@@ -261,7 +261,7 @@ fn verdicts(s: &mut String, v: &ReportView) {
                 push(format!("- {}", md(i)));
             }
             for x in &c.explanation {
-                push(format!("- {}", md(&wording::because(x))));
+                push(format!("- {}", md(&wording::because(&x.text))));
             }
             for x in &c.search_limits {
                 push(format!("- {}", md(&wording::search_limit(x))));

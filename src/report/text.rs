@@ -266,7 +266,7 @@ fn verdicts(s: &mut String, v: &ReportView) {
                 line(s, format!("    - {i}"));
             }
             for e in &c.explanation {
-                line(s, format!("    {}", wording::because(e)));
+                line(s, format!("    {}", wording::because(&e.text)));
             }
             for limit in &c.search_limits {
                 line(s, format!("    {}", wording::search_limit(limit)));
