@@ -10,6 +10,7 @@ use crate::budget::Budget;
 use crate::diag::Diagnostic;
 use crate::engine::SolveOptions;
 use crate::report::record::{compare, Difference, Record, ReviewFindings};
+use crate::report::wording;
 use clap::Args;
 use serde::Serialize;
 use std::io::Write;
@@ -151,21 +152,15 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
 /// The review in words: a headline, one line per difference, then the notes.
 pub fn render_text(case: &str, record: Option<&Path>, findings: &ReviewFindings) -> String {
     let mut s = String::new();
-    let against = if let Some(record_path) = record {
-        format!("the record {}", record_path.display())
-    } else {
-        "the analyst's conclusion (no record)".to_owned()
-    };
-    if findings.agrees() {
-        s.push_str(&format!("review of {case}: agrees with {against}\n"));
-    } else {
-        s.push_str(&format!(
-            "review of {case}: {} difference(s) from {against}\n",
-            findings.differences.len()
-        ));
-        for d in &findings.differences {
-            s.push_str(&format!("  - {d}\n"));
-        }
+    let record = record.map(|p| p.display().to_string());
+    s.push_str(&wording::review_headline(
+        case,
+        record.as_deref(),
+        findings.differences.len(),
+    ));
+    s.push('\n');
+    for d in &findings.differences {
+        s.push_str(&format!("  - {d}\n"));
     }
     for n in &findings.notes {
         s.push_str(&format!("  note: {n}\n"));

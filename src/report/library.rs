@@ -7,24 +7,10 @@ use super::html::escape;
 use super::markdown::md;
 use super::plot::LibraryOverlay;
 use super::text::flat;
+use super::wording;
 use crate::library::grid::FINGERPRINT_BELOW_CM1;
-use crate::library::Agreement;
 use crate::verdict::{CheckStatus, CheckedHit, LibraryVerdict};
 use std::fmt::Write;
-
-fn regions_text(h: &CheckedHit) -> String {
-    h.regions
-        .iter()
-        .filter(|r| r.agreement != Agreement::NotCompared)
-        .map(|r| match (r.agreement, r.similarity) {
-            (Agreement::BothEmpty, _) | (_, None) => {
-                format!("{}: {}", r.region, r.agreement.words())
-            }
-            (a, Some(s)) => format!("{}: {} ({s:.2})", r.region, a.words()),
-        })
-        .collect::<Vec<_>>()
-        .join("; ")
-}
 
 fn hit_line(h: &CheckedHit) -> String {
     format!(
@@ -42,16 +28,17 @@ pub fn text(l: &LibraryVerdict) -> String {
     let mut s = String::new();
     let _ = writeln!(
         s,
-        "  {:<14} {} ({} reference(s), digest {})",
+        "  {:<14} {} ({}, digest {})",
         "library",
         flat(&l.library),
-        l.n_references,
+        wording::references(l.n_references),
         l.digest
     );
     let _ = writeln!(
         s,
-        "  {:<14} {} compared; unknown's phase {}",
-        "compared", l.n_compared, l.phase
+        "  {:<14} {}",
+        "compared",
+        wording::library_compared(l.n_compared, &l.phase)
     );
     for n in &l.notes {
         let _ = writeln!(s, "  {:<14} {}", "note", flat(n));
@@ -84,13 +71,7 @@ pub fn text(l: &LibraryVerdict) -> String {
                     flat(&c.detail)
                 );
             }
-            let _ = writeln!(
-                s,
-                "      compared over {:.0}–{:.0} cm⁻¹: {}",
-                h.compared_cm1.0,
-                h.compared_cm1.1,
-                regions_text(h)
-            );
+            let _ = writeln!(s, "      {}", wording::compared_over(h));
         }
     }
     let _ = writeln!(s, "  {:<14} {}.", "caution", l.caution);
@@ -102,15 +83,15 @@ pub fn markdown(l: &LibraryVerdict) -> String {
     let mut s = String::from("\n## Reference library\n\n");
     let _ = writeln!(
         s,
-        "- **library:** {} ({} reference(s), digest `{}`)",
+        "- **library:** {} ({}, digest `{}`)",
         md(&l.library),
-        l.n_references,
+        wording::references(l.n_references),
         l.digest
     );
     let _ = writeln!(
         s,
-        "- **compared:** {}; unknown's phase {}",
-        l.n_compared, l.phase
+        "- **compared:** {}",
+        md(&wording::library_compared(l.n_compared, &l.phase))
     );
     for n in &l.notes {
         let _ = writeln!(s, "- **note:** {}", md(n));
@@ -147,13 +128,7 @@ pub fn markdown(l: &LibraryVerdict) -> String {
                     md(&c.detail)
                 );
             }
-            let _ = writeln!(
-                s,
-                "- compared over {:.0}–{:.0} cm⁻¹: {}",
-                h.compared_cm1.0,
-                h.compared_cm1.1,
-                md(&regions_text(h))
-            );
+            let _ = writeln!(s, "- {}", md(&wording::compared_over(h)));
         }
     }
     let _ = writeln!(s, "\n> **Caution:** {}.", md(&l.caution));
@@ -170,12 +145,11 @@ pub fn html(l: &LibraryVerdict, overlay: Option<&LibraryOverlay>) -> String {
     );
     let _ = writeln!(
         s,
-        "<table>\n<tr><th>library</th><td>{} ({} reference(s))<br><code>digest {}</code></td></tr>\n<tr><th>compared</th><td>{}; unknown's phase {}</td></tr>",
+        "<table>\n<tr><th>library</th><td>{} ({})<br><code>digest {}</code></td></tr>\n<tr><th>compared</th><td>{}</td></tr>",
         escape(&l.library),
-        l.n_references,
+        wording::references(l.n_references),
         escape(&l.digest),
-        l.n_compared,
-        escape(&l.phase)
+        escape(&wording::library_compared(l.n_compared, &l.phase))
     );
     for n in &l.notes {
         let _ = writeln!(s, "<tr><th>note</th><td>{}</td></tr>", escape(n));
@@ -219,7 +193,7 @@ pub fn html(l: &LibraryVerdict, overlay: Option<&LibraryOverlay>) -> String {
                 escape(h.formula.as_deref().unwrap_or("?")),
                 escape(&h.file),
                 checks.join("<br>"),
-                escape(&regions_text(h))
+                escape(&wording::regions(h))
             );
         }
         s.push_str("</table>\n");

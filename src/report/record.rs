@@ -4,7 +4,7 @@
 //! gives the same answer from the same bytes — and if not, exactly what moved.
 
 use super::view::{round, InputFile, InputRole, QUIDDITY_VERSION};
-use super::wording::groups_text;
+use super::wording;
 use crate::engine::{Outcome, SolveOptions};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
@@ -127,6 +127,19 @@ impl Record {
     }
 }
 
+/// How one rank of the recorded conclusion moved.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum RankMove<'a> {
+    /// Another candidate holds the rank: recorded, now.
+    Other(&'a BTreeMap<String, u32>, &'a BTreeMap<String, u32>),
+    /// The same candidate with another score: groups, recorded, now.
+    Rescored(&'a BTreeMap<String, u32>, f64, f64),
+    /// The rank is empty now.
+    Gone(&'a BTreeMap<String, u32>),
+    /// The rank was empty when recorded.
+    New(&'a BTreeMap<String, u32>),
+}
+
 /// One difference a review found.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
@@ -183,52 +196,8 @@ pub enum SetChange {
 
 impl std::fmt::Display for Difference {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        match self {
-            Difference::InputChanged {
-                role,
-                path,
-                recorded,
-                now,
-            } if *role == InputRole::Library => write!(
-                f,
-                "library {path} changed since recording: references added, removed or changed (library digest {} recorded, {} now)",
-                short(recorded),
-                short(now)
-            ),
-            Difference::InputChanged {
-                role,
-                path,
-                recorded,
-                now,
-            } => write!(
-                f,
-                "{role} file {path} changed since recording (sha256 {} recorded, {} now)",
-                short(recorded),
-                short(now)
-            ),
-            Difference::InputSetChanged { role, path, what } => {
-                let what = match what {
-                    SetChange::NoLongerNamed => "no longer named by the case",
-                    SetChange::NotInRecord => "not in the record",
-                };
-                write!(f, "{role} file {path}: {what}")
-            }
-            Difference::RulesChanged { recorded, now } => write!(
-                f,
-                "rules catalogue changed since recording (digest {} recorded, {} now)",
-                short(recorded),
-                short(now)
-            ),
-            Difference::ConclusionChanged { detail } => write!(f, "conclusion changed: {detail}"),
-            Difference::AnalystConclusionDiffers { detail } => {
-                write!(f, "analyst's conclusion: {detail}")
-            }
-        }
+        f.write_str(&wording::difference(self))
     }
-}
-
-fn short(digest: &str) -> &str {
-    digest.get(..12).unwrap_or(digest)
 }
 
 /// What a review found: the differences (exit 1 when any) and notes that are not
@@ -268,39 +237,23 @@ pub fn compare(
         }
         compare_conclusions(&rec.conclusion, &now.conclusion, &mut found);
         if rec.quiddity_version != now.quiddity_version {
-            found.notes.push(format!(
-                "recorded with quiddity {}, recomputed with {}",
-                rec.quiddity_version, now.quiddity_version
+            found.notes.push(wording::recomputed_with(
+                &rec.quiddity_version,
+                &now.quiddity_version,
             ));
         }
     }
     if let Some(accepted) = accepted.filter(|a| !a.is_empty()) {
         match outcome.candidates.iter().find(|c| &c.groups == accepted) {
             Some(c) if c.rank == 1 => {}
-            Some(c) => found.notes.push(format!(
-                "the accepted candidate {} is consistent but ranked {}",
-                groups_text(accepted),
-                c.rank
-            )),
+            Some(c) => found.notes.push(wording::accepted_ranked(accepted, c.rank)),
             None => {
                 let detail = if outcome.list_truncated || outcome.enumeration_truncated {
-                    format!(
-                        "the accepted candidate {} is not among the {} listed candidates (raise --max to look further)",
-                        groups_text(accepted),
-                        outcome.candidates.len()
-                    )
+                    wording::accepted_not_listed(accepted, outcome.candidates.len())
                 } else {
-                    format!(
-                        "the accepted candidate {} is not consistent with the evidence{}",
-                        groups_text(accepted),
-                        outcome
-                            .candidates
-                            .first()
-                            .map(|c| format!(
-                                " (the leading candidate is {})",
-                                groups_text(&c.groups)
-                            ))
-                            .unwrap_or_else(|| " (no candidate is consistent)".to_owned())
+                    wording::accepted_inconsistent(
+                        accepted,
+                        outcome.candidates.first().map(|c| &c.groups),
                     )
                 };
                 found
@@ -360,40 +313,34 @@ fn compare_conclusions(
             .push(Difference::ConclusionChanged { detail });
     };
     if rec.n_consistent != now.n_consistent {
-        push(format!(
-            "{} consistent combination(s) recorded, {} now",
-            rec.n_consistent, now.n_consistent
+        push(wording::count_moved(
+            "consistent combination(s)",
+            rec.n_consistent,
+            now.n_consistent,
         ));
     }
     if rec.n_conflicts != now.n_conflicts {
-        push(format!(
-            "{} conflict(s) recorded, {} now",
-            rec.n_conflicts, now.n_conflicts
+        push(wording::count_moved(
+            "conflict(s)",
+            rec.n_conflicts,
+            now.n_conflicts,
         ));
     }
     let n = rec.top.len().max(now.top.len());
     for i in 0..n {
-        match (rec.top.get(i), now.top.get(i)) {
-            (Some(a), Some(b)) if a.groups != b.groups => push(format!(
-                "rank {} was {}, now {}",
-                i + 1,
-                groups_text(&a.groups),
-                groups_text(&b.groups)
-            )),
-            (Some(a), Some(b)) if (a.score - b.score).abs() > SCORE_EPSILON => push(format!(
-                "rank {} ({}) scored {} when recorded, {} now",
-                i + 1,
-                groups_text(&a.groups),
-                a.score,
-                b.score
-            )),
-            (Some(a), None) => push(format!(
-                "rank {} was {}, now absent",
-                i + 1,
-                groups_text(&a.groups)
-            )),
-            (None, Some(b)) => push(format!("rank {} is new: {}", i + 1, groups_text(&b.groups))),
-            _ => {}
+        let moved = match (rec.top.get(i), now.top.get(i)) {
+            (Some(a), Some(b)) if a.groups != b.groups => {
+                Some(RankMove::Other(&a.groups, &b.groups))
+            }
+            (Some(a), Some(b)) if (a.score - b.score).abs() > SCORE_EPSILON => {
+                Some(RankMove::Rescored(&a.groups, a.score, b.score))
+            }
+            (Some(a), None) => Some(RankMove::Gone(&a.groups)),
+            (None, Some(b)) => Some(RankMove::New(&b.groups)),
+            _ => None,
+        };
+        if let Some(m) = moved {
+            push(wording::rank_moved(i + 1, m));
         }
     }
 }

@@ -480,3 +480,161 @@ pub fn isomer_count(n: usize) -> String {
 pub fn more_isomers(n: usize) -> String {
     format!("... {n} more (see --json)")
 }
+
+/// "N reference(s)" of a library.
+pub fn references(n: usize) -> String {
+    format!("{n} reference(s)")
+}
+
+/// How many library references were compared, and the unknown's phase.
+pub fn library_compared(n_compared: usize, phase: &str) -> String {
+    format!("{n_compared} compared; unknown's phase {phase}")
+}
+
+/// A library hit region by region: `fingerprint: agrees (0.91); …` (regions not compared
+/// left out).
+pub fn regions(h: &crate::verdict::CheckedHit) -> String {
+    use crate::library::Agreement;
+    h.regions
+        .iter()
+        .filter(|r| r.agreement != Agreement::NotCompared)
+        .map(|r| match (r.agreement, r.similarity) {
+            (Agreement::BothEmpty, _) | (_, None) => {
+                format!("{}: {}", r.region, r.agreement.words())
+            }
+            (a, Some(s)) => format!("{}: {} ({s:.2})", r.region, a.words()),
+        })
+        .collect::<Vec<_>>()
+        .join("; ")
+}
+
+/// The range a library hit was compared over, with its regions.
+pub fn compared_over(h: &crate::verdict::CheckedHit) -> String {
+    format!(
+        "compared over {:.0}–{:.0} cm⁻¹: {}",
+        h.compared_cm1.0,
+        h.compared_cm1.1,
+        regions(h)
+    )
+}
+
+/// The first twelve characters of a digest, as reviews show it.
+fn short(digest: &str) -> &str {
+    digest.get(..12).unwrap_or(digest)
+}
+
+/// One difference a review found.
+pub fn difference(d: &crate::report::record::Difference) -> String {
+    use crate::report::record::{Difference, SetChange};
+    use crate::report::view::InputRole;
+    match d {
+        Difference::InputChanged {
+            role: InputRole::Library,
+            path,
+            recorded,
+            now,
+        } => format!(
+            "library {path} changed since recording: references added, removed or changed (library digest {} recorded, {} now)",
+            short(recorded),
+            short(now)
+        ),
+        Difference::InputChanged {
+            role,
+            path,
+            recorded,
+            now,
+        } => format!(
+            "{role} file {path} changed since recording (sha256 {} recorded, {} now)",
+            short(recorded),
+            short(now)
+        ),
+        Difference::InputSetChanged { role, path, what } => {
+            let what = match what {
+                SetChange::NoLongerNamed => "no longer named by the case",
+                SetChange::NotInRecord => "not in the record",
+            };
+            format!("{role} file {path}: {what}")
+        }
+        Difference::RulesChanged { recorded, now } => format!(
+            "rules catalogue changed since recording (digest {} recorded, {} now)",
+            short(recorded),
+            short(now)
+        ),
+        Difference::ConclusionChanged { detail } => format!("conclusion changed: {detail}"),
+        Difference::AnalystConclusionDiffers { detail } => {
+            format!("analyst's conclusion: {detail}")
+        }
+    }
+}
+
+/// A review's note that the version moved.
+pub fn recomputed_with(recorded: &str, now: &str) -> String {
+    format!("recorded with quiddity {recorded}, recomputed with {now}")
+}
+
+/// A review's note that the accepted candidate is consistent but not first.
+pub fn accepted_ranked(accepted: &BTreeMap<String, u32>, rank: usize) -> String {
+    format!(
+        "the accepted candidate {} is consistent but ranked {rank}",
+        groups_text(accepted)
+    )
+}
+
+/// The accepted candidate is beyond the listed candidates.
+pub fn accepted_not_listed(accepted: &BTreeMap<String, u32>, listed: usize) -> String {
+    format!(
+        "the accepted candidate {} is not among the {listed} listed candidates (raise --max to look further)",
+        groups_text(accepted)
+    )
+}
+
+/// The accepted candidate is not consistent with the evidence (`leading`: the best
+/// candidate now, if any).
+pub fn accepted_inconsistent(
+    accepted: &BTreeMap<String, u32>,
+    leading: Option<&BTreeMap<String, u32>>,
+) -> String {
+    let lead = leading.map_or_else(
+        || " (no candidate is consistent)".to_owned(),
+        |g| format!(" (the leading candidate is {})", groups_text(g)),
+    );
+    format!(
+        "the accepted candidate {} is not consistent with the evidence{lead}",
+        groups_text(accepted)
+    )
+}
+
+/// A count of the conclusion that moved: `3 conflict(s) recorded, 1 now`.
+pub fn count_moved(what: &str, recorded: usize, now: usize) -> String {
+    format!("{recorded} {what} recorded, {now} now")
+}
+
+/// How one rank (1-based) of the recorded conclusion moved.
+pub fn rank_moved(rank: usize, m: crate::report::record::RankMove<'_>) -> String {
+    use crate::report::record::RankMove;
+    match m {
+        RankMove::Other(a, b) => {
+            format!("rank {rank} was {}, now {}", groups_text(a), groups_text(b))
+        }
+        RankMove::Rescored(g, a, b) => format!(
+            "rank {rank} ({}) scored {a} when recorded, {b} now",
+            groups_text(g)
+        ),
+        RankMove::Gone(g) => format!("rank {rank} was {}, now absent", groups_text(g)),
+        RankMove::New(g) => format!("rank {rank} is new: {}", groups_text(g)),
+    }
+}
+
+/// The first line of a review: whether it agrees, and with what (`record`: the record
+/// file, when there is one).
+pub fn review_headline(case: &str, record: Option<&str>, differences: usize) -> String {
+    let against = record.map_or_else(
+        || "the analyst's conclusion (no record)".to_owned(),
+        |r| format!("the record {r}"),
+    );
+    if differences == 0 {
+        format!("review of {case}: agrees with {against}")
+    } else {
+        format!("review of {case}: {differences} difference(s) from {against}")
+    }
+}
