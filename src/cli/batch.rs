@@ -42,12 +42,8 @@ pub struct BatchArgs {
     /// Print the summary as one JSON document.
     #[arg(long)]
     json: bool,
-    /// Use the rules catalogue in DIR instead of the built-in one.
-    #[arg(long, value_name = "DIR")]
-    rules: Option<PathBuf>,
-    /// Let cases name files outside their own directory tree.
-    #[arg(long)]
-    allow_outside: bool,
+    #[command(flatten)]
+    source: super::source_args::SourceArgs,
     #[command(flatten)]
     limits: LimitArgs,
 }
@@ -318,7 +314,7 @@ pub fn run(args: &BatchArgs, out: &mut dyn Write) -> CommandResult {
     if args.threads == Some(0) {
         return Err(Diagnostic::error("--threads", "--threads must be at least 1").into());
     }
-    let catalogue = load_catalogue(args.rules.as_deref())?;
+    let catalogue = load_catalogue(args.source.rules.as_deref())?;
     let options = BatchOptions {
         dir: args.dir.clone(),
         out: args.out.clone(),
@@ -326,7 +322,7 @@ pub fn run(args: &BatchArgs, out: &mut dyn Write) -> CommandResult {
         threads: args.threads.unwrap_or(0),
         formats,
         load: LoadOptions {
-            allow_outside: args.allow_outside,
+            allow_outside: args.source.allow_outside,
         },
         progress: true,
         budget: args.limits.budget()?,

@@ -17,6 +17,7 @@ mod new_case;
 pub mod review;
 mod rules;
 mod solve;
+mod source_args;
 
 use crate::diag::Diagnostic;
 use clap::{Parser, Subcommand};

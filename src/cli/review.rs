@@ -27,12 +27,8 @@ pub struct ReviewArgs {
     /// Print one JSON document on stdout.
     #[arg(long)]
     json: bool,
-    /// Use the rules catalogue in DIR instead of the built-in one.
-    #[arg(long, value_name = "DIR")]
-    rules: Option<PathBuf>,
-    /// Let the case name files outside its own directory tree.
-    #[arg(long)]
-    allow_outside: bool,
+    #[command(flatten)]
+    source: super::source_args::SourceArgs,
 }
 
 #[derive(Serialize)]
@@ -114,9 +110,9 @@ pub fn run(args: &ReviewArgs, out: &mut dyn Write) -> CommandResult {
     let report = review_case(
         &args.case,
         args.record.as_deref(),
-        args.rules.as_deref(),
+        args.source.rules.as_deref(),
         &LoadOptions {
-            allow_outside: args.allow_outside,
+            allow_outside: args.source.allow_outside,
         },
     )?;
     let findings = &report.findings;

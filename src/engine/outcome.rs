@@ -58,6 +58,22 @@ pub struct Outcome {
     pub mixture: Option<super::mixture::MixtureOutcome>,
 }
 
+/// Group counts in the notation every output uses, `2 × alkene + ketone` (empty for no
+/// groups; `report::wording::groups_text` words that case).
+pub fn group_counts_notation(groups: &BTreeMap<String, u32>) -> String {
+    groups
+        .iter()
+        .map(|(k, v)| {
+            if *v > 1 {
+                format!("{v} × {k}")
+            } else {
+                k.clone()
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(" + ")
+}
+
 /// One formula proposed from the molecular ion, and what solving it gave.
 #[derive(Clone, Debug, Serialize)]
 pub struct FormulaLead {

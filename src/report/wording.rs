@@ -438,17 +438,7 @@ pub fn groups_text(groups: &BTreeMap<String, u32>) -> String {
     if groups.is_empty() {
         return "(hydrocarbon skeleton only)".into();
     }
-    groups
-        .iter()
-        .map(|(k, v)| {
-            if *v > 1 {
-                format!("{v} × {k}")
-            } else {
-                k.clone()
-            }
-        })
-        .collect::<Vec<_>>()
-        .join(" + ")
+    crate::engine::group_counts_notation(groups)
 }
 
 /// A sentence of this module at the head of a paragraph or a heading: its first letter

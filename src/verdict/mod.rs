@@ -263,21 +263,6 @@ fn check_ms(case: &Case, entry: &Entry) -> Vec<HitCheck> {
         .collect()
 }
 
-/// Group counts in words: `2 × alkene + ketone` (the reports' wording).
-fn groups_text(groups: &BTreeMap<String, u32>) -> String {
-    groups
-        .iter()
-        .map(|(k, v)| {
-            if *v > 1 {
-                format!("{v} × {k}")
-            } else {
-                k.clone()
-            }
-        })
-        .collect::<Vec<_>>()
-        .join(" + ")
-}
-
 fn check_groups(
     outcome: &Outcome,
     entry: &Entry,
@@ -297,7 +282,7 @@ fn check_groups(
             "the reference names no groups: not compared with the deduction".to_owned(),
         );
     }
-    let text = groups_text(groups);
+    let text = crate::engine::group_counts_notation(groups);
     // A group ruled out by the band evidence contradicts whatever the formula; one ruled
     // out by the composition only when the formulas agree (else the formula check says it).
     let ruled: Vec<String> = groups
