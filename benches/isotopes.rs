@@ -1,7 +1,8 @@
 //! Isotope-pattern speed on a large, heteroatom-rich formula (C100H150N20O30S5Cl2,
 //! about 2.3 kDa). Targets: aggregated pattern well under 1 ms, fine structure at
-//! R = 100 000 in a few ms. `tests/reference/time_isospec.py` times IsoSpecPy on the same
-//! formula, for comparing the two (docs/chemistry.md, "Speed").
+//! R = 100 000 in a few ms. `tests/reference/isotope_side_by_side.py` times IsoSpecPy and
+//! quiddity in one run on the same formula and checks that they agree (docs/chemistry.md,
+//! "Speed").
 
 #![allow(missing_docs)] // criterion_group! and criterion_main! generate undocumented items
 

@@ -1,6 +1,9 @@
-//! Times quiddity's fine isotope structure on one formula and prints the medians, one
-//! `name<TAB>value` line each, for `tests/reference/isotope_side_by_side.py` to set beside
-//! a general-purpose isotope library timed in the same run.
+//! Times quiddity's fine isotope structure on one formula and prints what
+//! `tests/reference/isotope_side_by_side.py` needs to set it beside a general-purpose
+//! isotope library timed in the same run: one `name<TAB>value` line each for the counts
+//! and median times, `isotope<TAB>symbol<TAB>count<TAB>masses<TAB>abundances` for every
+//! natural element (so the other library can be given the same abundances), and
+//! `peak<TAB>mass<TAB>probability` for the merged pattern.
 //!
 //! `cargo run --release --example fine_structure_timing -- [FORMULA] [RESOLVING_POWER]`
 
@@ -27,6 +30,14 @@ fn median_us<T>(mut f: impl FnMut() -> T) -> f64 {
     times[times.len() / 2]
 }
 
+/// A comma-separated list of numbers at full precision.
+fn joined(values: impl Iterator<Item = f64>) -> String {
+    values
+        .map(|v| format!("{v:.17e}"))
+        .collect::<Vec<_>>()
+        .join(",")
+}
+
 fn main() -> Result<(), String> {
     let mut args = std::env::args().skip(1);
     let text = args
@@ -43,13 +54,26 @@ fn main() -> Result<(), String> {
     let pattern = fine_structure_pattern(&formula, resolving_power)
         .ok_or_else(|| format!("resolving power {resolving_power} must be positive"))?;
     println!("formula\t{text}");
+    println!("resolving_power\t{resolving_power}");
     println!("prune_below\t{DEFAULT_PRUNE_BELOW:e}");
+    for (atom, n) in formula.atoms().filter(|(a, _)| a.mass_number().is_none()) {
+        let isotopes = atom.element().isotopes;
+        println!(
+            "isotope\t{}\t{n}\t{}\t{}",
+            atom.symbol(),
+            joined(isotopes.iter().map(|i| i.mass)),
+            joined(isotopes.iter().map(|i| i.abundance))
+        );
+    }
     println!("isotopologues\t{}", listed.len());
     println!(
         "isotopologue_probability\t{:.12}",
         listed.iter().map(|p| p.probability).sum::<f64>()
     );
     println!("merged_peaks\t{}", pattern.peaks().len());
+    for p in pattern.peaks() {
+        println!("peak\t{:.9}\t{:.12e}", p.mz, p.probability);
+    }
     println!(
         "list_us\t{:.1}",
         median_us(|| fine_isotopologues(&formula, DEFAULT_PRUNE_BELOW))

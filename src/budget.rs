@@ -68,6 +68,8 @@ pub enum Stage {
     LeadEnumeration,
     /// Pooling the candidates of several formula leads.
     Pooling,
+    /// Generating structures (constitutional isomers).
+    Structures,
 }
 
 impl Stage {
@@ -80,6 +82,7 @@ impl Stage {
                 "enumerating group combinations of the formulas the molecular ion allows"
             }
             Stage::Pooling => "pooling the candidates of the formula leads",
+            Stage::Structures => "generating structures",
         }
     }
 }
@@ -141,6 +144,9 @@ impl LimitReached {
                 "add evidence that narrows the groups (more bands with strengths, `ir.technique`), \
                  lower --limit, or raise {raise}"
             ),
+            Stage::Structures => {
+                format!("narrow the structures with --groups, lower --max, or raise {raise}")
+            }
         }
     }
 }

@@ -122,3 +122,25 @@ fn bad_input_names_its_place_and_exits_2() {
         "{stderr}"
     );
 }
+
+#[test]
+fn a_search_past_its_memory_budget_stops_with_a_message_not_an_abort() {
+    // Docosane has hundreds of thousands of isomers (see the published alkane counts);
+    // under a 1 MB budget the search stops early and says which limit and what to do.
+    let (code, stdout, stderr) = run(
+        &["C22H46", "--count", "--memory-limit", "1"],
+        "docosane-memory-limit",
+    );
+    assert_eq!((code, stdout.as_str()), (2, ""));
+    assert!(stderr.contains("memory limit of 1 MB"), "{stderr}");
+}
+
+#[test]
+fn a_search_past_its_time_budget_stops_with_a_message() {
+    let (code, _, stderr) = run(
+        &["C24H50", "--count", "--time-limit", "0.05"],
+        "tetracosane-time-limit",
+    );
+    assert_eq!(code, 2);
+    assert!(stderr.contains("time limit of 0.05 s"), "{stderr}");
+}

@@ -349,7 +349,9 @@ fn write_text(out: &mut dyn Write, r: &FromMassReport<'_>) -> std::io::Result<()
             "rank", "formula (M)", "ion m/z", "err ppm", "DBE", "M+1 %", "M+2 %", "score"
         )?;
         for c in r.candidates {
-            let err = c.error_ppm.map_or("-".to_owned(), |e| format!("{e:+.2}"));
+            let err = c.error_ppm.map_or("-".to_owned(), |e| {
+                format!("{:+.2}", without_negative_zero(e, 2))
+            });
             let notes: Vec<&str> = c.heuristic_notes.iter().map(|n| n.rule.as_str()).collect();
             writeln!(
                 out,
@@ -361,7 +363,7 @@ fn write_text(out: &mut dyn Write, r: &FromMassReport<'_>) -> std::io::Result<()
                 c.dbe,
                 c.isotope_fit.computed.m1,
                 c.isotope_fit.computed.m2,
-                c.score.total,
+                without_negative_zero(c.score.total, 2),
                 notes.join(", ")
             )?;
         }
@@ -391,9 +393,27 @@ fn write_text(out: &mut dyn Write, r: &FromMassReport<'_>) -> std::io::Result<()
     Ok(())
 }
 
+/// `v` with a value that shows as zero at `decimals` places made +0, so that a tiny
+/// negative number prints as 0.00, not -0.00.
+fn without_negative_zero(v: f64, decimals: i32) -> f64 {
+    let scale = 10f64.powi(decimals);
+    if (v * scale).round() == 0.0 {
+        0.0
+    } else {
+        v
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_tiny_negative_number_prints_as_zero() {
+        assert_eq!(format!("{:+.2}", without_negative_zero(-0.001, 2)), "+0.00");
+        assert_eq!(format!("{:.2}", without_negative_zero(-0.004, 2)), "0.00");
+        assert_eq!(format!("{:.2}", without_negative_zero(-0.006, 2)), "-0.01");
+    }
 
     /// One line per bad m/z: the text and the 1-based column of the error.
     #[test]

@@ -2,7 +2,9 @@
 //! showing exactly a given functional-group multiset, as canonical SMILES with their
 //! structure-level IR features.
 
+use super::limits::LimitArgs;
 use super::{io_failure, print_json, CommandResult, Failure, Status};
+use crate::budget::{LimitReached, Metered};
 use crate::chem::Formula;
 use crate::diag::Diagnostic;
 use crate::structure::{self, Enumeration, GroupCounts, StructureError, StructureFeatures};
@@ -21,7 +23,8 @@ regulations and licensed practice.";
 /// Arguments of `quiddity isomers`.
 #[derive(Debug, Args)]
 #[command(after_help = "\
-Exit status: 0 at least one structure; 1 no structure (the reason is shown); 2 bad input.
+Exit status: 0 at least one structure; 1 no structure (the reason is shown); 2 bad input,
+or the time or memory limit reached (the message says which and what narrows the search).
 Constitutional isomers only: cis/trans and optical isomers are not told apart.")]
 pub struct IsomersArgs {
     /// Neutral molecular formula of C, H, N, O, S, P, F, Cl, Br, I, e.g. C6H14 or C10H12O.
@@ -43,6 +46,9 @@ pub struct IsomersArgs {
     /// Print one JSON document on stdout.
     #[arg(long)]
     json: bool,
+
+    #[command(flatten)]
+    limits: LimitArgs,
 }
 
 /// The `--json` document.
@@ -80,15 +86,18 @@ pub fn run(args: &IsomersArgs, out: &mut dyn Write) -> CommandResult {
         (None, true) => None,
         (None, false) => Some(DEFAULT_LIST_CAP),
     };
+    let mut meter = Metered::new(args.limits.budget()?);
     let (count, e) = with_progress(|progress| {
         if args.count {
-            count_only(&formula, groups.as_ref(), cap, progress)
+            count_only(&formula, groups.as_ref(), cap, &mut meter, progress)
         } else {
-            let e = structure::enumerate_with_progress(&formula, groups.as_ref(), cap, progress)?;
-            Ok((e.structures.len(), e))
+            let e =
+                structure::enumerate_within(&formula, groups.as_ref(), cap, &mut meter, progress)?;
+            Ok(e.map(|e| (e.structures.len(), e)))
         }
     })
-    .map_err(|e| structure_failure(&e))?;
+    .map_err(|e| structure_failure(&e))?
+    .map_err(|stop| limit_failure(&stop))?;
     if e.truncated {
         let mut err = std::io::stderr().lock();
         let _ = writeln!(
@@ -126,15 +135,17 @@ pub fn run(args: &IsomersArgs, out: &mut dyn Write) -> CommandResult {
     Ok(status)
 }
 
+/// How many structures there are (at most `cap`), without keeping them.
 fn count_only(
     formula: &Formula,
     groups: Option<&GroupCounts>,
     cap: Option<usize>,
+    meter: &mut Metered,
     progress: &mut dyn FnMut(usize),
-) -> Result<(usize, Enumeration), StructureError> {
+) -> Result<Result<(usize, Enumeration), LimitReached>, StructureError> {
     let mut n = 0usize;
     let mut truncated = false;
-    let summary = structure::for_each_structure(formula, groups, |_| {
+    let summary = structure::for_each_structure_within(formula, groups, meter, |_| {
         if cap.is_some_and(|c| n >= c) {
             truncated = true;
             return std::ops::ControlFlow::Break(());
@@ -143,14 +154,23 @@ fn count_only(
         progress(n);
         std::ops::ControlFlow::Continue(())
     })?;
-    Ok((
-        n,
-        Enumeration {
-            structures: Vec::new(),
-            truncated,
-            no_structure_reason: summary.no_structure_reason,
-        },
-    ))
+    Ok(summary.map(|summary| {
+        (
+            n,
+            Enumeration {
+                structures: Vec::new(),
+                truncated,
+                no_structure_reason: summary.no_structure_reason,
+            },
+        )
+    }))
+}
+
+/// The failure of a search stopped by its budget.
+fn limit_failure(stop: &LimitReached) -> Failure {
+    Diagnostic::error("<formula>", stop.message())
+        .with_help(stop.advice())
+        .into()
 }
 
 /// Runs `job` with a spinner on stderr when stderr is a terminal.

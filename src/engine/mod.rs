@@ -105,7 +105,7 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
     if let Some((v, _)) = &ms_e.m_plus_1 {
         // M+1 is reported, not enforced: it scatters too much at unit resolution to rule
         // out a formula on its own.
-        let c = ms::check_isotope("M+1", *v, m1);
+        let c = ms::check_isotope(ms::IsotopePeak::MPlus1, *v, m1);
         out.push(EvidenceCheck {
             item: EvidenceKind::MPlus1,
             agrees: true,
@@ -114,7 +114,7 @@ pub fn formula_checks(case: &Case, set_aside: &BTreeSet<EvidenceItem>) -> Vec<Ev
     }
     if let Some((v, _)) = &ms_e.m_plus_2 {
         if !set_aside.contains(&EvidenceItem::MPlus2) {
-            let c = ms::check_isotope("M+2", *v, m2);
+            let c = ms::check_isotope(ms::IsotopePeak::MPlus2, *v, m2);
             out.push(EvidenceCheck {
                 item: EvidenceKind::MPlus2,
                 agrees: c.agrees,

@@ -18,7 +18,8 @@
 
 use super::spectrum::{
     extent, guess_ordinate, micrometres_to_wavenumbers, normalise_transmittance, HeaderSummary,
-    Ordinate, ReadOptions, ReadSpectrum, SpectrumData, Trace, XUnits, MICROMETRE_NOTE,
+    Ordinate, ReadOptions, ReadSpectrum, SpectrumData, SpectrumFileKind, Trace, XUnits,
+    MICROMETRE_NOTE,
 };
 use crate::diag::{Diagnostic, Position};
 use thiserror::Error;
@@ -442,6 +443,7 @@ fn ordinate_of(
 fn summary(delimiter: Delimiter, x: &[f64], x_units: XUnits, ordinate: Ordinate) -> HeaderSummary {
     let (lo, hi) = extent(x);
     HeaderSummary {
+        kind: SpectrumFileKind::Columns,
         format: format!("two-column text ({})", delimiter.describe()),
         title: None,
         data_type: None,

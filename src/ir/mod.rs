@@ -28,7 +28,8 @@ pub mod synth;
 pub use band::{Band, Shape, Strength};
 pub use pick::{BandKind, PickParams, PickStats, PickedBand, SamplePhase};
 pub use spectrum::{
-    HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, XUnits,
+    HeaderField, HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData,
+    SpectrumFileKind, XUnits,
 };
 
 use crate::diag::Diagnostic;

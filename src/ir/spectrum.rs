@@ -113,9 +113,22 @@ pub struct HeaderField {
     pub value: String,
 }
 
+/// Which reader a spectrum file went through.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum SpectrumFileKind {
+    /// A JCAMP-DX file.
+    #[default]
+    Jcamp,
+    /// A two-column text file.
+    Columns,
+}
+
 /// A plain summary of the file's header for people and reports.
 #[derive(Clone, Debug, Default, PartialEq, Serialize)]
 pub struct HeaderSummary {
+    /// The reader the file went through (what code decides on; `format` is for people).
+    #[serde(skip)]
+    pub kind: SpectrumFileKind,
     /// File format, e.g. `JCAMP-DX 4.24` or `two-column text (comma-separated)`.
     pub format: String,
     /// Title, if the file has one.

@@ -29,6 +29,7 @@ use super::grid::{
 };
 use super::meta::Metadata;
 use crate::diag::Diagnostic;
+use crate::ir::SpectrumFileKind;
 use serde::{Deserialize, Serialize};
 use sha2::{Digest, Sha256};
 use std::collections::HashMap;
@@ -486,7 +487,7 @@ impl<'a> Builder<'a> {
                 return;
             }
         };
-        let is_jcamp = header.format.starts_with("JCAMP");
+        let is_jcamp = header.kind == SpectrumFileKind::Jcamp;
         let side_pair = file
             .side
             .as_ref()

@@ -27,6 +27,7 @@ use super::groups::{GroupCounts, GroupId};
 use super::molecule::{Atom, Bond, Element, Molecule};
 use super::perceive::perceive;
 use super::smiles::parse_smiles;
+use crate::budget::{infallible, Meter, Stage, Unmetered};
 use crate::chem::Formula;
 use std::collections::HashSet;
 use std::ops::ControlFlow;
@@ -172,8 +173,21 @@ const MARK: u32 = 1 << 30;
 pub fn for_each_structure(
     formula: &Formula,
     groups: Option<&GroupCounts>,
-    mut visit: impl FnMut(Molecule) -> ControlFlow<()>,
+    visit: impl FnMut(Molecule) -> ControlFlow<()>,
 ) -> Result<Summary, StructureError> {
+    for_each_structure_within(formula, groups, &mut Unmetered, visit).map(infallible)
+}
+
+/// [`for_each_structure`] under a meter: every search step is a tick and every distinct
+/// structure found holds [`BYTES_PER_STRUCTURE_SEEN`] per heavy atom (the duplicate
+/// check keeps a canonical key of each; the estimate also covers a caller that keeps the
+/// structure). The outer error is a bad request; the inner one is the meter's stop.
+pub fn for_each_structure_within<M: Meter>(
+    formula: &Formula,
+    groups: Option<&GroupCounts>,
+    meter: &mut M,
+    mut visit: impl FnMut(Molecule) -> ControlFlow<()>,
+) -> Result<Result<Summary, M::Stop>, StructureError> {
     let problem = match groups {
         None => plain_problem(formula)?,
         Some(g) => group_problem(formula, g)?,
@@ -181,12 +195,12 @@ pub fn for_each_structure(
     let problems = match problem {
         Ok(p) => vec![p],
         Err(reason) => {
-            return Ok(Summary {
+            return Ok(Ok(Summary {
                 emitted: 0,
                 stopped: false,
                 no_structure_reason: Some(reason),
                 duplicates_merged: 0,
-            })
+            }))
         }
     };
     let mut seen: HashSet<CanonicalKey> = HashSet::new();
@@ -201,6 +215,8 @@ pub fn for_each_structure(
             problem,
             seen: &mut seen,
             visit: &mut visit,
+            meter: &mut *meter,
+            stop: None,
             emitted: 0,
             merged: 0,
         };
@@ -214,13 +230,21 @@ pub fn for_each_structure(
         }
         summary.emitted += run.emitted;
         summary.duplicates_merged += run.merged;
+        if let Some(stop) = run.stop {
+            return Ok(Err(stop));
+        }
         if flow.is_break() {
             summary.stopped = true;
             break;
         }
     }
-    Ok(summary)
+    Ok(Ok(summary))
 }
+
+/// Bytes held per heavy atom of every distinct structure found, for the meter: the
+/// canonical key's colours and adjacency lists, the hash set's slot, and a listed
+/// structure's SMILES and features.
+pub const BYTES_PER_STRUCTURE_SEEN: u64 = 96;
 
 /// Counts the structures `for_each_structure` would visit.
 pub fn count_structures(
@@ -648,16 +672,32 @@ impl Problem {
     }
 }
 
-struct Run<'a, F: FnMut(Molecule) -> ControlFlow<()>> {
+struct Run<'a, F: FnMut(Molecule) -> ControlFlow<()>, M: Meter> {
     problem: &'a Problem,
     seen: &'a mut HashSet<CanonicalKey>,
     visit: &'a mut F,
+    meter: &'a mut M,
+    /// Set when the meter stopped the search.
+    stop: Option<M::Stop>,
     emitted: u64,
     merged: u64,
 }
 
-impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
+impl<F: FnMut(Molecule) -> ControlFlow<()>, M: Meter> Run<'_, F, M> {
+    /// Breaks when `metered` is the meter's stop, keeping the stop.
+    fn stopped_by(&mut self, metered: Result<(), M::Stop>) -> ControlFlow<()> {
+        match metered {
+            Ok(()) => ControlFlow::Continue(()),
+            Err(stop) => {
+                self.stop = Some(stop);
+                ControlFlow::Break(())
+            }
+        }
+    }
+
     fn grow(&mut self, state: &State) -> ControlFlow<()> {
+        let tick = self.meter.tick(Stage::Structures);
+        self.stopped_by(tick)?;
         let p = self.problem;
         if state.remaining.iter().all(|&n| n == 0) {
             return self.finish(state);
@@ -910,6 +950,9 @@ impl<F: FnMut(Molecule) -> ControlFlow<()>> Run<'_, F> {
             self.merged += 1;
             return ControlFlow::Continue(());
         }
+        let held = BYTES_PER_STRUCTURE_SEEN * m.n_atoms() as u64;
+        let hold = self.meter.hold(held, Stage::Structures);
+        self.stopped_by(hold)?;
         self.emitted += 1;
         (self.visit)(m)
     }

@@ -19,13 +19,15 @@ pub mod smiles;
 
 pub use features::{features, score_features, FeatureScore, StructureFeatures};
 pub use generate::{
-    count_structures, for_each_structure, StructureError, Summary, MAX_HEAVY_ATOMS,
+    count_structures, for_each_structure, for_each_structure_within, StructureError, Summary,
+    BYTES_PER_STRUCTURE_SEEN, MAX_HEAVY_ATOMS,
 };
 pub use groups::{GroupCounts, GroupId, GroupsError};
 pub use molecule::{Atom, Bond, Element, Molecule};
 pub use perceive::{perceive, Perception};
 pub use smiles::{parse_smiles, to_smiles, SmilesError};
 
+use crate::budget::{infallible, Meter, Unmetered};
 use crate::chem::Formula;
 use crate::ir::Band;
 use crate::rules::PatternRule;
@@ -81,19 +83,22 @@ pub fn enumerate(
     groups: Option<&GroupCounts>,
     max: Option<usize>,
 ) -> Result<Enumeration, StructureError> {
-    enumerate_with_progress(formula, groups, max, &mut |_| {})
+    enumerate_within(formula, groups, max, &mut Unmetered, &mut |_| {}).map(infallible)
 }
 
-/// [`enumerate`], calling `progress` with the number found so far after each structure.
-pub fn enumerate_with_progress(
+/// [`enumerate`] under a meter (see [`for_each_structure_within`]), calling `progress`
+/// with the number found so far after each structure. The outer error is a bad request;
+/// the inner one is the meter's stop.
+pub fn enumerate_within<M: Meter>(
     formula: &Formula,
     groups: Option<&GroupCounts>,
     max: Option<usize>,
+    meter: &mut M,
     progress: &mut dyn FnMut(usize),
-) -> Result<Enumeration, StructureError> {
+) -> Result<Result<Enumeration, M::Stop>, StructureError> {
     let mut structures = Vec::new();
     let mut truncated = false;
-    let summary = for_each_structure(formula, groups, |m| {
+    let summary = for_each_structure_within(formula, groups, meter, |m| {
         if max.is_some_and(|cap| structures.len() >= cap) {
             truncated = true;
             return ControlFlow::Break(());
@@ -102,12 +107,14 @@ pub fn enumerate_with_progress(
         progress(structures.len());
         ControlFlow::Continue(())
     })?;
-    structures.sort_by(|a, b| a.smiles.cmp(&b.smiles));
-    Ok(Enumeration {
-        structures,
-        truncated,
-        no_structure_reason: summary.no_structure_reason,
-    })
+    Ok(summary.map(|summary| {
+        structures.sort_by(|a, b| a.smiles.cmp(&b.smiles));
+        Enumeration {
+            structures,
+            truncated,
+            no_structure_reason: summary.no_structure_reason,
+        }
+    }))
 }
 
 /// Structures ranked best first by the score of their features against `bands`

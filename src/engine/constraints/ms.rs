@@ -71,15 +71,35 @@ pub fn isotope_percentages(formula: &Formula) -> (f64, f64) {
     (ratios.m1, ratios.m2)
 }
 
+/// The isotope peak a stated percentage belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum IsotopePeak {
+    /// M+1, one mass unit above the monoisotopic peak.
+    MPlus1,
+    /// M+2, two mass units above.
+    MPlus2,
+}
+
+impl IsotopePeak {
+    /// The peak's usual name.
+    pub fn label(self) -> &'static str {
+        match self {
+            IsotopePeak::MPlus1 => "M+1",
+            IsotopePeak::MPlus2 => "M+2",
+        }
+    }
+}
+
 /// Compares a stated isotope percentage with the calculated one. Tolerance: the larger of
 /// 3 percentage points and a quarter of the calculated value (unit-resolution peak heights
 /// of a real spectrum scatter that much; common practice, from memory).
-pub fn check_isotope(label: &str, observed: f64, calculated: f64) -> MsCheck {
+pub fn check_isotope(peak: IsotopePeak, observed: f64, calculated: f64) -> MsCheck {
     let tolerance = (0.25 * calculated).max(3.0);
     let agrees = (observed - calculated).abs() <= tolerance;
+    let label = peak.label();
     let mut detail =
         format!("{label} {observed}% of M vs {calculated:.1}% calculated (±{tolerance:.1})");
-    if !agrees && label == "M+2" {
+    if !agrees && peak == IsotopePeak::MPlus2 {
         detail.push_str(&format!("; {}", m_plus_2_reading(observed)));
     }
     MsCheck { agrees, detail }
@@ -159,7 +179,7 @@ mod tests {
         // common practice: one Cl gives M+2 ≈ 32 % of M.
         let (_, m2) = isotope_percentages(&f("C2H5Cl"));
         assert!((m2 - 32.0).abs() < 1.5, "{m2}");
-        assert!(check_isotope("M+2", 31.0, m2).agrees);
-        assert!(!check_isotope("M+2", 1.0, m2).agrees);
+        assert!(check_isotope(IsotopePeak::MPlus2, 31.0, m2).agrees);
+        assert!(!check_isotope(IsotopePeak::MPlus2, 1.0, m2).agrees);
     }
 }

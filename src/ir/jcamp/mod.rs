@@ -77,8 +77,8 @@ pub use write::{write_jcamp, JcampForm, WriteSpectrum};
 
 use super::spectrum::{
     extent, guess_ordinate, micrometres_to_wavenumbers, normalise_transmittance, HeaderField,
-    HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, Trace, XUnits,
-    MICROMETRE_NOTE,
+    HeaderSummary, Ordinate, ReadOptions, ReadSpectrum, SpectrumData, SpectrumFileKind, Trace,
+    XUnits, MICROMETRE_NOTE,
 };
 use asdf::{expand_ordinates, tokenize, Token};
 
@@ -1013,6 +1013,7 @@ fn block_summary(
         })
         .collect();
     HeaderSummary {
+        kind: SpectrumFileKind::Jcamp,
         format: match version {
             Some(v) => format!("JCAMP-DX {v}"),
             None => "JCAMP-DX".to_owned(),
