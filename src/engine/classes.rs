@@ -24,7 +24,7 @@ pub struct Members {
     /// Concrete groups per combination (the stride of `counts`).
     n_groups: usize,
     /// Group counts, `n_groups` per combination.
-    counts: Vec<u32>,
+    counts: Columns,
     /// Skeleton carbons.
     skeleton: Vec<u32>,
     /// Score (`score::score`).
@@ -47,8 +47,40 @@ impl Members {
     }
 
     /// The group counts of combination `i`.
-    pub fn counts(&self, i: usize) -> &[u32] {
-        &self.counts[i * self.n_groups..(i + 1) * self.n_groups]
+    pub fn counts(&self, i: usize) -> Vec<u32> {
+        let at = i * self.n_groups..(i + 1) * self.n_groups;
+        match &self.counts {
+            Columns::Narrow(c) => c[at].iter().map(|&n| u32::from(n)).collect(),
+            Columns::Wide(c) => c[at].to_vec(),
+        }
+    }
+
+    /// Adds the counts of one combination.
+    fn push_counts(&mut self, counts: &[u32]) {
+        if let Columns::Narrow(c) = &mut self.counts {
+            if counts.iter().all(|&n| n <= u32::from(u8::MAX)) {
+                c.extend(counts.iter().map(|&n| n as u8));
+                return;
+            }
+            // A count past one byte: every column widens (never met with formulas of
+            // up to 255 atoms of each element).
+            self.counts = Columns::Wide(c.iter().map(|&n| u32::from(n)).collect());
+        }
+        if let Columns::Wide(c) = &mut self.counts {
+            c.extend_from_slice(counts);
+        }
+    }
+
+    /// The counts of `a` and `b` compared as a whole.
+    fn counts_cmp(&self, a: usize, b: usize) -> Ordering {
+        let (ra, rb) = (
+            a * self.n_groups..(a + 1) * self.n_groups,
+            b * self.n_groups..(b + 1) * self.n_groups,
+        );
+        match &self.counts {
+            Columns::Narrow(c) => c[ra].cmp(&c[rb]),
+            Columns::Wide(c) => c[ra].cmp(&c[rb]),
+        }
     }
 
     /// The skeleton carbons of combination `i`.
@@ -66,7 +98,24 @@ impl Members {
         self.score[b]
             .total_cmp(&self.score[a])
             .then_with(|| self.instances[a].cmp(&self.instances[b]))
-            .then_with(|| self.counts(b).cmp(self.counts(a)))
+            .then_with(|| self.counts_cmp(b, a))
+    }
+}
+
+/// Group counts in columns: one byte per count while every count fits (a quarter of
+/// the memory for the hundreds of thousands of combinations of a loose case), four bytes
+/// once one does not. Bytes compare as the counts they hold.
+#[derive(Debug)]
+enum Columns {
+    /// One byte per count.
+    Narrow(Vec<u8>),
+    /// Four bytes per count.
+    Wide(Vec<u32>),
+}
+
+impl Default for Columns {
+    fn default() -> Self {
+        Columns::Narrow(Vec::new())
     }
 }
 
@@ -85,9 +134,9 @@ pub struct Gathered {
     pub held: u64,
 }
 
-/// Estimated bytes one member holds (its columns).
+/// Estimated bytes one member holds (its columns, counts one byte each).
 fn member_bytes(problem: &Problem<'_>) -> u64 {
-    (4 * problem.groups.len() + 4 + 8 + 4 + 4) as u64
+    (problem.groups.len() + 4 + 8 + 4 + 4) as u64
 }
 
 /// Estimated bytes a new class holds: its key (in the index) and its entries.
@@ -138,7 +187,7 @@ pub fn gather<M: Meter>(
                 }
             };
             let m = &mut out.members;
-            m.counts.extend_from_slice(counts);
+            m.push_counts(counts);
             m.skeleton.push(sk);
             m.score.push(s);
             m.instances.push(counts.iter().sum());

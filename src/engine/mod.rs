@@ -238,12 +238,7 @@ fn solve_stated_within<M: Meter>(
         .best
         .iter()
         .take(5)
-        .map(|&b| {
-            (
-                ranked.members.counts(b).to_vec(),
-                ranked.members.skeleton(b),
-            )
-        })
+        .map(|&b| (ranked.members.counts(b), ranked.members.skeleton(b)))
         .collect();
     let discriminating_checks = discriminate::checks(&problem, &leaders, 12);
 
@@ -431,10 +426,10 @@ fn shown_candidates(
         .enumerate()
         .map(|(i, (&best, rest))| {
             let (counts, sk) = (m.counts(best), m.skeleton(best));
-            let terms = score::terms(problem, counts, sk, ms_e, molecular_nominal, parts);
+            let terms = score::terms(problem, &counts, sk, ms_e, molecular_nominal, parts);
             let mut c = explain::candidate(
                 problem,
-                counts,
+                &counts,
                 sk,
                 i + 1,
                 m.score(best),
@@ -444,7 +439,7 @@ fn shown_candidates(
             );
             c.alternatives = rest
                 .iter()
-                .map(|&r| explain::group_map(problem, m.counts(r)))
+                .map(|&r| explain::group_map(problem, &m.counts(r)))
                 .collect();
             c
         })

@@ -74,8 +74,8 @@ fn gathered(case: &Case, catalogue: &Catalogue, options: &SolveOptions) -> Listi
         .iter()
         .zip(ranked.others(usize::MAX))
         .map(|(&b, rest)| {
-            let rest = rest.iter().map(|&r| m.counts(r).to_vec()).collect();
-            (m.score(b), m.counts(b).to_vec(), m.skeleton(b), rest)
+            let rest = rest.iter().map(|&r| m.counts(r)).collect();
+            (m.score(b), m.counts(b), m.skeleton(b), rest)
         })
         .collect();
     let shown = shown_candidates(&problem, &ranked, options, None, None, &parts);
