@@ -1,6 +1,7 @@
 //! Times a solve of the benchmark's C17H17ClN2O4S case listing every consistent
 //! candidate (no enumeration limit), for profiling under `perf record`. Arguments: the
-//! number of runs (3) and the candidates shown (25). The case is invented.
+//! number of runs (3), the candidates shown (25) and the enumeration limit (none). The
+//! case is invented.
 
 use quiddity::case::parse;
 use quiddity::engine::{solve, SolveOptions};
@@ -41,8 +42,12 @@ fn main() {
         .nth(2)
         .and_then(|a| a.parse().ok())
         .unwrap_or(25);
+    let limit: usize = std::env::args()
+        .nth(3)
+        .and_then(|a| a.parse().ok())
+        .unwrap_or(usize::MAX);
     let options = SolveOptions {
-        enumeration_limit: usize::MAX,
+        enumeration_limit: limit,
         max_candidates: max,
         ..SolveOptions::default()
     };
