@@ -59,6 +59,34 @@ pub fn signature(problem: &Problem<'_>, counts: &[u32], band_quality: &[Option<f
     }
 }
 
+/// The signature of a combination written as one flat key into `key` (a buffer reused
+/// from one combination to the next): equal keys exactly when [`signature`]s are equal.
+/// Each list is preceded by its length; each band is a (seen, quality) pair.
+pub fn signature_key(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    band_quality: &[Option<f64>],
+    key: &mut Vec<i64>,
+) {
+    key.clear();
+    let fixed = |g: &usize| counts[*g] > 0 && !problem.split_group[*g];
+    let seen_split = |g: &usize| {
+        counts[*g] > 0 && problem.split_group[*g] && !problem.groups[*g].presence.matched.is_empty()
+    };
+    key.push((0..counts.len()).filter(fixed).count() as i64);
+    for g in (0..counts.len()).filter(fixed) {
+        key.extend([g as i64, i64::from(counts[g])]);
+    }
+    key.push((0..counts.len()).filter(seen_split).count() as i64);
+    key.extend((0..counts.len()).filter(seen_split).map(|g| g as i64));
+    for q in band_quality {
+        match q {
+            Some(q) => key.extend([1, (q * 1000.0).round() as i64]),
+            None => key.extend([0, 0]),
+        }
+    }
+}
+
 /// Collapses combinations (best first) by their signatures: each entry is the index of a
 /// class's best member and the indices of the others, in rank order.
 pub fn collapse(signatures: &[Signature]) -> Vec<(usize, Vec<usize>)> {

@@ -27,9 +27,34 @@ pub enum Failure {
 
 /// Checks a combination; with `all` false, stops at the first failure.
 pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: bool) -> Vec<Failure> {
-    let mut out = Vec::new();
     let present: Vec<usize> = (0..counts.len()).filter(|&g| counts[g] > 0).collect();
-    for &gi in &present {
+    evaluate_present(problem, counts, &present, skeleton_c, all)
+}
+
+/// True when a combination meets every constraint: `evaluate(.., false)` is empty. The
+/// groups present go into `present` (a buffer reused from one combination to the next,
+/// so that a consistent combination costs no allocation).
+pub fn consistent(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    present: &mut Vec<usize>,
+) -> bool {
+    present.clear();
+    present.extend((0..counts.len()).filter(|&g| counts[g] > 0));
+    evaluate_present(problem, counts, present, skeleton_c, false).is_empty()
+}
+
+/// [`evaluate`] with the groups present (`counts` above zero, in index order) given.
+fn evaluate_present(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    present: &[usize],
+    skeleton_c: u32,
+    all: bool,
+) -> Vec<Failure> {
+    let mut out = Vec::new();
+    for &gi in present {
         {
             for rules in &problem.groups[gi].presence.missing {
                 out.push(Failure::MissingBand {
@@ -42,7 +67,7 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
             }
         }
     }
-    for r in relations::check(problem, counts, &present)
+    for r in relations::check(problem, counts, present)
         .into_iter()
         .chain(ionic::check(problem, counts))
     {
@@ -58,7 +83,7 @@ pub fn evaluate(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32, all: boo
             return out;
         }
     }
-    if let Err(reason) = bonds::check(problem, counts, &present, skeleton_c, &needs) {
+    if let Err(reason) = bonds::check(problem, counts, present, skeleton_c, &needs) {
         out.push(Failure::Bonds(reason));
     }
     out

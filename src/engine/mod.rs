@@ -7,6 +7,7 @@
 //! score and rank → explain candidates and ruled-out groups, find near misses → when
 //! nothing survives, find a minimal conflict → discriminating checks for the top ones.
 
+pub mod classes;
 pub mod collapse;
 pub mod conflicts;
 pub mod constraints;
@@ -178,6 +179,7 @@ where
 /// Estimated bytes one consistent combination holds while a formula is solved: its
 /// counts (in the list found, then scored), and its evidence signature in the collapse
 /// (kept twice: in the class list and its index).
+#[cfg(test)]
 fn combination_bytes(problem: &Problem<'_>) -> u64 {
     let counts = std::mem::size_of::<ScoredCombination>() + 4 * problem.groups.len();
     let signature = 3 * std::mem::size_of::<Vec<u32>>()
@@ -187,6 +189,7 @@ fn combination_bytes(problem: &Problem<'_>) -> u64 {
 }
 
 /// A consistent combination with its score: (score, concrete group counts, skeleton carbons).
+#[cfg(test)]
 type ScoredCombination = (f64, Vec<u32>, u32);
 
 /// Solves a case as stated (its formula, if any, taken as given).
@@ -206,33 +209,41 @@ fn solve_stated_within<M: Meter>(
         .as_ref()
         .map(|f| f.formula.nominal_mass() as f64);
 
-    let found = if formula_ok {
-        find_consistent(&problem, options, meter, stage)?
-    } else {
-        Found::default()
-    };
     let parts = score::group_parts(&problem, ms_e, molecular_nominal);
-    let ranked = Ranked::new(&problem, found.combinations, &parts);
-    let candidates = ranked.candidates(&problem, options, ms_e, molecular_nominal, &parts);
+    let found = if formula_ok {
+        classes::gather(&problem, options, &parts, meter, stage)?
+    } else {
+        classes::Gathered::default()
+    };
+    let (truncated, held) = (found.truncated, found.held);
+    let ranked = classes::Ranked::new(found);
+    let candidates = shown_candidates(&problem, &ranked, options, ms_e, molecular_nominal, &parts);
     let near_misses = if formula_ok {
         near_misses(&problem, options, &parts)
     } else {
         Vec::new()
     };
-    let ruled_out = explain::ruled_out(
-        &problem,
-        &ranked.groups_in_some_candidate(problem.groups.len()),
-        formula_ok && !found.truncated,
-    );
+    let in_some_candidate = if ranked.in_some_candidate.is_empty() {
+        vec![false; problem.groups.len()]
+    } else {
+        ranked.in_some_candidate.clone()
+    };
+    let ruled_out = explain::ruled_out(&problem, &in_some_candidate, formula_ok && !truncated);
     let conflicts = if candidates.is_empty() {
         conflict_report(case, catalogue, options, &problem, &evidence_checks)
     } else {
         Vec::new()
     };
-    let discriminating_checks = discriminate::checks(&problem, &ranked.leaders(5), 12);
+    let leaders: Vec<(Vec<u32>, u32)> = ranked
+        .best
+        .iter()
+        .take(5)
+        .map(|&b| (ranked.members.counts(b), ranked.members.skeleton(b)))
+        .collect();
+    let discriminating_checks = discriminate::checks(&problem, &leaders, 12);
 
-    meter.release(found.held);
-    let n_consistent = ranked.classes.len();
+    meter.release(held);
+    let n_consistent = ranked.best.len();
     Ok(Outcome {
         case: case.id.clone(),
         formula: case.formula.as_ref().map(|f| f.composition.to_string()),
@@ -242,8 +253,8 @@ fn solve_stated_within<M: Meter>(
         list_truncated: n_consistent > candidates.len(),
         candidates,
         n_consistent,
-        n_combinations: ranked.scored.len(),
-        enumeration_truncated: found.truncated,
+        n_combinations: ranked.members.len(),
+        enumeration_truncated: truncated,
         ruled_out,
         near_misses,
         conflicts,
@@ -258,18 +269,18 @@ fn solve_stated_within<M: Meter>(
 }
 
 /// The consistent combinations an enumeration found, and what they hold on the meter.
+#[cfg(test)]
 #[derive(Default)]
 struct Found {
     /// Concrete group counts and skeleton carbons of each consistent combination.
     combinations: Vec<(Vec<u32>, u32)>,
     /// Whether the enumeration stopped at the limit.
     truncated: bool,
-    /// Bytes held on the meter for them.
-    held: u64,
 }
 
 /// Enumerates the compositions over the groups the bands allow and keeps those that
 /// meet every constraint, up to the enumeration limit, metering each step.
+#[cfg(test)]
 fn find_consistent<M: Meter>(
     problem: &Problem<'_>,
     options: &SolveOptions,
@@ -303,16 +314,15 @@ fn find_consistent<M: Meter>(
     if let Some(e) = stop {
         return Err(e);
     }
-    let held = per_combination * combinations.len() as u64;
     Ok(Found {
         combinations,
         truncated,
-        held,
     })
 }
 
 /// The consistent combinations scored, best first, and collapsed into classes that the
 /// evidence cannot tell apart.
+#[cfg(test)]
 struct Ranked {
     /// Every consistent combination with its score, best first.
     scored: Vec<ScoredCombination>,
@@ -320,6 +330,7 @@ struct Ranked {
     classes: Vec<(usize, Vec<usize>)>,
 }
 
+#[cfg(test)]
 impl Ranked {
     /// Score and evidence signature in one pass over the bands; then best score first,
     /// ties to fewer group instances, then catalogue order (the counts compared as a
@@ -359,15 +370,6 @@ impl Ranked {
         in_some_candidate
     }
 
-    /// The best combination of each of the first `n` classes.
-    fn leaders(&self, n: usize) -> Vec<(Vec<u32>, u32)> {
-        self.classes
-            .iter()
-            .take(n)
-            .map(|(best, _)| (self.scored[*best].1.clone(), self.scored[*best].2))
-            .collect()
-    }
-
     /// The classes shown, explained: one candidate per class, the other members as its
     /// alternatives.
     fn candidates(
@@ -403,6 +405,45 @@ impl Ranked {
             })
             .collect()
     }
+}
+
+/// The classes shown, explained: one candidate per class, the other members as its
+/// alternatives.
+fn shown_candidates(
+    problem: &Problem<'_>,
+    ranked: &classes::Ranked,
+    options: &SolveOptions,
+    ms_e: Option<&crate::case::MsEvidence>,
+    molecular_nominal: Option<f64>,
+    parts: &score::Parts,
+) -> Vec<Candidate> {
+    let m = &ranked.members;
+    let others = ranked.others(options.max_candidates);
+    ranked
+        .best
+        .iter()
+        .zip(others)
+        .enumerate()
+        .map(|(i, (&best, rest))| {
+            let (counts, sk) = (m.counts(best), m.skeleton(best));
+            let terms = score::terms(problem, &counts, sk, ms_e, molecular_nominal, parts);
+            let mut c = explain::candidate(
+                problem,
+                &counts,
+                sk,
+                i + 1,
+                m.score(best),
+                terms,
+                ms_e,
+                molecular_nominal,
+            );
+            c.alternatives = rest
+                .iter()
+                .map(|&r| explain::group_map(problem, &m.counts(r)))
+                .collect();
+            c
+        })
+        .collect()
 }
 
 /// Near misses: compositions over every composable group that fail on one point, best
@@ -594,3 +635,5 @@ fn band_conflict(problem: &Problem<'_>, case_band: usize) -> Option<ConflictExpl
 
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_classes;

@@ -49,6 +49,11 @@ impl GroupSet {
         }
     }
 
+    /// Empties the set, keeping its storage.
+    pub fn clear(&mut self) {
+        self.0.iter_mut().for_each(|w| *w = 0);
+    }
+
     /// True when group `i` is in the set.
     pub fn contains(&self, i: usize) -> bool {
         self.0.get(i / 64).is_some_and(|w| w & (1 << (i % 64)) != 0)

@@ -215,18 +215,38 @@ pub fn candidate_terms(
     candidate_terms_noting(problem, counts, skeleton_c, parts, &mut Vec::new())
 }
 
-/// [`candidate_terms`], also noting each active band's best explanation quality in
-/// `band_quality` (the collapse of equivalent splits compares them).
-fn candidate_terms_noting(
+/// Buffers that scoring reuses from one candidate to the next, so that scoring the
+/// hundreds of thousands of combinations of a loose case allocates nothing per candidate.
+#[derive(Clone, Debug, Default)]
+pub struct Scratch {
+    /// Per active band: the best credit among the candidate's groups.
+    best: Vec<f64>,
+    /// The candidate's groups present, in index order.
+    present: Vec<usize>,
+    /// The same as a set.
+    present_set: super::model::GroupSet,
+    /// Per active band: how many distinct groups of the candidate explain it.
+    shared: Vec<u32>,
+    /// Groups of the candidate without a band of their own.
+    borrowed: Vec<usize>,
+}
+
+/// The candidate terms' values in display order (`None`: the term does not apply), as
+/// [`candidate_terms`] words them: bands seen, bands explained, bands unexplained, no
+/// sp3 C–H stretch, no band of its own (the groups in `scratch.borrowed`), parsimony.
+fn candidate_values(
     problem: &Problem<'_>,
     counts: &[u32],
     skeleton_c: u32,
     parts: &Parts,
     band_quality: &mut Vec<Option<f64>>,
-) -> Vec<ScoreTerm> {
+    scratch: &mut Scratch,
+) -> [Option<f64>; 6] {
     let sp3_group = has_sp3_group(problem, counts);
-    let mut terms = Vec::new();
-    let mut best = vec![0.0f64; problem.bands.len()];
+    let mut values = [None; 6];
+    let best = &mut scratch.best;
+    best.clear();
+    best.resize(problem.bands.len(), 0.0);
     for (g, n) in counts.iter().enumerate() {
         if *n > 0 {
             for &(b, c) in &parts.credits[g] {
@@ -236,10 +256,7 @@ fn candidate_terms_noting(
     }
     let seen: f64 = best.iter().sum();
     if seen != 0.0 {
-        terms.push(ScoreTerm {
-            what: "bands seen by the groups' rules (each band once)".into(),
-            value: round3(seen),
-        });
+        values[0] = Some(round3(seen));
     }
     let mut explained = 0.0;
     let mut unexplained = 0.0;
@@ -252,47 +269,67 @@ fn candidate_terms_noting(
         }
     }
     if explained != 0.0 {
-        terms.push(ScoreTerm {
-            what: "bands explained".into(),
-            value: round3(explained),
-        });
+        values[1] = Some(round3(explained));
     }
     if unexplained != 0.0 {
-        terms.push(ScoreTerm {
-            what: "bands unexplained".into(),
-            value: round3(-unexplained),
-        });
+        values[2] = Some(round3(-unexplained));
     }
     if problem.has_ir
         && !problem.sp3_ch_stretch_seen
         && must_hold_sp3_ch(problem, counts, skeleton_c)
     {
-        terms.push(ScoreTerm {
-            what: "H on saturated carbon required, no sp3 C-H stretch seen".into(),
-            value: -P_NO_SP3_CH_STRETCH,
-        });
+        values[3] = Some(-P_NO_SP3_CH_STRETCH);
     }
-    let borrowed = groups_without_own_band(problem, counts);
-    if !borrowed.is_empty() {
-        terms.push(ScoreTerm {
-            what: format!(
+    borrowed_into(problem, counts, scratch);
+    if !scratch.borrowed.is_empty() {
+        values[4] = Some(round3(-P_NO_OWN_BAND * scratch.borrowed.len() as f64));
+    }
+    let instances: u32 = counts.iter().sum();
+    if instances > 1 {
+        values[5] = Some(round3(-P_PER_EXTRA_INSTANCE * f64::from(instances - 1)));
+    }
+    values
+}
+
+/// [`candidate_terms`], also noting each active band's best explanation quality in
+/// `band_quality` (the collapse of equivalent splits compares them).
+fn candidate_terms_noting(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    parts: &Parts,
+    band_quality: &mut Vec<Option<f64>>,
+) -> Vec<ScoreTerm> {
+    let mut scratch = Scratch::default();
+    let values = candidate_values(
+        problem,
+        counts,
+        skeleton_c,
+        parts,
+        band_quality,
+        &mut scratch,
+    );
+    let mut terms = Vec::new();
+    for (slot, value) in values.into_iter().enumerate() {
+        let Some(value) = value else { continue };
+        let what = match slot {
+            0 => "bands seen by the groups' rules (each band once)".into(),
+            1 => "bands explained".into(),
+            2 => "bands unexplained".into(),
+            3 => "H on saturated carbon required, no sp3 C-H stretch seen".into(),
+            4 => format!(
                 "no band of its own (every band also explained by another group): {}",
-                borrowed
+                scratch
+                    .borrowed
                     .iter()
                     .map(|&g| problem.groups[g].group.id.as_str())
                     .collect::<Vec<_>>()
                     .join(", ")
             )
             .into(),
-            value: round3(-P_NO_OWN_BAND * borrowed.len() as f64),
-        });
-    }
-    let instances: u32 = counts.iter().sum();
-    if instances > 1 {
-        terms.push(ScoreTerm {
-            what: "parsimony".into(),
-            value: round3(-P_PER_EXTRA_INSTANCE * f64::from(instances - 1)),
-        });
+            _ => "parsimony".into(),
+        };
+        terms.push(ScoreTerm { what, value });
     }
     terms
 }
@@ -339,30 +376,46 @@ pub fn sp3_ch_stretch_seen(problem: &Problem<'_>) -> bool {
 /// Distinct groups of the candidate that explain at least one observed band, each of
 /// which another distinct group of the candidate explains too.
 pub fn groups_without_own_band(problem: &Problem<'_>, counts: &[u32]) -> Vec<usize> {
-    let present: Vec<usize> = (0..counts.len()).filter(|&g| counts[g] > 0).collect();
+    let mut scratch = Scratch::default();
+    borrowed_into(problem, counts, &mut scratch);
+    scratch.borrowed
+}
+
+/// [`groups_without_own_band`] into `scratch.borrowed`, with the scratch's buffers.
+fn borrowed_into(problem: &Problem<'_>, counts: &[u32], scratch: &mut Scratch) {
+    let Scratch {
+        present,
+        present_set,
+        shared,
+        borrowed,
+        ..
+    } = scratch;
+    borrowed.clear();
+    present.clear();
+    present.extend((0..counts.len()).filter(|&g| counts[g] > 0));
     if present.len() < 2 {
-        return Vec::new();
+        return;
     }
-    let present_set = super::model::GroupSet::of(present.iter().copied());
+    present_set.clear();
+    present.iter().for_each(|&g| present_set.insert(g));
     // Per band: how many distinct groups of the candidate explain it (a band rule or a
     // pattern).
-    let shared: Vec<u32> = problem
-        .explained_by_groups
-        .iter()
-        .map(|set| set.intersection_count(&present_set))
-        .collect();
-    present
-        .into_iter()
-        .filter(|&g| {
-            let mut own = problem
-                .explained_by_groups
-                .iter()
-                .zip(&shared)
-                .filter(|(set, _)| set.contains(g))
-                .peekable();
-            own.peek().is_some() && own.all(|(_, n)| *n > 1)
-        })
-        .collect()
+    shared.clear();
+    shared.extend(
+        problem
+            .explained_by_groups
+            .iter()
+            .map(|set| set.intersection_count(present_set)),
+    );
+    borrowed.extend(present.iter().copied().filter(|&g| {
+        let mut own = problem
+            .explained_by_groups
+            .iter()
+            .zip(shared.iter())
+            .filter(|(set, _)| set.contains(g))
+            .peekable();
+        own.peek().is_some() && own.all(|(_, n)| *n > 1)
+    }));
 }
 
 /// The score of a consistent candidate: Σ group parts of its groups + its candidate
@@ -389,6 +442,28 @@ pub fn score_noting(
     let rest: f64 = candidate_terms_noting(problem, counts, skeleton_c, parts, band_quality)
         .iter()
         .map(|t| t.value)
+        .sum();
+    ((groups + rest) * 100.0).round() / 100.0
+}
+
+/// [`score_noting`] with reusable buffers: the same value, no allocation per candidate.
+pub fn score_with(
+    problem: &Problem<'_>,
+    counts: &[u32],
+    skeleton_c: u32,
+    parts: &Parts,
+    band_quality: &mut Vec<Option<f64>>,
+    scratch: &mut Scratch,
+) -> f64 {
+    let groups: f64 = counts
+        .iter()
+        .zip(&parts.group)
+        .filter(|(n, _)| **n > 0)
+        .map(|(_, p)| *p)
+        .sum();
+    let rest: f64 = candidate_values(problem, counts, skeleton_c, parts, band_quality, scratch)
+        .iter()
+        .flatten()
         .sum();
     ((groups + rest) * 100.0).round() / 100.0
 }

@@ -1,0 +1,268 @@
+//! Consistent combinations gathered straight into their classes (see [`super::collapse`])
+//! as the depth-first walk finds them, and the classes ranked.
+//!
+//! Each consistent combination is checked, scored and given its evidence signature at
+//! once, with buffers reused from one combination to the next (no allocation per
+//! combination); its signature is looked up as one flat key, so only a new class stores
+//! a key. Members are kept in flat columns. Ranking then needs no sort of every
+//! combination: the best member of each class is found in one pass, the classes are
+//! sorted by their best members, and only the members of the classes shown are sorted.
+//! The order is the one of sorting every combination (best score first, ties to fewer
+//! group instances, then the counts compared as a whole, larger first) and collapsing
+//! in that order: the key is total (no two combinations have the same counts), so a
+//! class's rank is its best member's and its members keep their relative order.
+
+use super::enumerate::{self, Flow};
+use super::model::Problem;
+use super::{collapse, evaluate, score, SolveOptions};
+use crate::budget::{Meter, Stage};
+use std::cmp::Ordering;
+
+/// The consistent combinations of a solve in flat columns, in the order found.
+#[derive(Debug, Default)]
+pub struct Members {
+    /// Concrete groups per combination (the stride of `counts`).
+    n_groups: usize,
+    /// Group counts, `n_groups` per combination.
+    counts: Columns,
+    /// Skeleton carbons.
+    skeleton: Vec<u32>,
+    /// Score (`score::score`).
+    score: Vec<f64>,
+    /// Group instances.
+    instances: Vec<u32>,
+    /// Class index, in the order the classes were first met.
+    class: Vec<u32>,
+}
+
+impl Members {
+    /// How many combinations are held.
+    pub fn len(&self) -> usize {
+        self.score.len()
+    }
+
+    /// True when none is held.
+    pub fn is_empty(&self) -> bool {
+        self.score.is_empty()
+    }
+
+    /// The group counts of combination `i`.
+    pub fn counts(&self, i: usize) -> Vec<u32> {
+        let at = i * self.n_groups..(i + 1) * self.n_groups;
+        match &self.counts {
+            Columns::Narrow(c) => c[at].iter().map(|&n| u32::from(n)).collect(),
+            Columns::Wide(c) => c[at].to_vec(),
+        }
+    }
+
+    /// Adds the counts of one combination.
+    fn push_counts(&mut self, counts: &[u32]) {
+        if let Columns::Narrow(c) = &mut self.counts {
+            if counts.iter().all(|&n| n <= u32::from(u8::MAX)) {
+                c.extend(counts.iter().map(|&n| n as u8));
+                return;
+            }
+            // A count past one byte: every column widens (never met with formulas of
+            // up to 255 atoms of each element).
+            self.counts = Columns::Wide(c.iter().map(|&n| u32::from(n)).collect());
+        }
+        if let Columns::Wide(c) = &mut self.counts {
+            c.extend_from_slice(counts);
+        }
+    }
+
+    /// The counts of `a` and `b` compared as a whole.
+    fn counts_cmp(&self, a: usize, b: usize) -> Ordering {
+        let (ra, rb) = (
+            a * self.n_groups..(a + 1) * self.n_groups,
+            b * self.n_groups..(b + 1) * self.n_groups,
+        );
+        match &self.counts {
+            Columns::Narrow(c) => c[ra].cmp(&c[rb]),
+            Columns::Wide(c) => c[ra].cmp(&c[rb]),
+        }
+    }
+
+    /// The skeleton carbons of combination `i`.
+    pub fn skeleton(&self, i: usize) -> u32 {
+        self.skeleton[i]
+    }
+
+    /// The score of combination `i`.
+    pub fn score(&self, i: usize) -> f64 {
+        self.score[i]
+    }
+
+    /// Rank order of two combinations: `Less` when `a` ranks before `b`.
+    pub fn rank_cmp(&self, a: usize, b: usize) -> Ordering {
+        self.score[b]
+            .total_cmp(&self.score[a])
+            .then_with(|| self.instances[a].cmp(&self.instances[b]))
+            .then_with(|| self.counts_cmp(b, a))
+    }
+}
+
+/// Group counts in columns: one byte per count while every count fits (a quarter of
+/// the memory for the hundreds of thousands of combinations of a loose case), four bytes
+/// once one does not. Bytes compare as the counts they hold.
+#[derive(Debug)]
+enum Columns {
+    /// One byte per count.
+    Narrow(Vec<u8>),
+    /// Four bytes per count.
+    Wide(Vec<u32>),
+}
+
+impl Default for Columns {
+    fn default() -> Self {
+        Columns::Narrow(Vec::new())
+    }
+}
+
+/// What the walk gathered.
+#[derive(Debug, Default)]
+pub struct Gathered {
+    /// Every consistent combination found (up to the enumeration limit).
+    pub members: Members,
+    /// Classes met.
+    pub n_classes: usize,
+    /// Per concrete group: present in some consistent combination.
+    pub in_some_candidate: Vec<bool>,
+    /// Whether the enumeration stopped at the limit.
+    pub truncated: bool,
+    /// Bytes held on the meter for them.
+    pub held: u64,
+}
+
+/// Estimated bytes one member holds (its columns, counts one byte each).
+fn member_bytes(problem: &Problem<'_>) -> u64 {
+    (problem.groups.len() + 4 + 8 + 4 + 4) as u64
+}
+
+/// Estimated bytes a new class holds: its key (in the index) and its entries.
+fn class_bytes(key_len: usize) -> u64 {
+    (8 * key_len + std::mem::size_of::<(Box<[i64]>, u32)>() + 8) as u64
+}
+
+/// Walks the compositions over the groups the bands allow and gathers those that meet
+/// every constraint into their classes, up to the enumeration limit, metering each step.
+pub fn gather<M: Meter>(
+    problem: &Problem<'_>,
+    options: &SolveOptions,
+    parts: &score::Parts,
+    meter: &mut M,
+    stage: Stage,
+) -> Result<Gathered, M::Stop> {
+    let mut out = Gathered {
+        members: Members {
+            n_groups: problem.groups.len(),
+            ..Members::default()
+        },
+        in_some_candidate: vec![false; problem.groups.len()],
+        ..Gathered::default()
+    };
+    let per_member = member_bytes(problem);
+    let mut index: foldhash::HashMap<Box<[i64]>, u32> = foldhash::HashMap::default();
+    let (mut present, mut band_quality, mut key) = (Vec::new(), Vec::new(), Vec::new());
+    let mut scratch = score::Scratch::default();
+    let mut stop = None;
+    let allowed = problem.allowed_groups();
+    enumerate::walk_pruned(problem, &allowed, |counts, sk| {
+        let metered = if evaluate::consistent(problem, counts, sk, &mut present) {
+            if out.members.len() >= options.enumeration_limit {
+                out.truncated = true;
+                return Flow::Stop;
+            }
+            band_quality.clear();
+            let s = score::score_with(problem, counts, sk, parts, &mut band_quality, &mut scratch);
+            collapse::signature_key(problem, counts, &band_quality, &mut key);
+            let mut bytes = per_member;
+            let class = match index.get(&key[..]) {
+                Some(&c) => c,
+                None => {
+                    let c = index.len() as u32;
+                    index.insert(key.as_slice().into(), c);
+                    bytes += class_bytes(key.len());
+                    c
+                }
+            };
+            let m = &mut out.members;
+            m.push_counts(counts);
+            m.skeleton.push(sk);
+            m.score.push(s);
+            m.instances.push(counts.iter().sum());
+            m.class.push(class);
+            present
+                .iter()
+                .for_each(|&g| out.in_some_candidate[g] = true);
+            out.held += bytes;
+            meter.hold(bytes, stage)
+        } else {
+            meter.tick(stage)
+        };
+        match metered {
+            Ok(()) => Flow::Continue,
+            Err(e) => {
+                stop = Some(e);
+                Flow::Stop
+            }
+        }
+    });
+    if let Some(e) = stop {
+        return Err(e);
+    }
+    out.n_classes = index.len();
+    Ok(out)
+}
+
+/// The classes of the gathered combinations, best first.
+#[derive(Debug, Default)]
+pub struct Ranked {
+    /// The combinations.
+    pub members: Members,
+    /// Per class, best first: its best member.
+    pub best: Vec<usize>,
+    /// Per concrete group: present in some consistent combination.
+    pub in_some_candidate: Vec<bool>,
+}
+
+impl Ranked {
+    /// Ranks the classes of `gathered` by their best members.
+    pub fn new(gathered: Gathered) -> Self {
+        let members = gathered.members;
+        let mut best: Vec<Option<usize>> = vec![None; gathered.n_classes];
+        for (i, &c) in members.class.iter().enumerate() {
+            let b = &mut best[c as usize];
+            if b.is_none_or(|b| members.rank_cmp(i, b) == Ordering::Less) {
+                *b = Some(i);
+            }
+        }
+        let mut best: Vec<usize> = best.into_iter().flatten().collect();
+        best.sort_unstable_by(|&a, &b| members.rank_cmp(a, b));
+        Self {
+            members,
+            best,
+            in_some_candidate: gathered.in_some_candidate,
+        }
+    }
+
+    /// The members other than the best of each of the first `n` classes, best first.
+    pub fn others(&self, n: usize) -> Vec<Vec<usize>> {
+        let n = n.min(self.best.len());
+        let mut slot = vec![u32::MAX; self.best.len()];
+        for (k, &b) in self.best.iter().take(n).enumerate() {
+            slot[self.members.class[b] as usize] = k as u32;
+        }
+        let mut out = vec![Vec::new(); n];
+        for (i, &c) in self.members.class.iter().enumerate() {
+            let k = slot[c as usize];
+            if k != u32::MAX && i != self.best[k as usize] {
+                out[k as usize].push(i);
+            }
+        }
+        for list in &mut out {
+            list.sort_unstable_by(|&a, &b| self.members.rank_cmp(a, b));
+        }
+        out
+    }
+}
