@@ -118,11 +118,11 @@ impl LimitReached {
     pub fn message(&self) -> String {
         match self.limit {
             Limit::Time { seconds } => format!(
-                "the time limit of {seconds} s was reached while {}; the case was stopped",
+                "the time limit of {seconds} s was reached while {}, so the work stopped there",
                 self.stage.words()
             ),
             Limit::Memory { bytes } => format!(
-                "the memory limit of {} MB (estimated data held) was reached while {}; the case was stopped",
+                "the memory limit of {} MB (estimated data held) was reached while {}, so the work stopped there",
                 bytes.div_ceil(1_000_000),
                 self.stage.words()
             ),
