@@ -433,17 +433,14 @@ pub fn score_noting(
     parts: &Parts,
     band_quality: &mut Vec<Option<f64>>,
 ) -> f64 {
-    let groups: f64 = counts
-        .iter()
-        .zip(&parts.group)
-        .filter(|(n, _)| **n > 0)
-        .map(|(_, p)| *p)
-        .sum();
-    let rest: f64 = candidate_terms_noting(problem, counts, skeleton_c, parts, band_quality)
-        .iter()
-        .map(|t| t.value)
-        .sum();
-    ((groups + rest) * 100.0).round() / 100.0
+    score_with(
+        problem,
+        counts,
+        skeleton_c,
+        parts,
+        band_quality,
+        &mut Scratch::default(),
+    )
 }
 
 /// [`score_noting`] with reusable buffers: the same value, no allocation per candidate.
