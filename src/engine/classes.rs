@@ -200,13 +200,7 @@ pub fn gather<M: Meter>(
         } else {
             meter.tick(stage)
         };
-        match metered {
-            Ok(()) => Flow::Continue,
-            Err(e) => {
-                stop = Some(e);
-                Flow::Stop
-            }
-        }
+        Flow::after_metered(metered, &mut stop)
     });
     if let Some(e) = stop {
         return Err(e);

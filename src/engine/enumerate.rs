@@ -26,6 +26,20 @@ pub enum Flow {
     Stop,
 }
 
+impl Flow {
+    /// `Continue` when a metered step went through; otherwise `Stop`, keeping the meter's
+    /// stop in `stop` for the caller to return once the walk is over.
+    pub fn after_metered<S>(metered: Result<(), S>, stop: &mut Option<S>) -> Flow {
+        match metered {
+            Ok(()) => Flow::Continue,
+            Err(e) => {
+                *stop = Some(e);
+                Flow::Stop
+            }
+        }
+    }
+}
+
 struct Walk<'p, 'c, F> {
     problem: &'p Problem<'c>,
     order: Vec<usize>,
