@@ -1,6 +1,6 @@
 //! Case files: the raw YAML schema, the validated case, and the parse step that turns
 //! case-file text into a [`Case`] plus diagnostics. Only the CLI reads files; it calls
-//! [`parse_raw`], reads what [`referenced_files`] lists, then [`validate`].
+//! [`parse_raw_every_error`], reads what [`referenced_files`] lists, then [`validate`].
 
 mod components;
 pub mod digest;
