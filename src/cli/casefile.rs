@@ -2,8 +2,9 @@
 //! record; writing outputs atomically. Shared by `solve`, `review` and `batch` (and public
 //! so that tests and benchmarks run exactly what the commands run).
 
+use super::limits::limit_failure;
 use super::Failure;
-use crate::budget::{Budget, LimitReached, Metered};
+use crate::budget::{Budget, Metered};
 use crate::case::digest::sha256_hex;
 use crate::case::paths::{check_written_path, is_inside};
 use crate::case::{self, Case, ReferencedFile};
@@ -259,16 +260,9 @@ pub fn solve_within(
 ) -> Result<Outcome, Failure> {
     let mut meter = Metered::new(budget);
     let mut outcome = engine::solve_within(&loaded.case, catalogue, options, &mut meter)
-        .map_err(|stop| limit_failure(&loaded.path, &stop))?;
+        .map_err(|stop| limit_failure(&loaded.path.display().to_string(), &stop))?;
     engine::structures::attach(&mut outcome, &loaded.case, catalogue, options.tolerance_cm1);
     Ok(outcome)
-}
-
-/// The failure of a case stopped by its budget.
-pub fn limit_failure(case: &Path, stop: &LimitReached) -> Failure {
-    Diagnostic::error(case.display().to_string(), stop.message())
-        .with_help(stop.advice())
-        .into()
 }
 
 /// The provenance of a report on `loaded`.

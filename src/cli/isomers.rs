@@ -2,7 +2,7 @@
 //! showing exactly a given functional-group multiset, as canonical SMILES with their
 //! structure-level IR features.
 
-use super::limits::LimitArgs;
+use super::limits::{limit_failure, LimitArgs};
 use super::{io_failure, print_json, CommandResult, Failure, Status};
 use crate::budget::{LimitReached, Metered};
 use crate::chem::Formula;
@@ -97,7 +97,7 @@ pub fn run(args: &IsomersArgs, out: &mut dyn Write) -> CommandResult {
         }
     })
     .map_err(|e| structure_failure(&e))?
-    .map_err(|stop| limit_failure(&stop))?;
+    .map_err(|stop| limit_failure("<formula>", &stop))?;
     if e.truncated {
         let mut err = std::io::stderr().lock();
         let _ = writeln!(
@@ -164,13 +164,6 @@ fn count_only(
             },
         )
     }))
-}
-
-/// The failure of a search stopped by its budget.
-fn limit_failure(stop: &LimitReached) -> Failure {
-    Diagnostic::error("<formula>", stop.message())
-        .with_help(stop.advice())
-        .into()
 }
 
 /// Runs `job` with a spinner on stderr when stderr is a terminal.

@@ -2,7 +2,7 @@
 //! (`--time-limit`, `--memory-limit`); see [`crate::budget`].
 
 use super::Failure;
-use crate::budget::{Budget, DEFAULT_MEMORY_LIMIT_MB, DEFAULT_TIME_LIMIT_S};
+use crate::budget::{Budget, LimitReached, DEFAULT_MEMORY_LIMIT_MB, DEFAULT_TIME_LIMIT_S};
 use crate::diag::Diagnostic;
 use clap::Args;
 use std::time::Duration;
@@ -50,4 +50,12 @@ impl LimitArgs {
             memory_bytes: Some(self.memory_limit.saturating_mul(1_000_000)),
         })
     }
+}
+
+/// The failure of work stopped by its budget (exit 2): the limit and stage, placed at
+/// `origin` (the case file, or the argument the query came from), with the advice.
+pub fn limit_failure(origin: &str, stop: &LimitReached) -> Failure {
+    Diagnostic::error(origin, stop.message())
+        .with_help(stop.advice())
+        .into()
 }
