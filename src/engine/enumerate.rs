@@ -67,7 +67,10 @@ pub fn walk<F>(problem: &Problem<'_>, allowed: &[usize], visit: F) -> u64
 where
     F: FnMut(&[u32], u32) -> Flow,
 {
-    walk_with(problem, allowed, false, visit)
+    let mut visit = visit;
+    walk_with(problem, allowed, false, &[], |counts, sk, _| {
+        visit(counts, sk)
+    })
 }
 
 /// Like [`walk`], cutting subtrees that the leaf checks would reject (module doc).
@@ -75,19 +78,15 @@ pub fn walk_pruned<F>(problem: &Problem<'_>, allowed: &[usize], visit: F) -> u64
 where
     F: FnMut(&[u32], u32) -> Flow,
 {
-    walk_with(problem, allowed, true, visit)
+    let mut visit = visit;
+    walk_with(problem, allowed, true, &[], |counts, sk, _| {
+        visit(counts, sk)
+    })
 }
 
-fn walk_with<F>(problem: &Problem<'_>, allowed: &[usize], prune: bool, visit: F) -> u64
-where
-    F: FnMut(&[u32], u32) -> Flow,
-{
-    let Some(dbe) = problem.formula_dbe else {
-        return 0;
-    };
-    if problem.formula.is_none() {
-        return 0;
-    }
+/// The order in which the walk decides the groups of `allowed` (module doc); groups the
+/// formula cannot hold are left out.
+fn walk_order(problem: &Problem<'_>, allowed: &[usize]) -> Vec<usize> {
     let mut order: Vec<usize> = allowed
         .iter()
         .copied()
@@ -104,9 +103,114 @@ where
         }
     };
     order.sort_by_key(|&g| (rank(g), g));
+    order
+}
+
+/// The hydrocarbon-unsaturation groups (see `collapse::is_split_group`) the walk decides
+/// last, in walk order, when every such group of `allowed` comes after every other
+/// group and none of them is a salt form; `None` otherwise. A walk over the other groups
+/// ([`walk_heads`]) then leaves these to be filled in ([`tails`]).
+pub fn split_tail(problem: &Problem<'_>, allowed: &[usize]) -> Option<Vec<usize>> {
+    let order = walk_order(problem, allowed);
+    let is_tail = |g: usize| problem.split_group[g] && problem.groups[g].group.ionic.is_none();
+    let start = order
+        .iter()
+        .position(|&g| problem.split_group[g])
+        .unwrap_or(order.len());
+    order[start..]
+        .iter()
+        .all(|&g| is_tail(g))
+        .then(|| order[start..].to_vec())
+}
+
+/// Like [`walk_pruned`] over every group of `allowed` but the `tail` of [`split_tail`]:
+/// at each assignment of the others, `visit` gets the counts (tail groups at zero), the
+/// carbons and the DBE left for the tail to consume (and the skeleton to take).
+pub fn walk_heads<F>(problem: &Problem<'_>, allowed: &[usize], tail: &[usize], mut visit: F) -> u64
+where
+    F: FnMut(&[u32], u32, u32) -> Flow,
+{
+    let heads: Vec<usize> = allowed
+        .iter()
+        .copied()
+        .filter(|g| !tail.contains(g))
+        .collect();
+    walk_with(problem, &heads, true, tail, &mut visit)
+}
+
+/// Every way the `tail` groups (in walk order) consume `dbe_left` exactly within
+/// `c_left` carbons, in the order the walk would reach them: per way, the count of each
+/// tail group.
+pub fn tails(problem: &Problem<'_>, tail: &[usize], c_left: u32, dbe_left: u32) -> Vec<Vec<u32>> {
+    fn go(
+        problem: &Problem<'_>,
+        tail: &[usize],
+        k: usize,
+        c_left: u32,
+        dbe_left: u32,
+        counts: &mut Vec<u32>,
+        out: &mut Vec<Vec<u32>>,
+    ) {
+        if k == tail.len() {
+            if dbe_left == 0 {
+                out.push(counts.clone());
+            }
+            return;
+        }
+        let g = &problem.groups[tail[k]];
+        let mut max = dbe_left.checked_div(g.group.dbe).unwrap_or(0);
+        if let Some(m) = c_left.checked_div(g.c) {
+            max = max.min(m);
+        }
+        for n in 0..=max {
+            counts[k] = n;
+            go(
+                problem,
+                tail,
+                k + 1,
+                c_left - n * g.c,
+                dbe_left - n * g.group.dbe,
+                counts,
+                out,
+            );
+        }
+        counts[k] = 0;
+    }
+    let mut out = Vec::new();
+    go(
+        problem,
+        tail,
+        0,
+        c_left,
+        dbe_left,
+        &mut vec![0; tail.len()],
+        &mut out,
+    );
+    out
+}
+
+fn walk_with<F>(
+    problem: &Problem<'_>,
+    allowed: &[usize],
+    prune: bool,
+    tail: &[usize],
+    visit: F,
+) -> u64
+where
+    F: FnMut(&[u32], u32, u32) -> Flow,
+{
+    let Some(dbe) = problem.formula_dbe else {
+        return 0;
+    };
+    if problem.formula.is_none() {
+        return 0;
+    }
+    let order = walk_order(problem, allowed);
     let n_el = problem.elements.len();
     let mut carriers_after = vec![vec![false; n_el]; order.len() + 1];
     let mut dbe_after = vec![false; order.len() + 1];
+    // The tail left to the caller consumes DBE after the last position.
+    dbe_after[order.len()] = tail.iter().any(|&g| problem.groups[g].group.dbe > 0);
     for k in (0..order.len()).rev() {
         carriers_after[k] = carriers_after[k + 1].clone();
         for &(e, n) in &problem.groups[order[k]].hetero {
@@ -116,15 +220,20 @@ where
         }
         dbe_after[k] = dbe_after[k + 1] || problem.groups[order[k]].group.dbe > 0;
     }
-    // Expiry positions: the check for band b runs at position (last explainer) + 1.
+    // Expiry positions: the check for band b runs at position (last explainer) + 1. The
+    // tail left to the caller is decided after every position, so a check that a tail
+    // group may satisfy never runs in the walk (its slot lies past the last position).
     let position: Vec<Option<usize>> = {
         let mut p = vec![None; problem.groups.len()];
         for (k, &g) in order.iter().enumerate() {
             p[g] = Some(k);
         }
+        for &g in tail {
+            p[g] = Some(order.len());
+        }
         p
     };
-    let mut band_expiring = vec![Vec::new(); order.len() + 1];
+    let mut band_expiring = vec![Vec::new(); order.len() + 2];
     for (b, needs) in problem.band_needs.iter().enumerate() {
         if let Some(set) = needs {
             let last = (0..problem.groups.len())
@@ -134,7 +243,7 @@ where
             band_expiring[last.map_or(0, |l| l + 1)].push(b);
         }
     }
-    let mut require_expiring = vec![Vec::new(); order.len() + 1];
+    let mut require_expiring = vec![Vec::new(); order.len() + 2];
     for (k, &g) in order.iter().enumerate() {
         if problem.groups[g].group.requires_any.is_empty() {
             continue;
@@ -167,7 +276,7 @@ where
 
 impl<F> Walk<'_, '_, F>
 where
-    F: FnMut(&[u32], u32) -> Flow,
+    F: FnMut(&[u32], u32, u32) -> Flow,
 {
     fn step(&mut self, k: usize, c_left: u32, dbe_left: u32) -> Flow {
         if self.prune {
@@ -195,7 +304,7 @@ where
         }
         if k == self.order.len() {
             self.leaves += 1;
-            return (self.visit)(&self.counts, c_left);
+            return (self.visit)(&self.counts, c_left, dbe_left);
         }
         let g = self.order[k];
         let d = &self.problem.groups[g];

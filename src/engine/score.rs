@@ -154,8 +154,16 @@ pub fn group_terms(
     terms
 }
 
-fn round3(x: f64) -> f64 {
+/// `x` rounded to 3 decimals, as every score term is.
+pub fn round3(x: f64) -> f64 {
     (x * 1000.0).round() / 1000.0
+}
+
+/// The score from the sum of the group parts and the candidate terms' values (in
+/// display order, see `candidate_values`), rounded to 2 decimals.
+pub fn total(groups: f64, values: &[Option<f64>; 6]) -> f64 {
+    let rest: f64 = values.iter().flatten().sum();
+    ((groups + rest) * 100.0).round() / 100.0
 }
 
 /// Per-group score parts, computed once per solve: the sum of [`group_terms`].
@@ -458,11 +466,8 @@ pub fn score_with(
         .filter(|(n, _)| **n > 0)
         .map(|(_, p)| *p)
         .sum();
-    let rest: f64 = candidate_values(problem, counts, skeleton_c, parts, band_quality, scratch)
-        .iter()
-        .flatten()
-        .sum();
-    ((groups + rest) * 100.0).round() / 100.0
+    let values = candidate_values(problem, counts, skeleton_c, parts, band_quality, scratch);
+    total(groups, &values)
 }
 
 /// Every term of a candidate's score, for display.

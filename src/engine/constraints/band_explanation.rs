@@ -215,7 +215,7 @@ pub fn skeleton_applies(
 /// `sp3_carbon`), `Some(false)` an H on an open position of an unsaturated hydrocarbon
 /// group (every group it names holds DBE, carbon-borne open bonds that may carry H, and
 /// no heteroatom: an sp2 C–H rule), `None` when nothing can be said (e.g. C–H next to O).
-fn h_kind(problem: &Problem<'_>, si: usize) -> Option<bool> {
+pub fn h_kind(problem: &Problem<'_>, si: usize) -> Option<bool> {
     let (groups, sp3) = &problem.skeleton_needs[si];
     if *sp3 {
         return Some(true);

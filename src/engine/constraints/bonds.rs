@@ -37,17 +37,22 @@ pub fn check(
     skeleton_c: u32,
     needs: &HydrogenNeeds,
 ) -> Result<(), BondFailure> {
-    let tally = Tally::of(problem, counts, present, skeleton_c);
-    check_plain_rings(problem, counts, present, skeleton_c)?;
-    let bonds = BondCount::from_hydrogens(problem, &tally)?;
-    check_end_split(problem, counts, &tally, &bonds, needs)?;
-    check_distinct_partners(problem, counts, present, &tally)
+    let tally = Tally::of(problem, counts, present);
+    let needs = NeedsSummary::of(problem, counts, needs);
+    match verdict(problem, &tally, skeleton_c, &needs) {
+        Verdict::Fails(reason) => Err(reason),
+        // The partner condition is checked group by group here, to name the group.
+        Verdict::Holds | Verdict::PartnersShort => {
+            check_distinct_partners(problem, counts, present, &tally, skeleton_c)
+        }
+    }
 }
 
-/// The candidate's open valences and atoms, summed over its group instances and
-/// skeleton carbons.
-struct Tally {
-    skeleton_c: u64,
+/// The open valences and atoms of some group instances, summed (a whole candidate's
+/// groups, or a part of them: tallies of disjoint parts add up with [`Tally::plus`]).
+/// Skeleton carbons are not in it; the checks take their number apart.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Tally {
     /// Hydrogens the groups hold themselves.
     h_fixed: u64,
     /// Heteroatom-borne ends that must bond to another node.
@@ -60,34 +65,31 @@ struct Tally {
     carbon_or_h: u64,
     /// Nodes that are group instances with atoms of their own.
     group_nodes: u64,
-    /// Heavy atoms in all. Partners are counted by atom, since two bonds may join one
-    /// group to different atoms of another (a fused ring such as maleic anhydride's),
-    /// never to one atom.
-    heavy_atoms: u64,
-    /// Carbons that can take a bond from outside their group.
-    bondable_carbons: u64,
+    /// Heavy atoms of the groups. Partners are counted by atom, since two bonds may join
+    /// one group to different atoms of another (a fused ring such as maleic
+    /// anhydride's), never to one atom.
+    group_heavy_atoms: u64,
+    /// Carbons of the groups that can take a bond from outside their group.
+    group_bondable_carbons: u64,
     /// Group instances of more than one heavy atom.
     multi_atom_nodes: u64,
     /// Whether some group holds an sp3 C–H of its own.
     sp3_group_h: bool,
+    /// Plain rings (groups with no atoms of their own that consume DBE).
+    plain_rings: u64,
+    /// Atoms of the groups whose standard valence is at least two.
+    ring_capable_atoms: u64,
+    /// Largest (must-bond ends + own heavy atoms) of a group with atoms (condition 4).
+    most_partners_needed: u64,
+    /// Largest (heteroatom-borne must-bond ends + own bondable carbons) of a group with
+    /// atoms (condition 4).
+    most_carbon_partners_needed: u64,
 }
 
 impl Tally {
-    /// Sums the open valences and atoms of the present groups and the skeleton.
-    fn of(problem: &Problem<'_>, counts: &[u32], present: &[usize], skeleton_c: u32) -> Self {
-        let mut t = Self {
-            skeleton_c: u64::from(skeleton_c),
-            h_fixed: 0,
-            hetero_must: 0,
-            hetero_or_h: 0,
-            carbon_must: 0,
-            carbon_or_h: 0,
-            group_nodes: 0,
-            heavy_atoms: u64::from(skeleton_c),
-            bondable_carbons: u64::from(skeleton_c),
-            multi_atom_nodes: 0,
-            sp3_group_h: false,
-        };
+    /// Sums the open valences and atoms of the present groups.
+    pub fn of(problem: &Problem<'_>, counts: &[u32], present: &[usize]) -> Self {
+        let mut t = Self::default();
         for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
             if n == 0 {
                 continue;
@@ -99,22 +101,75 @@ impl Tally {
             t.hetero_or_h += n * u64::from(b.hetero_or_h);
             t.carbon_must += n * u64::from(b.carbon);
             t.carbon_or_h += n * u64::from(b.carbon_or_h);
+            if !g.has_atoms && g.group.dbe > 0 {
+                t.plain_rings += n;
+            }
+            t.ring_capable_atoms += n * atoms_bonding_twice(&g.group.atoms);
             if g.has_atoms {
                 t.group_nodes += n;
                 let heavy = u64::from(g.group.atoms.n_atoms() - g.h);
-                t.heavy_atoms += n * heavy;
+                t.group_heavy_atoms += n * heavy;
                 if heavy > 1 {
                     t.multi_atom_nodes += n;
                 }
-                if b.carbon + b.carbon_or_h > 0 {
-                    t.bondable_carbons += n * u64::from(g.c);
-                }
+                let own_carbons = if b.carbon + b.carbon_or_h > 0 {
+                    u64::from(g.c)
+                } else {
+                    0
+                };
+                t.group_bondable_carbons += n * own_carbons;
+                let must = u64::from(b.hetero + b.carbon);
+                t.most_partners_needed = t.most_partners_needed.max(must + heavy);
+                t.most_carbon_partners_needed = t
+                    .most_carbon_partners_needed
+                    .max(u64::from(b.hetero) + own_carbons);
             }
             t.sp3_group_h |= g.sp3_ch;
         }
         t
     }
 
+    /// The tally of two disjoint parts of a candidate together.
+    pub fn plus(&self, o: &Tally) -> Tally {
+        Tally {
+            h_fixed: self.h_fixed + o.h_fixed,
+            hetero_must: self.hetero_must + o.hetero_must,
+            hetero_or_h: self.hetero_or_h + o.hetero_or_h,
+            carbon_must: self.carbon_must + o.carbon_must,
+            carbon_or_h: self.carbon_or_h + o.carbon_or_h,
+            group_nodes: self.group_nodes + o.group_nodes,
+            group_heavy_atoms: self.group_heavy_atoms + o.group_heavy_atoms,
+            group_bondable_carbons: self.group_bondable_carbons + o.group_bondable_carbons,
+            multi_atom_nodes: self.multi_atom_nodes + o.multi_atom_nodes,
+            sp3_group_h: self.sp3_group_h || o.sp3_group_h,
+            plain_rings: self.plain_rings + o.plain_rings,
+            ring_capable_atoms: self.ring_capable_atoms + o.ring_capable_atoms,
+            most_partners_needed: self.most_partners_needed.max(o.most_partners_needed),
+            most_carbon_partners_needed: self
+                .most_carbon_partners_needed
+                .max(o.most_carbon_partners_needed),
+        }
+    }
+
+    /// Hydrogens the groups hold and their open positions that may carry H, together
+    /// (`score::must_hold_sp3_ch` compares them with the formula's hydrogens).
+    pub fn h_held_and_open(&self) -> u64 {
+        self.h_fixed + self.carbon_or_h + self.hetero_or_h
+    }
+
+    /// Whether some group holds an sp3 C–H of its own.
+    pub fn sp3_group_h(&self) -> bool {
+        self.sp3_group_h
+    }
+}
+
+/// A tally with its skeleton carbons (sp3, four open valences each).
+struct WithSkeleton<'t> {
+    t: &'t Tally,
+    skeleton_c: u64,
+}
+
+impl WithSkeleton<'_> {
     /// Open valences of the skeleton carbons (four each).
     fn skeleton_ends(&self) -> u64 {
         4 * self.skeleton_c
@@ -122,42 +177,94 @@ impl Tally {
 
     /// Open valences that may carry an H.
     fn h_capable_ends(&self) -> u64 {
-        self.hetero_or_h + self.carbon_or_h + self.skeleton_ends()
+        self.t.hetero_or_h + self.t.carbon_or_h + self.skeleton_ends()
     }
 
     /// Every open valence.
     fn open_ends(&self) -> u64 {
-        self.hetero_must + self.carbon_must + self.h_capable_ends()
+        self.t.hetero_must + self.t.carbon_must + self.h_capable_ends()
     }
 
     /// Nodes of the molecule graph: group instances with atoms and skeleton carbons.
     fn nodes(&self) -> u64 {
-        self.group_nodes + self.skeleton_c
+        self.t.group_nodes + self.skeleton_c
     }
+
+    /// Heavy atoms in all.
+    fn heavy_atoms(&self) -> u64 {
+        self.t.group_heavy_atoms + self.skeleton_c
+    }
+
+    /// Carbons that can take a bond from outside their group.
+    fn bondable_carbons(&self) -> u64 {
+        self.t.group_bondable_carbons + self.skeleton_c
+    }
+}
+
+/// What the hydrogen needs of bands only the skeleton explains ask of the bonds.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct NeedsSummary {
+    /// An H on a saturated carbon is needed.
+    pub sp3_h: bool,
+    /// An H on an open position of named sp2 groups is needed: `Some(true)` when those
+    /// groups offer such a position, `Some(false)` when they offer none.
+    pub sp2_h: Option<bool>,
+}
+
+impl NeedsSummary {
+    /// The summary of `needs` for a candidate's counts.
+    pub fn of(problem: &Problem<'_>, counts: &[u32], needs: &HydrogenNeeds) -> Self {
+        NeedsSummary {
+            sp3_h: needs.sp3_h,
+            sp2_h: needs.h_on_groups.as_ref().map(|carriers| {
+                carriers
+                    .iter()
+                    .any(|&g| counts[g] > 0 && problem.groups[g].group.bonds.carbon_or_h > 0)
+            }),
+        }
+    }
+}
+
+/// The outcome of the checks on a tally.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Verdict {
+    /// Every condition holds.
+    Holds,
+    /// A condition fails.
+    Fails(BondFailure),
+    /// Some group instance lacks distinct partners (condition 4, from the tally's
+    /// maxima; [`check`] finds and names the group).
+    PartnersShort,
+}
+
+/// The bond conditions on a candidate's tally, its skeleton carbons and the needs of its
+/// bands, in the order [`check`] reports them.
+pub fn verdict(problem: &Problem<'_>, t: &Tally, skeleton_c: u32, needs: &NeedsSummary) -> Verdict {
+    let t = WithSkeleton {
+        t,
+        skeleton_c: u64::from(skeleton_c),
+    };
+    let checked = check_plain_rings(&t)
+        .and_then(|()| BondCount::from_hydrogens(problem, &t))
+        .and_then(|bonds| check_end_split(&t, &bonds, needs));
+    if let Err(reason) = checked {
+        return Verdict::Fails(reason);
+    }
+    let heavy = t.heavy_atoms();
+    if t.t.most_partners_needed > heavy || t.t.most_carbon_partners_needed > t.bondable_carbons() {
+        return Verdict::PartnersShort;
+    }
+    Verdict::Holds
 }
 
 /// A plain ring (a group with no atoms of its own that consumes DBE) closes through
 /// skeleton or group atoms, and a ring has at least three members that each bond twice
 /// (two atoms joined twice are a double bond, which is an alkene, not a ring).
-fn check_plain_rings(
-    problem: &Problem<'_>,
-    counts: &[u32],
-    present: &[usize],
-    skeleton_c: u32,
-) -> Result<(), BondFailure> {
-    let plain_rings: u32 = present
-        .iter()
-        .filter(|&&i| !problem.groups[i].has_atoms && problem.groups[i].group.dbe > 0)
-        .map(|&i| counts[i])
-        .sum();
-    if plain_rings == 0 {
+fn check_plain_rings(t: &WithSkeleton<'_>) -> Result<(), BondFailure> {
+    if t.t.plain_rings == 0 {
         return Ok(());
     }
-    let ring_capable: u64 = u64::from(skeleton_c)
-        + present
-            .iter()
-            .map(|&i| u64::from(counts[i]) * atoms_bonding_twice(&problem.groups[i].group.atoms))
-            .sum::<u64>();
+    let ring_capable = t.skeleton_c + t.t.ring_capable_atoms;
     if ring_capable < 3 {
         return Err(BondFailure::RingAtoms { have: ring_capable });
     }
@@ -184,15 +291,15 @@ struct BondCount {
 impl BondCount {
     /// Places the free hydrogens and checks that the bonds left join the nodes into one
     /// molecule.
-    fn from_hydrogens(problem: &Problem<'_>, t: &Tally) -> Result<Self, BondFailure> {
+    fn from_hydrogens(problem: &Problem<'_>, t: &WithSkeleton<'_>) -> Result<Self, BondFailure> {
         let h_total = u64::from(problem.formula_h);
-        if t.h_fixed > h_total {
+        if t.t.h_fixed > h_total {
             return Err(BondFailure::GroupHydrogens {
-                held: t.h_fixed,
+                held: t.t.h_fixed,
                 formula: h_total,
             });
         }
-        let h_free = h_total - t.h_fixed;
+        let h_free = h_total - t.t.h_fixed;
         if h_free > t.h_capable_ends() {
             return Err(BondFailure::OpenPositions {
                 free: h_free,
@@ -214,7 +321,7 @@ impl BondCount {
                 bonds: e,
             });
         }
-        if t.multi_atom_nodes == 0 && e > nodes * (nodes - 1) / 2 {
+        if t.t.multi_atom_nodes == 0 && e > nodes * (nodes - 1) / 2 {
             return Err(BondFailure::TooManyBonds {
                 parts: nodes,
                 bonds: e,
@@ -228,18 +335,16 @@ impl BondCount {
 /// are carbon-borne. Skeleton carbons may each use at most min(4, other heavy atoms)
 /// ends, and an H a band needs keeps one position from bonding.
 fn check_end_split(
-    problem: &Problem<'_>,
-    counts: &[u32],
-    t: &Tally,
+    t: &WithSkeleton<'_>,
     bonds: &BondCount,
-    needs: &HydrogenNeeds,
+    needs: &NeedsSummary,
 ) -> Result<(), BondFailure> {
-    let (sk_cap, co_cap) = carbon_caps(problem, counts, t, needs)?;
+    let (sk_cap, co_cap) = carbon_caps(t, needs)?;
     let twice_e = bonds.twice_e;
-    let carbon_max = t.carbon_must + co_cap + sk_cap;
-    let carbon_min = t.carbon_must + if t.nodes() >= 2 { t.skeleton_c } else { 0 };
-    let split_ok = (0..=t.hetero_or_h).any(|x| {
-        let hetero_used = t.hetero_must + x;
+    let carbon_max = t.t.carbon_must + co_cap + sk_cap;
+    let carbon_min = t.t.carbon_must + if t.nodes() >= 2 { t.skeleton_c } else { 0 };
+    let split_ok = (0..=t.t.hetero_or_h).any(|x| {
+        let hetero_used = t.t.hetero_must + x;
         if hetero_used > twice_e {
             return false;
         }
@@ -248,8 +353,8 @@ fn check_end_split(
     });
     if !split_ok {
         return Err(BondFailure::Unpaired {
-            hetero: t.hetero_must + t.hetero_or_h,
-            carbon: t.carbon_must + t.carbon_or_h + t.skeleton_ends(),
+            hetero: t.t.hetero_must + t.t.hetero_or_h,
+            carbon: t.t.carbon_must + t.t.carbon_or_h + t.skeleton_ends(),
             bonds: bonds.e,
         });
     }
@@ -258,40 +363,36 @@ fn check_end_split(
 
 /// The most ends the skeleton carbons and the carbon-or-H positions may bond with,
 /// after keeping an H where a band only the skeleton explains needs one (condition 5).
-fn carbon_caps(
-    problem: &Problem<'_>,
-    counts: &[u32],
-    t: &Tally,
-    needs: &HydrogenNeeds,
-) -> Result<(u64, u64), BondFailure> {
-    let mut sk_cap = t.skeleton_c * 4u64.min(t.heavy_atoms.saturating_sub(1));
-    let mut co_cap = t.carbon_or_h;
-    if needs.sp3_h && !t.sp3_group_h {
+fn carbon_caps(t: &WithSkeleton<'_>, needs: &NeedsSummary) -> Result<(u64, u64), BondFailure> {
+    let mut sk_cap = t.skeleton_c * 4u64.min(t.heavy_atoms().saturating_sub(1));
+    let mut co_cap = t.t.carbon_or_h;
+    if needs.sp3_h && !t.t.sp3_group_h {
         if t.skeleton_c == 0 {
             return Err(BondFailure::NoSaturatedCarbon);
         }
         sk_cap = sk_cap.min(t.skeleton_ends() - 1);
     }
-    if let Some(carriers) = &needs.h_on_groups {
-        let carrier_co: u64 = carriers
-            .iter()
-            .map(|&g| u64::from(counts[g]) * u64::from(problem.groups[g].group.bonds.carbon_or_h))
-            .sum();
-        if carrier_co == 0 {
+    if let Some(offered) = needs.sp2_h {
+        if !offered {
             return Err(BondFailure::NoSp2Hydrogen);
         }
-        co_cap = t.carbon_or_h - 1;
+        co_cap = t.t.carbon_or_h - 1;
     }
     Ok((sk_cap, co_cap))
 }
 
-/// Condition 4: distinct partners per group instance.
+/// Condition 4, group by group: the first group instance that lacks distinct partners.
 fn check_distinct_partners(
     problem: &Problem<'_>,
     counts: &[u32],
     present: &[usize],
-    t: &Tally,
+    tally: &Tally,
+    skeleton_c: u32,
 ) -> Result<(), BondFailure> {
+    let t = WithSkeleton {
+        t: tally,
+        skeleton_c: u64::from(skeleton_c),
+    };
     for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
         if n == 0 || !g.has_atoms {
             continue;
@@ -299,7 +400,7 @@ fn check_distinct_partners(
         let b = g.group.bonds;
         let must = u64::from(b.hetero + b.carbon);
         let own_heavy = u64::from(g.group.atoms.n_atoms() - g.h);
-        let outside = t.heavy_atoms - own_heavy;
+        let outside = t.heavy_atoms() - own_heavy;
         if must > outside {
             return Err(BondFailure::DistinctAtoms {
                 group: g.group.id.clone(),
@@ -312,7 +413,7 @@ fn check_distinct_partners(
         } else {
             0
         };
-        let carbon_partners = t.bondable_carbons - own_carbons;
+        let carbon_partners = t.bondable_carbons() - own_carbons;
         if u64::from(b.hetero) > carbon_partners {
             return Err(BondFailure::DistinctCarbons {
                 group: g.group.id.clone(),
