@@ -55,6 +55,22 @@ impl Members {
         }
     }
 
+    /// Adds one combination with its score, group instances and class.
+    pub(super) fn push(
+        &mut self,
+        counts: &[u32],
+        skeleton: u32,
+        score: f64,
+        instances: u32,
+        class: u32,
+    ) {
+        self.push_counts(counts);
+        self.skeleton.push(skeleton);
+        self.score.push(score);
+        self.instances.push(instances);
+        self.class.push(class);
+    }
+
     /// Adds the counts of one combination.
     fn push_counts(&mut self, counts: &[u32]) {
         if let Columns::Narrow(c) = &mut self.counts {
@@ -134,13 +150,27 @@ pub struct Gathered {
     pub held: u64,
 }
 
+impl Gathered {
+    /// Nothing gathered yet, for the groups of `problem`.
+    pub(super) fn empty(problem: &Problem<'_>) -> Self {
+        Gathered {
+            members: Members {
+                n_groups: problem.groups.len(),
+                ..Members::default()
+            },
+            in_some_candidate: vec![false; problem.groups.len()],
+            ..Gathered::default()
+        }
+    }
+}
+
 /// Estimated bytes one member holds (its columns, counts one byte each).
-fn member_bytes(problem: &Problem<'_>) -> u64 {
+pub(super) fn member_bytes(problem: &Problem<'_>) -> u64 {
     (problem.groups.len() + 4 + 8 + 4 + 4) as u64
 }
 
 /// Estimated bytes a new class holds: its key (in the index) and its entries.
-fn class_bytes(key_len: usize) -> u64 {
+pub(super) fn class_bytes(key_len: usize) -> u64 {
     (8 * key_len + std::mem::size_of::<(Box<[i64]>, u32)>() + 8) as u64
 }
 
@@ -153,20 +183,16 @@ pub fn gather<M: Meter>(
     meter: &mut M,
     stage: Stage,
 ) -> Result<Gathered, M::Stop> {
-    let mut out = Gathered {
-        members: Members {
-            n_groups: problem.groups.len(),
-            ..Members::default()
-        },
-        in_some_candidate: vec![false; problem.groups.len()],
-        ..Gathered::default()
-    };
+    let allowed = problem.allowed_groups();
+    if let Some(tail) = super::tails::factored_tail(problem, &allowed) {
+        return super::tails::gather(problem, options, parts, &tail, meter, stage);
+    }
+    let mut out = Gathered::empty(problem);
     let per_member = member_bytes(problem);
     let mut index: foldhash::HashMap<Box<[i64]>, u32> = foldhash::HashMap::default();
     let (mut present, mut band_quality, mut key) = (Vec::new(), Vec::new(), Vec::new());
     let mut scratch = score::Scratch::default();
     let mut stop = None;
-    let allowed = problem.allowed_groups();
     enumerate::walk_pruned(problem, &allowed, |counts, sk| {
         let metered = if evaluate::consistent(problem, counts, sk, &mut present) {
             if out.members.len() >= options.enumeration_limit {

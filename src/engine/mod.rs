@@ -24,6 +24,7 @@ pub mod outcome;
 pub mod salt;
 pub mod score;
 pub mod structures;
+pub mod tails;
 #[cfg(test)]
 pub mod testkit;
 

@@ -181,3 +181,56 @@ proptest! {
         assert_same(&src, &small_catalogue(), &options);
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 64, .. ProptestConfig::default() })]
+
+    /// Random formulas with N, O, S and Cl, band lists with strengths, shapes and
+    /// widths, and every technique (the vapour phase brings rotational branches) on the
+    /// shipped catalogue, whose patterns and skeleton rules the test catalogue lacks:
+    /// the walk that fills the hydrocarbon splits in afterwards (`tails`) lists what
+    /// checking every leaf lists.
+    #[test]
+    fn both_paths_agree_on_random_cases_of_the_shipped_catalogue(
+        c in 2u32..11,
+        o in 0u32..4,
+        n in 0u32..3,
+        s in 0u32..2,
+        cl in 0u32..2,
+        dbe in 0u32..7,
+        technique in proptest::sample::select(vec!["film", "KBr", "ATR", "gas", "solution", "mull"]),
+        bands in proptest::collection::vec(
+            (600u32..3700, 0usize..3, 0usize..4, proptest::option::of(5u32..300)),
+            0..9,
+        ),
+        limit in proptest::sample::select(vec![5usize, 10_000]),
+    ) {
+        let h = 2 * c + 2 + n;
+        prop_assume!(h > 2 * dbe + cl);
+        let h = h - 2 * dbe - cl;
+        let count = |e: &str, k: u32| if k == 0 { String::new() } else { format!("{e}{k}") };
+        let mut src = format!(
+            "formula: C{c}H{h}{}{}{}{}\nir:\n  technique: {technique}\n  bands:\n",
+            count("Cl", cl),
+            count("N", n),
+            count("O", o),
+            count("S", s),
+        );
+        let mut seen_at = std::collections::BTreeSet::new();
+        for (at, strength, shape, width) in &bands {
+            if !seen_at.insert(*at) {
+                continue;
+            }
+            let strength = ["weak", "medium", "strong"][*strength];
+            let shape = ["", ", shape: broad", ", shape: sharp", ""][*shape];
+            let width = width.map(|w| format!(", width: {w}")).unwrap_or_default();
+            src.push_str(&format!("    - {{ at: {at}, strength: {strength}{shape}{width} }}\n"));
+        }
+        if bands.is_empty() {
+            src = format!("formula: C{c}H{h}{}{}{}{}\n", count("Cl", cl), count("N", n), count("O", o), count("S", s));
+        }
+        let catalogue = embedded_catalogue().unwrap_or_else(|d| panic!("{d:?}"));
+        let options = SolveOptions { enumeration_limit: limit, ..SolveOptions::default() };
+        assert_same(&src, &catalogue, &options);
+    }
+}

@@ -1,0 +1,699 @@
+//! Gathering with the hydrocarbon splits factored out of the walk.
+//!
+//! A loose case has hundreds of thousands of consistent combinations, most of them the
+//! same heteroatom groups with the unsaturation split another way between rings, C=C,
+//! C≡C and arenes (the *tail*, see `collapse`). Checking and scoring each combination
+//! from scratch costs microseconds; here the work is shared:
+//! - the walk decides only the other groups (the *head*); for each head, the ways the
+//!   tail can take the carbons and DBE left are listed once per (carbons, DBE) and
+//!   reused by every head that leaves the same;
+//! - what depends only on which groups are present (presence verdicts, relations, the
+//!   band explanations, the score's band terms, the evidence signature) is worked out
+//!   once per head and tail *pattern* (which tail groups are present, and whether
+//!   skeleton carbons remain), from per-band summaries of the head and of the pattern;
+//! - what depends on the counts (the bond conditions, H on saturated carbon,
+//!   parsimony) is checked per combination from tallies that add up.
+//!
+//! The combinations, their scores, classes and the order in which they are found are
+//! those of checking every leaf of the full walk (the tests compare both paths).
+
+use super::classes::{class_bytes, member_bytes, Gathered};
+use super::constraints::band_explanation::{h_kind, BRANCH_QUALITY};
+use super::constraints::bonds::{self, NeedsSummary, Tally, Verdict};
+use super::constraints::ionic;
+use super::enumerate::{self, Flow};
+use super::model::{GroupSet, Problem};
+use super::score::{self, unexplained_penalty, Parts, W_EXPLAINED};
+use super::SolveOptions;
+use crate::budget::{Meter, Stage};
+use std::collections::HashMap;
+use std::rc::Rc;
+
+/// Tail groups at most for a factored walk (patterns are kept per subset).
+const MAX_TAIL_GROUPS: usize = 10;
+
+/// The tail of a case's walk when the factored gathering applies to it.
+pub fn factored_tail(problem: &Problem<'_>, allowed: &[usize]) -> Option<Vec<usize>> {
+    enumerate::split_tail(problem, allowed).filter(|t| !t.is_empty() && t.len() <= MAX_TAIL_GROUPS)
+}
+
+/// Band-by-band summary of a set of groups (a head's, or a tail pattern's).
+#[derive(Clone, Debug, Default)]
+struct PartView {
+    /// The groups, in index order.
+    present: Vec<usize>,
+    /// The same as a set.
+    set: GroupSet,
+    /// Per active band: best quality of the set's band rules and patterns.
+    quality: Vec<Option<f64>>,
+    /// Per active band: some band rule or pattern of the set explains it.
+    by_groups: Vec<bool>,
+    /// Per active band: best credit of the set's rules (`score::Parts::credits`).
+    credit: Vec<f64>,
+    /// Per active band: groups of the set that explain it.
+    shared: Vec<u32>,
+    /// Per skeleton rule: a group of the set meets its `needs_any`.
+    skeleton_need: Vec<bool>,
+    /// Per active band: best quality of the skeleton rules whose `needs_any` the set
+    /// meets.
+    skeleton_quality: Vec<Option<f64>>,
+    /// Some group of the set holds an sp3 C–H of its own.
+    sp3: bool,
+    /// No group of the set misses a demanded band.
+    bands_present: bool,
+}
+
+impl PartView {
+    /// Summarises the groups `present` (index order).
+    fn fill(&mut self, problem: &Problem<'_>, parts: &Parts, present: &[usize]) {
+        let nb = problem.bands.len();
+        self.present.clear();
+        self.present.extend_from_slice(present);
+        self.set.clear();
+        present.iter().for_each(|&g| self.set.insert(g));
+        self.quality.clear();
+        self.quality.resize(nb, None);
+        self.by_groups.clear();
+        self.by_groups.resize(nb, false);
+        self.credit.clear();
+        self.credit.resize(nb, 0.0);
+        self.shared.clear();
+        let set = &self.set;
+        for (b, ex) in problem.explainers.iter().enumerate() {
+            let q = &mut self.quality[b];
+            let mut take = |x: f64| *q = Some(q.map_or(x, |y: f64| y.max(x)));
+            for &(g, _, x) in &ex.groups {
+                if set.contains(g) {
+                    take(x);
+                    self.by_groups[b] = true;
+                }
+            }
+            for (_, gs, x) in &ex.patterns {
+                if gs.iter().any(|&g| set.contains(g)) {
+                    take(*x);
+                    self.by_groups[b] = true;
+                }
+            }
+        }
+        self.shared.extend(
+            problem
+                .explained_by_groups
+                .iter()
+                .map(|s| s.intersection_count(set)),
+        );
+        for &g in present {
+            for &(b, c) in &parts.credits[g] {
+                self.credit[b] = self.credit[b].max(c);
+            }
+        }
+        self.skeleton_need.clear();
+        self.skeleton_need.extend(
+            problem
+                .skeleton_needs
+                .iter()
+                .map(|(gs, _)| gs.iter().any(|&g| set.contains(g))),
+        );
+        self.skeleton_quality.clear();
+        let need = &self.skeleton_need;
+        self.skeleton_quality
+            .extend(problem.explainers.iter().map(|ex| {
+                best_of(
+                    ex.skeleton
+                        .iter()
+                        .filter(|(si, _)| need[*si])
+                        .map(|(_, q)| *q),
+                )
+            }));
+        self.sp3 = present.iter().any(|&g| problem.groups[g].sp3_ch);
+        self.bands_present = present
+            .iter()
+            .all(|&g| problem.groups[g].presence.missing.is_empty());
+    }
+}
+
+/// The largest of some qualities, if any.
+fn best_of(qs: impl Iterator<Item = f64>) -> Option<f64> {
+    qs.fold(None, |a: Option<f64>, q| Some(a.map_or(q, |a| a.max(q))))
+}
+
+/// The larger of two optional qualities.
+fn better(a: Option<f64>, b: Option<f64>) -> Option<f64> {
+    match (a, b) {
+        (Some(x), Some(y)) => Some(x.max(y)),
+        (x, None) => x,
+        (None, y) => y,
+    }
+}
+
+/// A head's per-band qualities that no tail changes.
+#[derive(Clone, Debug, Default)]
+struct HeadBands {
+    /// Per active band: best of the artefacts, the head's band rules and patterns and
+    /// the skeleton rules whose needs the head meets.
+    fixed: Vec<Option<f64>>,
+}
+
+/// What a head and a tail pattern decide together, whatever the counts.
+#[derive(Clone, Debug)]
+struct SlotEval {
+    /// Presence, relations and band explanation hold.
+    holds: bool,
+    /// What bands only the skeleton explains ask of the bonds.
+    needs: NeedsSummary,
+    /// Some group present holds an sp3 C–H of its own.
+    sp3_group: bool,
+    /// Sum of the group parts of the groups present (`score::Parts::group`).
+    groups: f64,
+    /// The candidate terms that depend on presence alone (slots 3 and 5 left empty).
+    values: [Option<f64>; 6],
+    /// Where its per-band best explanation qualities start in the head's arena (the
+    /// signature compares them).
+    band_quality_at: usize,
+    /// Tail groups present whose bands are seen (bit k: tail group k).
+    seen_split: u32,
+    /// The class of the combinations with this head and pattern, once one is found.
+    class: Option<u32>,
+}
+
+/// Everything fixed for one solve.
+struct Shared<'a, 'c> {
+    problem: &'a Problem<'c>,
+    parts: &'a Parts,
+    tail: &'a [usize],
+    /// Per concrete group: the active bands it explains (`Problem::explained_by_groups`).
+    own_bands: Vec<Vec<usize>>,
+    /// Per skeleton rule: the H it needs (`band_explanation::h_kind`).
+    h_kinds: Vec<Option<bool>>,
+    /// Per active band: best artefact quality.
+    artefact: Vec<Option<f64>>,
+    /// Per active band: best quality of the skeleton rules that need an sp3 carbon.
+    sp3_skeleton: Vec<Option<f64>>,
+    /// Per tail pattern (bit k: tail group k present): its summary.
+    patterns: Vec<PartView>,
+    /// Per (carbons, DBE) left by a head: the tail fillings.
+    tables: HashMap<(u32, u32), Rc<Vec<TailFill>>>,
+}
+
+/// One way the tail takes what a head leaves.
+#[derive(Clone, Debug)]
+struct TailFill {
+    /// Count per tail group.
+    counts: Vec<u32>,
+    /// Tail groups present (bit k: tail group k).
+    pattern: u32,
+    /// Skeleton carbons left.
+    skeleton_c: u32,
+    /// Group instances.
+    instances: u32,
+    /// Open valences and atoms.
+    tally: Tally,
+}
+
+impl<'a, 'c> Shared<'a, 'c> {
+    fn new(problem: &'a Problem<'c>, parts: &'a Parts, tail: &'a [usize]) -> Self {
+        let own_bands = (0..problem.groups.len())
+            .map(|g| {
+                (0..problem.bands.len())
+                    .filter(|&b| problem.explained_by_groups[b].contains(g))
+                    .collect()
+            })
+            .collect();
+        let h_kinds = (0..problem.skeleton_needs.len())
+            .map(|si| h_kind(problem, si))
+            .collect();
+        let artefact = problem
+            .explainers
+            .iter()
+            .map(|ex| best_of(ex.artefacts.iter().map(|(_, q)| *q)))
+            .collect();
+        let sp3_skeleton = problem
+            .explainers
+            .iter()
+            .map(|ex| {
+                best_of(
+                    ex.skeleton
+                        .iter()
+                        .filter(|(si, _)| problem.skeleton_needs[*si].1)
+                        .map(|(_, q)| *q),
+                )
+            })
+            .collect();
+        let patterns = (0..1u32 << tail.len())
+            .map(|pattern| {
+                let mut present: Vec<usize> = (0..tail.len())
+                    .filter(|k| pattern & (1 << k) != 0)
+                    .map(|k| tail[k])
+                    .collect();
+                present.sort_unstable();
+                let mut v = PartView::default();
+                v.fill(problem, parts, &present);
+                v
+            })
+            .collect();
+        Shared {
+            problem,
+            parts,
+            tail,
+            own_bands,
+            h_kinds,
+            artefact,
+            sp3_skeleton,
+            patterns,
+            tables: HashMap::new(),
+        }
+    }
+
+    /// The tail fillings of (carbons, DBE) left, listed on first use.
+    fn fills(&mut self, c_left: u32, dbe_left: u32) -> Rc<Vec<TailFill>> {
+        let (problem, tail) = (self.problem, self.tail);
+        let table = self.tables.entry((c_left, dbe_left)).or_insert_with(|| {
+            let mut full = vec![0u32; problem.groups.len()];
+            enumerate::tails(problem, tail, c_left, dbe_left)
+                .into_iter()
+                .map(|counts| {
+                    let mut present = Vec::new();
+                    let mut pattern = 0u32;
+                    let mut carbons = 0;
+                    for (k, &n) in counts.iter().enumerate() {
+                        full[tail[k]] = n;
+                        if n > 0 {
+                            present.push(tail[k]);
+                            pattern |= 1 << k;
+                            carbons += n * problem.groups[tail[k]].c;
+                        }
+                    }
+                    present.sort_unstable();
+                    let tally = Tally::of(problem, &full, &present);
+                    tail.iter().for_each(|&g| full[g] = 0);
+                    TailFill {
+                        instances: counts.iter().sum(),
+                        counts,
+                        pattern,
+                        skeleton_c: c_left - carbons,
+                        tally,
+                    }
+                })
+                .collect::<Vec<_>>()
+                .into()
+        });
+        Rc::clone(table)
+    }
+}
+
+/// True when no relation between the groups of `head` and `tail` fails (as
+/// `relations::check` finds for their union).
+fn relations_hold(problem: &Problem<'_>, head: &PartView, tail: &PartView) -> bool {
+    let present = |g: usize| head.set.contains(g) || tail.set.contains(g);
+    head.present.iter().chain(&tail.present).all(|&i| {
+        let excluded = problem.excludes[i].iter().any(|&j| j > i && present(j));
+        let requires = &problem.requires[i];
+        let unmet = !problem.groups[i].group.requires_any.is_empty()
+            && !requires.iter().any(|&j| present(j));
+        !excluded && !unmet
+    })
+}
+
+/// Buffers reused from one slot to the next.
+#[derive(Debug, Default)]
+struct Scratch {
+    /// Per active band: best direct explanation quality.
+    direct: Vec<Option<f64>>,
+    /// The groups present, in index order.
+    present: Vec<usize>,
+    /// Per slot of the head, per active band: best explanation quality.
+    arena: Vec<Option<f64>>,
+}
+
+/// Evaluates a head with a tail pattern, with or without skeleton carbons left.
+fn evaluate_slot(
+    sh: &Shared<'_, '_>,
+    head: &PartView,
+    head_bands: &HeadBands,
+    tail: &PartView,
+    pattern: u32,
+    skeleton_left: bool,
+    scratch: &mut Scratch,
+) -> SlotEval {
+    let problem = sh.problem;
+    let sp3_group = head.sp3 || tail.sp3;
+    let sp3_ok = skeleton_left || sp3_group;
+    let mut holds = head.bands_present && tail.bands_present && relations_hold(problem, head, tail);
+    let mut needs = NeedsSummary::default();
+    let direct = &mut scratch.direct;
+    direct.clear();
+    for (b, ex) in problem.explainers.iter().enumerate() {
+        let sp3 = if sp3_ok { sh.sp3_skeleton[b] } else { None };
+        let skeleton = better(
+            better(head.skeleton_quality[b], tail.skeleton_quality[b]),
+            sp3,
+        );
+        direct.push(better(
+            better(head_bands.fixed[b], tail.quality[b]),
+            better(tail.skeleton_quality[b], sp3),
+        ));
+        if holds
+            && ex.demanded
+            && ex.artefacts.is_empty()
+            && !head.by_groups[b]
+            && !tail.by_groups[b]
+        {
+            // As band_explanation::check: only the skeleton may explain the band.
+            if skeleton.is_none() {
+                holds = false;
+                continue;
+            }
+            let applies = |si: usize| {
+                (problem.skeleton_needs[si].1 && sp3_ok)
+                    || head.skeleton_need[si]
+                    || tail.skeleton_need[si]
+            };
+            let applicable = || {
+                ex.skeleton
+                    .iter()
+                    .map(|(si, _)| *si)
+                    .filter(|&si| applies(si))
+            };
+            if applicable().all(|si| sh.h_kinds[si] == Some(true)) {
+                needs.sp3_h = true;
+            } else if applicable().all(|si| sh.h_kinds[si] == Some(false)) {
+                let offered = applicable().any(|si| {
+                    problem.skeleton_needs[si].0.iter().any(|&g| {
+                        (head.set.contains(g) || tail.set.contains(g))
+                            && problem.groups[g].group.bonds.carbon_or_h > 0
+                    })
+                });
+                needs.sp2_h = Some(offered);
+            }
+        }
+    }
+    let band_quality_at = scratch.arena.len();
+    let direct = &scratch.direct;
+    scratch.arena.extend((0..direct.len()).map(|b| {
+        direct[b].or_else(|| {
+            let j = problem.explainers[b].branch_of?;
+            direct[j].map(|q| BRANCH_QUALITY * q)
+        })
+    }));
+    let (values, groups) = presence_values(sh, head, tail, band_quality_at, scratch);
+    let seen_split = (0..sh.tail.len())
+        .filter(|&k| pattern & (1 << k) != 0)
+        .filter(|&k| !problem.groups[sh.tail[k]].presence.matched.is_empty())
+        .fold(0u32, |m, k| m | (1 << k));
+    SlotEval {
+        holds,
+        needs,
+        sp3_group,
+        groups,
+        values,
+        band_quality_at,
+        seen_split,
+        class: None,
+    }
+}
+
+/// The candidate terms that depend on presence alone (as `score::candidate_values`
+/// computes them; slots 3 and 5 are left to the counts) and the sum of the group parts.
+fn presence_values(
+    sh: &Shared<'_, '_>,
+    head: &PartView,
+    tail: &PartView,
+    band_quality_at: usize,
+    scratch: &mut Scratch,
+) -> ([Option<f64>; 6], f64) {
+    let problem = sh.problem;
+    let band_quality = &scratch.arena[band_quality_at..band_quality_at + problem.bands.len()];
+    let mut values = [None; 6];
+    let seen: f64 = (0..band_quality.len())
+        .map(|b| head.credit[b].max(tail.credit[b]))
+        .sum();
+    if seen != 0.0 {
+        values[0] = Some(score::round3(seen));
+    }
+    let mut explained = 0.0;
+    let mut unexplained = 0.0;
+    for (q, (_, b)) in band_quality.iter().zip(&problem.bands) {
+        match q {
+            Some(q) => explained += W_EXPLAINED * q,
+            None => unexplained += unexplained_penalty(b.band.at, b.band.strength),
+        }
+    }
+    if explained != 0.0 {
+        values[1] = Some(score::round3(explained));
+    }
+    if unexplained != 0.0 {
+        values[2] = Some(score::round3(-unexplained));
+    }
+    let present = &mut scratch.present;
+    present.clear();
+    present.extend_from_slice(&head.present);
+    present.extend_from_slice(&tail.present);
+    present.sort_unstable();
+    if present.len() >= 2 {
+        let borrowed = present
+            .iter()
+            .filter(|&&g| {
+                let own = &sh.own_bands[g];
+                !own.is_empty() && own.iter().all(|&b| head.shared[b] + tail.shared[b] > 1)
+            })
+            .count();
+        if borrowed > 0 {
+            values[4] = Some(score::round3(-score::P_NO_OWN_BAND * borrowed as f64));
+        }
+    }
+    let groups: f64 = present.iter().map(|&g| sh.parts.group[g]).sum();
+    (values, groups)
+}
+
+/// The per-band part of a class signature (as `collapse::signature_key` writes it).
+fn band_key(band_quality: &[Option<f64>]) -> Vec<i64> {
+    band_quality
+        .iter()
+        .flat_map(|q| match q {
+            Some(q) => [1, (q * 1000.0).round() as i64],
+            None => [0, 0],
+        })
+        .collect()
+}
+
+/// [`super::classes::gather`] for a case whose walk ends with the split groups `tail`.
+pub fn gather<M: Meter>(
+    problem: &Problem<'_>,
+    options: &SolveOptions,
+    parts: &Parts,
+    tail: &[usize],
+    meter: &mut M,
+    stage: Stage,
+) -> Result<Gathered, M::Stop> {
+    let mut g = Gatherer {
+        sh: Shared::new(problem, parts, tail),
+        limit: options.enumeration_limit,
+        meter,
+        stage,
+        out: Gathered::empty(problem),
+        per_member: member_bytes(problem),
+        head: HeadState::default(),
+        slots: Vec::new(),
+        slot_of: vec![u32::MAX; 2 << tail.len()],
+        n_classes: 0,
+        stop: None,
+        sp3_term_applies: problem.has_ir && !problem.sp3_ch_stretch_seen,
+    };
+    let allowed = problem.allowed_groups();
+    enumerate::walk_heads(problem, &allowed, tail, |counts, c_left, dbe_left| {
+        g.visit_head(counts, c_left, dbe_left)
+    });
+    if let Some(e) = g.stop {
+        return Err(e);
+    }
+    g.out.n_classes = g.n_classes as usize;
+    Ok(g.out)
+}
+
+/// What is known of the head being filled in.
+#[derive(Debug, Default)]
+struct HeadState {
+    /// Its groups, in index order.
+    present: Vec<usize>,
+    /// Their band summary.
+    view: PartView,
+    /// Its per-band qualities that no tail changes.
+    bands: HeadBands,
+    /// Its open valences and atoms.
+    tally: Tally,
+    /// Its group instances.
+    instances: u32,
+    /// Its classes: (seen split groups, band key, class).
+    classes: Vec<(u32, Vec<i64>, u32)>,
+    /// The counts of the combination being filled in (the head's, then a tail's).
+    counts: Vec<u32>,
+    /// Buffers of the slot evaluations.
+    scratch: Scratch,
+}
+
+/// The state of a factored gathering.
+struct Gatherer<'a, 'c, M: Meter> {
+    sh: Shared<'a, 'c>,
+    limit: usize,
+    meter: &'a mut M,
+    stage: Stage,
+    out: Gathered,
+    per_member: u64,
+    head: HeadState,
+    /// The slots of the current head, in the order met.
+    slots: Vec<SlotEval>,
+    /// Per (pattern, skeleton carbons left): index into `slots`, `u32::MAX` if not met.
+    slot_of: Vec<u32>,
+    n_classes: u32,
+    stop: Option<M::Stop>,
+    /// The "no sp3 C–H stretch" term can apply (IR given, no sp3 C–H stretch seen).
+    sp3_term_applies: bool,
+}
+
+impl<M: Meter> Gatherer<'_, '_, M> {
+    /// Keeps a metered step's stop; `Stop` when there is one.
+    fn metered(&mut self, step: Result<(), M::Stop>) -> Flow {
+        Flow::after_metered(step, &mut self.stop)
+    }
+
+    /// Fills in every tail of one head.
+    fn visit_head(&mut self, counts: &[u32], c_left: u32, dbe_left: u32) -> Flow {
+        let tick = self.meter.tick(self.stage);
+        if self.metered(tick) == Flow::Stop {
+            return Flow::Stop;
+        }
+        let problem = self.sh.problem;
+        if !ionic::check(problem, counts).is_empty() {
+            return Flow::Continue;
+        }
+        self.prepare_head(counts);
+        let fills = self.sh.fills(c_left, dbe_left);
+        for fill in fills.iter() {
+            if self.visit_fill(fill) == Flow::Stop {
+                return Flow::Stop;
+            }
+        }
+        Flow::Continue
+    }
+
+    /// Summarises a new head and forgets the slots of the last.
+    fn prepare_head(&mut self, counts: &[u32]) {
+        let (problem, sh, h) = (self.sh.problem, &self.sh, &mut self.head);
+        h.present.clear();
+        h.present
+            .extend((0..counts.len()).filter(|&g| counts[g] > 0));
+        h.view.fill(problem, sh.parts, &h.present);
+        h.bands.fixed.clear();
+        let view = &h.view;
+        h.bands.fixed.extend((0..problem.bands.len()).map(|b| {
+            better(
+                better(sh.artefact[b], view.quality[b]),
+                view.skeleton_quality[b],
+            )
+        }));
+        h.tally = Tally::of(problem, counts, &h.present);
+        h.instances = counts.iter().sum();
+        h.classes.clear();
+        h.counts.clear();
+        h.counts.extend_from_slice(counts);
+        h.scratch.arena.clear();
+        self.slots.clear();
+        self.slot_of.iter_mut().for_each(|s| *s = u32::MAX);
+    }
+
+    /// Checks one tail filling of the current head and keeps it when consistent.
+    fn visit_fill(&mut self, fill: &TailFill) -> Flow {
+        let problem = self.sh.problem;
+        let sk = fill.skeleton_c;
+        let slot_idx = (fill.pattern as usize) << 1 | usize::from(sk > 0);
+        if self.slot_of[slot_idx] == u32::MAX {
+            let h = &mut self.head;
+            let tail_view = &self.sh.patterns[fill.pattern as usize];
+            self.slot_of[slot_idx] = self.slots.len() as u32;
+            self.slots.push(evaluate_slot(
+                &self.sh,
+                &h.view,
+                &h.bands,
+                tail_view,
+                fill.pattern,
+                sk > 0,
+                &mut h.scratch,
+            ));
+        }
+        let slot_at = self.slot_of[slot_idx] as usize;
+        let slot = &self.slots[slot_at];
+        let tally = self.head.tally.plus(&fill.tally);
+        if !slot.holds || bonds::verdict(problem, &tally, sk, &slot.needs) != Verdict::Holds {
+            let tick = self.meter.tick(self.stage);
+            return self.metered(tick);
+        }
+        if self.out.members.len() >= self.limit {
+            self.out.truncated = true;
+            return Flow::Stop;
+        }
+        let mut values = slot.values;
+        if self.sp3_term_applies
+            && (slot.sp3_group
+                || (sk > 0
+                    && problem.formula.is_some()
+                    && u64::from(problem.formula_h) > tally.h_held_and_open()))
+        {
+            values[3] = Some(-score::P_NO_SP3_CH_STRETCH);
+        }
+        let instances = self.head.instances + fill.instances;
+        if instances > 1 {
+            values[5] = Some(score::round3(
+                -score::P_PER_EXTRA_INSTANCE * f64::from(instances - 1),
+            ));
+        }
+        let s = score::total(slot.groups, &values);
+        let (class, class_bytes) = self.class_of(slot_at, fill.pattern);
+        let h = &mut self.head;
+        for (k, &g) in self.sh.tail.iter().enumerate() {
+            h.counts[g] = fill.counts[k];
+        }
+        self.out.members.push(&h.counts, sk, s, instances, class);
+        let bytes = self.per_member + class_bytes;
+        self.out.held += bytes;
+        let hold = self.meter.hold(bytes, self.stage);
+        self.metered(hold)
+    }
+
+    /// The class of slot `slot_at` (met first now, or earlier) and the bytes a new
+    /// class holds; a slot's first member marks its groups as in some candidate.
+    fn class_of(&mut self, slot_at: usize, pattern: u32) -> (u32, u64) {
+        if let Some(c) = self.slots[slot_at].class {
+            return (c, 0);
+        }
+        let nb = self.sh.problem.bands.len();
+        let h = &mut self.head;
+        let slot = &mut self.slots[slot_at];
+        let at = slot.band_quality_at;
+        let key = band_key(&h.scratch.arena[at..at + nb]);
+        let found = h
+            .classes
+            .iter()
+            .find(|(seen, k, _)| *seen == slot.seen_split && *k == key)
+            .map(|(_, _, c)| *c);
+        let mut bytes = 0;
+        let class = found.unwrap_or_else(|| {
+            let c = self.n_classes;
+            self.n_classes += 1;
+            // As collapse::signature_key lays the key out.
+            let key_len =
+                2 + 2 * h.present.len() + slot.seen_split.count_ones() as usize + key.len();
+            bytes = class_bytes(key_len);
+            h.classes.push((slot.seen_split, key, c));
+            c
+        });
+        slot.class = Some(class);
+        for &g in &h.present {
+            self.out.in_some_candidate[g] = true;
+        }
+        for (k, &g) in self.sh.tail.iter().enumerate() {
+            if pattern & (1 << k) != 0 {
+                self.out.in_some_candidate[g] = true;
+            }
+        }
+        (class, bytes)
+    }
+}
