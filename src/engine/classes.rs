@@ -19,12 +19,27 @@ use crate::budget::{Meter, Stage};
 use std::cmp::Ordering;
 
 /// The consistent combinations of a solve in flat columns, in the order found.
+///
+/// Counts are kept in *blocks* and *tails*: a block holds the counts of every group, a
+/// member points to one block and holds its own counts of the tail groups (those
+/// [`super::tails`] fills in), which overwrite the block's. Members of one head share
+/// its block; with no tail groups every member has a block of its own.
 #[derive(Debug, Default)]
 pub struct Members {
-    /// Concrete groups per combination (the stride of `counts`).
+    /// Concrete groups per combination (the stride of `blocks`).
     n_groups: usize,
-    /// Group counts, `n_groups` per combination.
-    counts: Columns,
+    /// Per concrete group: its position among the tail groups, if it is one.
+    tail_pos: Vec<Option<usize>>,
+    /// Tail groups (the stride of `tails`).
+    n_tail: usize,
+    /// Group counts, `n_groups` per block.
+    blocks: Columns,
+    /// Blocks started.
+    n_blocks: u32,
+    /// Per member: its block.
+    block: Vec<u32>,
+    /// Tail group counts, `n_tail` per member.
+    tails: Columns,
     /// Skeleton carbons.
     skeleton: Vec<u32>,
     /// Score (`score::score`).
@@ -36,6 +51,21 @@ pub struct Members {
 }
 
 impl Members {
+    /// No member yet, for `n_groups` concrete groups of which `tail` are filled in per
+    /// member.
+    pub(super) fn new(n_groups: usize, tail: &[usize]) -> Self {
+        let mut tail_pos = vec![None; n_groups];
+        for (k, &g) in tail.iter().enumerate() {
+            tail_pos[g] = Some(k);
+        }
+        Members {
+            n_groups,
+            tail_pos,
+            n_tail: tail.len(),
+            ..Members::default()
+        }
+    }
+
     /// How many combinations are held.
     pub fn len(&self) -> usize {
         self.score.len()
@@ -46,57 +76,62 @@ impl Members {
         self.score.is_empty()
     }
 
-    /// The group counts of combination `i`.
-    pub fn counts(&self, i: usize) -> Vec<u32> {
-        let at = i * self.n_groups..(i + 1) * self.n_groups;
-        match &self.counts {
-            Columns::Narrow(c) => c[at].iter().map(|&n| u32::from(n)).collect(),
-            Columns::Wide(c) => c[at].to_vec(),
+    /// The count of group `g` in combination `i`.
+    fn count(&self, i: usize, g: usize) -> u32 {
+        match self.tail_pos[g] {
+            Some(k) => self.tails.get(i * self.n_tail + k),
+            None => self.blocks.get(self.block[i] as usize * self.n_groups + g),
         }
     }
 
-    /// Adds one combination with its score, group instances and class.
-    pub(super) fn push(
+    /// The group counts of combination `i`.
+    pub fn counts(&self, i: usize) -> Vec<u32> {
+        (0..self.n_groups).map(|g| self.count(i, g)).collect()
+    }
+
+    /// Starts a block holding `counts` (the members pushed next refer to it).
+    pub(super) fn start_block(&mut self, counts: &[u32]) {
+        self.blocks.push(counts);
+        self.n_blocks += 1;
+    }
+
+    /// Adds one combination with its score, group instances and class: its tail counts
+    /// over the last block started.
+    pub(super) fn push_over_block(
         &mut self,
-        counts: &[u32],
+        tail_counts: &[u32],
         skeleton: u32,
         score: f64,
         instances: u32,
         class: u32,
     ) {
-        self.push_counts(counts);
+        self.block.push(self.n_blocks.saturating_sub(1));
+        self.tails.push(tail_counts);
         self.skeleton.push(skeleton);
         self.score.push(score);
         self.instances.push(instances);
         self.class.push(class);
     }
 
-    /// Adds the counts of one combination.
-    fn push_counts(&mut self, counts: &[u32]) {
-        if let Columns::Narrow(c) = &mut self.counts {
-            if counts.iter().all(|&n| n <= u32::from(u8::MAX)) {
-                c.extend(counts.iter().map(|&n| n as u8));
-                return;
-            }
-            // A count past one byte: every column widens (never met with formulas of
-            // up to 255 atoms of each element).
-            self.counts = Columns::Wide(c.iter().map(|&n| u32::from(n)).collect());
-        }
-        if let Columns::Wide(c) = &mut self.counts {
-            c.extend_from_slice(counts);
-        }
+    /// Adds one combination with its score, group instances and class (in a block of
+    /// its own).
+    fn push(&mut self, counts: &[u32], skeleton: u32, score: f64, instances: u32, class: u32) {
+        self.start_block(counts);
+        self.push_over_block(&[], skeleton, score, instances, class);
     }
 
     /// The counts of `a` and `b` compared as a whole.
     fn counts_cmp(&self, a: usize, b: usize) -> Ordering {
-        let (ra, rb) = (
-            a * self.n_groups..(a + 1) * self.n_groups,
-            b * self.n_groups..(b + 1) * self.n_groups,
-        );
-        match &self.counts {
-            Columns::Narrow(c) => c[ra].cmp(&c[rb]),
-            Columns::Wide(c) => c[ra].cmp(&c[rb]),
+        if self.n_tail == 0 {
+            let (ra, rb) = (self.block[a] as usize, self.block[b] as usize);
+            return self
+                .blocks
+                .cmp_runs(ra * self.n_groups, rb * self.n_groups, self.n_groups);
         }
+        (0..self.n_groups)
+            .map(|g| self.count(a, g).cmp(&self.count(b, g)))
+            .find(|o| o.is_ne())
+            .unwrap_or(Ordering::Equal)
     }
 
     /// The skeleton carbons of combination `i`.
@@ -118,8 +153,8 @@ impl Members {
     }
 }
 
-/// Group counts in columns: one byte per count while every count fits (a quarter of
-/// the memory for the hundreds of thousands of combinations of a loose case), four bytes
+/// Counts in a column: one byte per count while every count fits (a quarter of the
+/// memory for the hundreds of thousands of combinations of a loose case), four bytes
 /// once one does not. Bytes compare as the counts they hold.
 #[derive(Debug)]
 enum Columns {
@@ -132,6 +167,40 @@ enum Columns {
 impl Default for Columns {
     fn default() -> Self {
         Columns::Narrow(Vec::new())
+    }
+}
+
+impl Columns {
+    /// The count at `i`.
+    fn get(&self, i: usize) -> u32 {
+        match self {
+            Columns::Narrow(c) => u32::from(c[i]),
+            Columns::Wide(c) => c[i],
+        }
+    }
+
+    /// Adds `counts`.
+    fn push(&mut self, counts: &[u32]) {
+        if let Columns::Narrow(c) = self {
+            if counts.iter().all(|&n| n <= u32::from(u8::MAX)) {
+                c.extend(counts.iter().map(|&n| n as u8));
+                return;
+            }
+            // A count past one byte: every column widens (never met with formulas of
+            // up to 255 atoms of each element).
+            *self = Columns::Wide(c.iter().map(|&n| u32::from(n)).collect());
+        }
+        if let Columns::Wide(c) = self {
+            c.extend_from_slice(counts);
+        }
+    }
+
+    /// The runs of `len` counts at `a` and at `b` compared.
+    fn cmp_runs(&self, a: usize, b: usize, len: usize) -> Ordering {
+        match self {
+            Columns::Narrow(c) => c[a..a + len].cmp(&c[b..b + len]),
+            Columns::Wide(c) => c[a..a + len].cmp(&c[b..b + len]),
+        }
     }
 }
 
@@ -151,13 +220,11 @@ pub struct Gathered {
 }
 
 impl Gathered {
-    /// Nothing gathered yet, for the groups of `problem`.
-    pub(super) fn empty(problem: &Problem<'_>) -> Self {
+    /// Nothing gathered yet, for the groups of `problem` of which `tail` are filled in
+    /// per member.
+    pub(super) fn empty(problem: &Problem<'_>, tail: &[usize]) -> Self {
         Gathered {
-            members: Members {
-                n_groups: problem.groups.len(),
-                ..Members::default()
-            },
+            members: Members::new(problem.groups.len(), tail),
             in_some_candidate: vec![false; problem.groups.len()],
             ..Gathered::default()
         }
@@ -166,8 +233,11 @@ impl Gathered {
 
 /// Estimated bytes one member holds (its columns, counts one byte each).
 pub(super) fn member_bytes(problem: &Problem<'_>) -> u64 {
-    (problem.groups.len() + 4 + 8 + 4 + 4) as u64
+    problem.groups.len() as u64 + MEMBER_COLUMN_BYTES
 }
+
+/// Bytes a member holds besides its counts: block, skeleton, score, instances, class.
+pub(super) const MEMBER_COLUMN_BYTES: u64 = 4 + 4 + 8 + 4 + 4;
 
 /// Estimated bytes a new class holds: its key (in the index) and its entries.
 pub(super) fn class_bytes(key_len: usize) -> u64 {
@@ -187,7 +257,7 @@ pub fn gather<M: Meter>(
     if let Some(tail) = super::tails::factored_tail(problem, &allowed) {
         return super::tails::gather(problem, options, parts, &tail, meter, stage);
     }
-    let mut out = Gathered::empty(problem);
+    let mut out = Gathered::empty(problem, &[]);
     let per_member = member_bytes(problem);
     let mut index: foldhash::HashMap<Box<[i64]>, u32> = foldhash::HashMap::default();
     let (mut present, mut band_quality, mut key) = (Vec::new(), Vec::new(), Vec::new());
@@ -212,12 +282,7 @@ pub fn gather<M: Meter>(
                     c
                 }
             };
-            let m = &mut out.members;
-            m.push_counts(counts);
-            m.skeleton.push(sk);
-            m.score.push(s);
-            m.instances.push(counts.iter().sum());
-            m.class.push(class);
+            out.members.push(counts, sk, s, counts.iter().sum(), class);
             present
                 .iter()
                 .for_each(|&g| out.in_some_candidate[g] = true);
@@ -240,8 +305,11 @@ pub fn gather<M: Meter>(
 pub struct Ranked {
     /// The combinations.
     pub members: Members,
-    /// Per class, best first: its best member.
+    /// Per class, best first: its best member (the first classes only, when ranked
+    /// with [`Ranked::top`]).
     pub best: Vec<usize>,
+    /// Classes in all.
+    pub n_classes: usize,
     /// Per concrete group: present in some consistent combination.
     pub in_some_candidate: Vec<bool>,
 }
@@ -249,6 +317,12 @@ pub struct Ranked {
 impl Ranked {
     /// Ranks the classes of `gathered` by their best members.
     pub fn new(gathered: Gathered) -> Self {
+        Self::top(gathered, usize::MAX)
+    }
+
+    /// Ranks the first `k` classes of `gathered` by their best members; the others are
+    /// counted, not ranked (a solve shows a few dozen of tens of thousands).
+    pub fn top(gathered: Gathered, k: usize) -> Self {
         let members = gathered.members;
         let mut best: Vec<Option<usize>> = vec![None; gathered.n_classes];
         for (i, &c) in members.class.iter().enumerate() {
@@ -258,10 +332,18 @@ impl Ranked {
             }
         }
         let mut best: Vec<usize> = best.into_iter().flatten().collect();
+        let n_classes = best.len();
+        if k < best.len() {
+            // The key is total (see the module doc), so the first k are the same as in
+            // a full sort.
+            best.select_nth_unstable_by(k, |&a, &b| members.rank_cmp(a, b));
+            best.truncate(k);
+        }
         best.sort_unstable_by(|&a, &b| members.rank_cmp(a, b));
         Self {
             members,
             best,
+            n_classes,
             in_some_candidate: gathered.in_some_candidate,
         }
     }
@@ -269,7 +351,7 @@ impl Ranked {
     /// The members other than the best of each of the first `n` classes, best first.
     pub fn others(&self, n: usize) -> Vec<Vec<usize>> {
         let n = n.min(self.best.len());
-        let mut slot = vec![u32::MAX; self.best.len()];
+        let mut slot = vec![u32::MAX; self.n_classes];
         for (k, &b) in self.best.iter().take(n).enumerate() {
             slot[self.members.class[b] as usize] = k as u32;
         }

@@ -217,7 +217,8 @@ fn solve_stated_within<M: Meter>(
         classes::Gathered::default()
     };
     let (truncated, held) = (found.truncated, found.held);
-    let ranked = classes::Ranked::new(found);
+    // The classes shown and the leaders the discriminating checks compare.
+    let ranked = classes::Ranked::top(found, options.max_candidates.max(5));
     let candidates = shown_candidates(&problem, &ranked, options, ms_e, molecular_nominal, &parts);
     let near_misses = if formula_ok {
         near_misses(&problem, options, &parts)
@@ -244,7 +245,7 @@ fn solve_stated_within<M: Meter>(
     let discriminating_checks = discriminate::checks(&problem, &leaders, 12);
 
     meter.release(held);
-    let n_consistent = ranked.best.len();
+    let n_consistent = ranked.n_classes;
     Ok(Outcome {
         case: case.id.clone(),
         formula: case.formula.as_ref().map(|f| f.composition.to_string()),

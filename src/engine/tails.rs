@@ -17,7 +17,7 @@
 //! The combinations, their scores, classes and the order in which they are found are
 //! those of checking every leaf of the full walk (the tests compare both paths).
 
-use super::classes::{class_bytes, member_bytes, Gathered};
+use super::classes::{class_bytes, Gathered, MEMBER_COLUMN_BYTES};
 use super::constraints::band_explanation::{h_kind, BRANCH_QUALITY};
 use super::constraints::bonds::{self, NeedsSummary, Tally, Verdict};
 use super::constraints::ionic;
@@ -34,7 +34,21 @@ const MAX_TAIL_GROUPS: usize = 10;
 
 /// The tail of a case's walk when the factored gathering applies to it.
 pub fn factored_tail(problem: &Problem<'_>, allowed: &[usize]) -> Option<Vec<usize>> {
+    if problem.bands.len() > MAX_BANDS {
+        return None;
+    }
     enumerate::split_tail(problem, allowed).filter(|t| !t.is_empty() && t.len() <= MAX_TAIL_GROUPS)
+}
+
+/// A quality that is not there (every quality is ≥ 0, so `max` keeps the best).
+const NONE: f64 = f64::NEG_INFINITY;
+
+/// Active bands at most for a factored walk (bands are kept as bits of a word).
+const MAX_BANDS: usize = 64;
+
+/// Bits of the bands for which `f` holds.
+fn band_mask(nb: usize, f: impl Fn(usize) -> bool) -> u64 {
+    (0..nb).filter(|&b| f(b)).fold(0, |m, b| m | (1 << b))
 }
 
 /// Band-by-band summary of a set of groups (a head's, or a tail pattern's).
@@ -45,18 +59,22 @@ struct PartView {
     /// The same as a set.
     set: GroupSet,
     /// Per active band: best quality of the set's band rules and patterns.
-    quality: Vec<Option<f64>>,
-    /// Per active band: some band rule or pattern of the set explains it.
-    by_groups: Vec<bool>,
-    /// Per active band: best credit of the set's rules (`score::Parts::credits`).
-    credit: Vec<f64>,
-    /// Per active band: groups of the set that explain it.
-    shared: Vec<u32>,
-    /// Per skeleton rule: a group of the set meets its `needs_any`.
-    skeleton_need: Vec<bool>,
+    quality: Vec<f64>,
     /// Per active band: best quality of the skeleton rules whose `needs_any` the set
     /// meets.
-    skeleton_quality: Vec<Option<f64>>,
+    skeleton_quality: Vec<f64>,
+    /// Per active band: best credit of the set's rules (`score::Parts::credits`).
+    credit: Vec<f64>,
+    /// Bands some band rule or pattern of the set explains.
+    by_groups: u64,
+    /// Bands some skeleton rule whose `needs_any` the set meets explains.
+    by_skeleton: u64,
+    /// Bands at least one group of the set explains.
+    shared_once: u64,
+    /// Bands at least two groups of the set explain.
+    shared_twice: u64,
+    /// Per skeleton rule: a group of the set meets its `needs_any`.
+    skeleton_need: Vec<bool>,
     /// Some group of the set holds an sp3 C–H of its own.
     sp3: bool,
     /// No group of the set misses a demanded band.
@@ -71,41 +89,22 @@ impl PartView {
         self.present.extend_from_slice(present);
         self.set.clear();
         present.iter().for_each(|&g| self.set.insert(g));
-        self.quality.clear();
-        self.quality.resize(nb, None);
-        self.by_groups.clear();
-        self.by_groups.resize(nb, false);
-        self.credit.clear();
-        self.credit.resize(nb, 0.0);
-        self.shared.clear();
         let set = &self.set;
-        for (b, ex) in problem.explainers.iter().enumerate() {
-            let q = &mut self.quality[b];
-            let mut take = |x: f64| *q = Some(q.map_or(x, |y: f64| y.max(x)));
-            for &(g, _, x) in &ex.groups {
-                if set.contains(g) {
-                    take(x);
-                    self.by_groups[b] = true;
-                }
-            }
-            for (_, gs, x) in &ex.patterns {
-                if gs.iter().any(|&g| set.contains(g)) {
-                    take(*x);
-                    self.by_groups[b] = true;
-                }
-            }
-        }
-        self.shared.extend(
-            problem
-                .explained_by_groups
+        self.quality.clear();
+        self.quality.extend(problem.explainers.iter().map(|ex| {
+            let rules = ex
+                .groups
                 .iter()
-                .map(|s| s.intersection_count(set)),
-        );
-        for &g in present {
-            for &(b, c) in &parts.credits[g] {
-                self.credit[b] = self.credit[b].max(c);
-            }
-        }
+                .filter(|(g, _, _)| set.contains(*g))
+                .map(|r| r.2);
+            let patterns = ex
+                .patterns
+                .iter()
+                .filter(|(_, gs, _)| gs.iter().any(|&g| set.contains(g)))
+                .map(|p| p.2);
+            rules.chain(patterns).fold(NONE, f64::max)
+        }));
+        self.by_groups = band_mask(nb, |b| self.quality[b] != NONE);
         self.skeleton_need.clear();
         self.skeleton_need.extend(
             problem
@@ -113,35 +112,35 @@ impl PartView {
                 .iter()
                 .map(|(gs, _)| gs.iter().any(|&g| set.contains(g))),
         );
-        self.skeleton_quality.clear();
         let need = &self.skeleton_need;
+        self.skeleton_quality.clear();
         self.skeleton_quality
             .extend(problem.explainers.iter().map(|ex| {
-                best_of(
-                    ex.skeleton
-                        .iter()
-                        .filter(|(si, _)| need[*si])
-                        .map(|(_, q)| *q),
-                )
+                ex.skeleton
+                    .iter()
+                    .filter(|(si, _)| need[*si])
+                    .map(|(_, q)| *q)
+                    .fold(NONE, f64::max)
             }));
+        self.by_skeleton = band_mask(nb, |b| self.skeleton_quality[b] != NONE);
+        let shared: Vec<u32> = problem
+            .explained_by_groups
+            .iter()
+            .map(|s| s.intersection_count(set))
+            .collect();
+        self.shared_once = band_mask(nb, |b| shared[b] >= 1);
+        self.shared_twice = band_mask(nb, |b| shared[b] >= 2);
+        self.credit.clear();
+        self.credit.resize(nb, 0.0);
+        for &g in present {
+            for &(b, c) in &parts.credits[g] {
+                self.credit[b] = self.credit[b].max(c);
+            }
+        }
         self.sp3 = present.iter().any(|&g| problem.groups[g].sp3_ch);
         self.bands_present = present
             .iter()
             .all(|&g| problem.groups[g].presence.missing.is_empty());
-    }
-}
-
-/// The largest of some qualities, if any.
-fn best_of(qs: impl Iterator<Item = f64>) -> Option<f64> {
-    qs.fold(None, |a: Option<f64>, q| Some(a.map_or(q, |a| a.max(q))))
-}
-
-/// The larger of two optional qualities.
-fn better(a: Option<f64>, b: Option<f64>) -> Option<f64> {
-    match (a, b) {
-        (Some(x), Some(y)) => Some(x.max(y)),
-        (x, None) => x,
-        (None, y) => y,
     }
 }
 
@@ -150,7 +149,7 @@ fn better(a: Option<f64>, b: Option<f64>) -> Option<f64> {
 struct HeadBands {
     /// Per active band: best of the artefacts, the head's band rules and patterns and
     /// the skeleton rules whose needs the head meets.
-    fixed: Vec<Option<f64>>,
+    fixed: Vec<f64>,
 }
 
 /// What a head and a tail pattern decide together, whatever the counts.
@@ -181,13 +180,17 @@ struct Shared<'a, 'c> {
     parts: &'a Parts,
     tail: &'a [usize],
     /// Per concrete group: the active bands it explains (`Problem::explained_by_groups`).
-    own_bands: Vec<Vec<usize>>,
+    own_bands: Vec<u64>,
+    /// Demanded bands no artefact explains.
+    demanded: u64,
+    /// Bands a skeleton rule that needs an sp3 carbon explains.
+    by_sp3_skeleton: u64,
     /// Per skeleton rule: the H it needs (`band_explanation::h_kind`).
     h_kinds: Vec<Option<bool>>,
     /// Per active band: best artefact quality.
-    artefact: Vec<Option<f64>>,
+    artefact: Vec<f64>,
     /// Per active band: best quality of the skeleton rules that need an sp3 carbon.
-    sp3_skeleton: Vec<Option<f64>>,
+    sp3_skeleton: Vec<f64>,
     /// Per tail pattern (bit k: tail group k present): its summary.
     patterns: Vec<PartView>,
     /// Per (carbons, DBE) left by a head: the tail fillings.
@@ -211,33 +214,34 @@ struct TailFill {
 
 impl<'a, 'c> Shared<'a, 'c> {
     fn new(problem: &'a Problem<'c>, parts: &'a Parts, tail: &'a [usize]) -> Self {
+        let nb = problem.bands.len();
         let own_bands = (0..problem.groups.len())
-            .map(|g| {
-                (0..problem.bands.len())
-                    .filter(|&b| problem.explained_by_groups[b].contains(g))
-                    .collect()
-            })
+            .map(|g| band_mask(nb, |b| problem.explained_by_groups[b].contains(g)))
             .collect();
+        let demanded = band_mask(nb, |b| {
+            let ex = &problem.explainers[b];
+            ex.demanded && ex.artefacts.is_empty()
+        });
         let h_kinds = (0..problem.skeleton_needs.len())
             .map(|si| h_kind(problem, si))
             .collect();
         let artefact = problem
             .explainers
             .iter()
-            .map(|ex| best_of(ex.artefacts.iter().map(|(_, q)| *q)))
+            .map(|ex| ex.artefacts.iter().map(|(_, q)| *q).fold(NONE, f64::max))
             .collect();
         let sp3_skeleton = problem
             .explainers
             .iter()
             .map(|ex| {
-                best_of(
-                    ex.skeleton
-                        .iter()
-                        .filter(|(si, _)| problem.skeleton_needs[*si].1)
-                        .map(|(_, q)| *q),
-                )
+                ex.skeleton
+                    .iter()
+                    .filter(|(si, _)| problem.skeleton_needs[*si].1)
+                    .map(|(_, q)| *q)
+                    .fold(NONE, f64::max)
             })
-            .collect();
+            .collect::<Vec<f64>>();
+        let by_sp3_skeleton = band_mask(nb, |b| sp3_skeleton[b] != NONE);
         let patterns = (0..1u32 << tail.len())
             .map(|pattern| {
                 let mut present: Vec<usize> = (0..tail.len())
@@ -255,6 +259,8 @@ impl<'a, 'c> Shared<'a, 'c> {
             parts,
             tail,
             own_bands,
+            demanded,
+            by_sp3_skeleton,
             h_kinds,
             artefact,
             sp3_skeleton,
@@ -317,11 +323,11 @@ fn relations_hold(problem: &Problem<'_>, head: &PartView, tail: &PartView) -> bo
 #[derive(Debug, Default)]
 struct Scratch {
     /// Per active band: best direct explanation quality.
-    direct: Vec<Option<f64>>,
+    direct: Vec<f64>,
     /// The groups present, in index order.
     present: Vec<usize>,
     /// Per slot of the head, per active band: best explanation quality.
-    arena: Vec<Option<f64>>,
+    arena: Vec<f64>,
 }
 
 /// Evaluates a head with a tail pattern, with or without skeleton carbons left.
@@ -337,62 +343,38 @@ fn evaluate_slot(
     let problem = sh.problem;
     let sp3_group = head.sp3 || tail.sp3;
     let sp3_ok = skeleton_left || sp3_group;
-    let mut holds = head.bands_present && tail.bands_present && relations_hold(problem, head, tail);
-    let mut needs = NeedsSummary::default();
     let direct = &mut scratch.direct;
     direct.clear();
-    for (b, ex) in problem.explainers.iter().enumerate() {
-        let sp3 = if sp3_ok { sh.sp3_skeleton[b] } else { None };
-        let skeleton = better(
-            better(head.skeleton_quality[b], tail.skeleton_quality[b]),
-            sp3,
-        );
-        direct.push(better(
-            better(head_bands.fixed[b], tail.quality[b]),
-            better(tail.skeleton_quality[b], sp3),
-        ));
-        if holds
-            && ex.demanded
-            && ex.artefacts.is_empty()
-            && !head.by_groups[b]
-            && !tail.by_groups[b]
-        {
-            // As band_explanation::check: only the skeleton may explain the band.
-            if skeleton.is_none() {
-                holds = false;
-                continue;
-            }
-            let applies = |si: usize| {
-                (problem.skeleton_needs[si].1 && sp3_ok)
-                    || head.skeleton_need[si]
-                    || tail.skeleton_need[si]
-            };
-            let applicable = || {
-                ex.skeleton
-                    .iter()
-                    .map(|(si, _)| *si)
-                    .filter(|&si| applies(si))
-            };
-            if applicable().all(|si| sh.h_kinds[si] == Some(true)) {
-                needs.sp3_h = true;
-            } else if applicable().all(|si| sh.h_kinds[si] == Some(false)) {
-                let offered = applicable().any(|si| {
-                    problem.skeleton_needs[si].0.iter().any(|&g| {
-                        (head.set.contains(g) || tail.set.contains(g))
-                            && problem.groups[g].group.bonds.carbon_or_h > 0
-                    })
-                });
-                needs.sp2_h = Some(offered);
-            }
-        }
+    let (fixed, tq, ts) = (&head_bands.fixed, &tail.quality, &tail.skeleton_quality);
+    if sp3_ok {
+        let sp3 = &sh.sp3_skeleton;
+        direct.extend((0..fixed.len()).map(|b| fixed[b].max(tq[b]).max(ts[b]).max(sp3[b])));
+    } else {
+        direct.extend((0..fixed.len()).map(|b| fixed[b].max(tq[b]).max(ts[b])));
+    }
+    let by_skeleton =
+        head.by_skeleton | tail.by_skeleton | if sp3_ok { sh.by_sp3_skeleton } else { 0 };
+    // As band_explanation::check: a demanded band no group explains needs the skeleton.
+    let skeleton_only = sh.demanded & !(head.by_groups | tail.by_groups);
+    let holds = head.bands_present
+        && tail.bands_present
+        && skeleton_only & !by_skeleton == 0
+        && relations_hold(problem, head, tail);
+    let mut needs = NeedsSummary::default();
+    if holds && skeleton_only != 0 {
+        needs = skeleton_needs(sh, head, tail, skeleton_only, sp3_ok);
     }
     let band_quality_at = scratch.arena.len();
     let direct = &scratch.direct;
     scratch.arena.extend((0..direct.len()).map(|b| {
-        direct[b].or_else(|| {
-            let j = problem.explainers[b].branch_of?;
-            direct[j].map(|q| BRANCH_QUALITY * q)
-        })
+        if direct[b] != NONE {
+            direct[b]
+        } else {
+            match problem.explainers[b].branch_of {
+                Some(j) => BRANCH_QUALITY * direct[j],
+                None => NONE,
+            }
+        }
     }));
     let (values, groups) = presence_values(sh, head, tail, band_quality_at, scratch);
     let seen_split = (0..sh.tail.len())
@@ -411,6 +393,43 @@ fn evaluate_slot(
     }
 }
 
+/// What the demanded bands in `bands` (explained by no group, each by some skeleton
+/// rule) ask of the bonds, as `band_explanation::check` words it.
+fn skeleton_needs(
+    sh: &Shared<'_, '_>,
+    head: &PartView,
+    tail: &PartView,
+    bands: u64,
+    sp3_ok: bool,
+) -> NeedsSummary {
+    let problem = sh.problem;
+    let mut needs = NeedsSummary::default();
+    let applies = |si: usize| {
+        (problem.skeleton_needs[si].1 && sp3_ok) || head.skeleton_need[si] || tail.skeleton_need[si]
+    };
+    for b in (0..problem.bands.len()).filter(|b| bands & (1 << b) != 0) {
+        let ex = &problem.explainers[b];
+        let applicable = || {
+            ex.skeleton
+                .iter()
+                .map(|(si, _)| *si)
+                .filter(|&si| applies(si))
+        };
+        if applicable().all(|si| sh.h_kinds[si] == Some(true)) {
+            needs.sp3_h = true;
+        } else if applicable().all(|si| sh.h_kinds[si] == Some(false)) {
+            let offered = applicable().any(|si| {
+                problem.skeleton_needs[si].0.iter().any(|&g| {
+                    (head.set.contains(g) || tail.set.contains(g))
+                        && problem.groups[g].group.bonds.carbon_or_h > 0
+                })
+            });
+            needs.sp2_h = Some(offered);
+        }
+    }
+    needs
+}
+
 /// The candidate terms that depend on presence alone (as `score::candidate_values`
 /// computes them; slots 3 and 5 are left to the counts) and the sum of the group parts.
 fn presence_values(
@@ -421,20 +440,20 @@ fn presence_values(
     scratch: &mut Scratch,
 ) -> ([Option<f64>; 6], f64) {
     let problem = sh.problem;
-    let band_quality = &scratch.arena[band_quality_at..band_quality_at + problem.bands.len()];
+    let nb = problem.bands.len();
+    let band_quality = &scratch.arena[band_quality_at..band_quality_at + nb];
     let mut values = [None; 6];
-    let seen: f64 = (0..band_quality.len())
-        .map(|b| head.credit[b].max(tail.credit[b]))
-        .sum();
+    let seen: f64 = (0..nb).map(|b| head.credit[b].max(tail.credit[b])).sum();
     if seen != 0.0 {
         values[0] = Some(score::round3(seen));
     }
     let mut explained = 0.0;
     let mut unexplained = 0.0;
-    for (q, (_, b)) in band_quality.iter().zip(&problem.bands) {
-        match q {
-            Some(q) => explained += W_EXPLAINED * q,
-            None => unexplained += unexplained_penalty(b.band.at, b.band.strength),
+    for (&q, (_, b)) in band_quality.iter().zip(&problem.bands) {
+        if q != NONE {
+            explained += W_EXPLAINED * q;
+        } else {
+            unexplained += unexplained_penalty(b.band.at, b.band.strength);
         }
     }
     if explained != 0.0 {
@@ -449,11 +468,12 @@ fn presence_values(
     present.extend_from_slice(&tail.present);
     present.sort_unstable();
     if present.len() >= 2 {
+        let twice = head.shared_twice | tail.shared_twice | (head.shared_once & tail.shared_once);
         let borrowed = present
             .iter()
             .filter(|&&g| {
-                let own = &sh.own_bands[g];
-                !own.is_empty() && own.iter().all(|&b| head.shared[b] + tail.shared[b] > 1)
+                let own = sh.own_bands[g];
+                own != 0 && own & !twice == 0
             })
             .count();
         if borrowed > 0 {
@@ -464,15 +484,17 @@ fn presence_values(
     (values, groups)
 }
 
-/// The per-band part of a class signature (as `collapse::signature_key` writes it).
-fn band_key(band_quality: &[Option<f64>]) -> Vec<i64> {
-    band_quality
-        .iter()
-        .flat_map(|q| match q {
-            Some(q) => [1, (q * 1000.0).round() as i64],
-            None => [0, 0],
-        })
-        .collect()
+/// The per-band part of a class signature (as `collapse::signature_key` writes it),
+/// into `key`.
+fn band_key(band_quality: &[f64], key: &mut Vec<i64>) {
+    key.clear();
+    for &q in band_quality {
+        if q != NONE {
+            key.extend([1, (q * 1000.0).round() as i64]);
+        } else {
+            key.extend([0, 0]);
+        }
+    }
 }
 
 /// [`super::classes::gather`] for a case whose walk ends with the split groups `tail`.
@@ -489,8 +511,8 @@ pub fn gather<M: Meter>(
         limit: options.enumeration_limit,
         meter,
         stage,
-        out: Gathered::empty(problem),
-        per_member: member_bytes(problem),
+        out: Gathered::empty(problem, tail),
+        per_member: tail.len() as u64 + MEMBER_COLUMN_BYTES,
         head: HeadState::default(),
         slots: Vec::new(),
         slot_of: vec![u32::MAX; 2 << tail.len()],
@@ -524,8 +546,10 @@ struct HeadState {
     instances: u32,
     /// Its classes: (seen split groups, band key, class).
     classes: Vec<(u32, Vec<i64>, u32)>,
-    /// The counts of the combination being filled in (the head's, then a tail's).
+    /// Its counts (tail groups at zero).
     counts: Vec<u32>,
+    /// Whether its counts are held as a block of the members (from its first member).
+    block_started: bool,
     /// Buffers of the slot evaluations.
     scratch: Scratch,
 }
@@ -585,16 +609,16 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         h.bands.fixed.clear();
         let view = &h.view;
         h.bands.fixed.extend((0..problem.bands.len()).map(|b| {
-            better(
-                better(sh.artefact[b], view.quality[b]),
-                view.skeleton_quality[b],
-            )
+            sh.artefact[b]
+                .max(view.quality[b])
+                .max(view.skeleton_quality[b])
         }));
         h.tally = Tally::of(problem, counts, &h.present);
         h.instances = counts.iter().sum();
         h.classes.clear();
         h.counts.clear();
         h.counts.extend_from_slice(counts);
+        h.block_started = false;
         h.scratch.arena.clear();
         self.slots.clear();
         self.slot_of.iter_mut().for_each(|s| *s = u32::MAX);
@@ -648,11 +672,15 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         let s = score::total(slot.groups, &values);
         let (class, class_bytes) = self.class_of(slot_at, fill.pattern);
         let h = &mut self.head;
-        for (k, &g) in self.sh.tail.iter().enumerate() {
-            h.counts[g] = fill.counts[k];
+        let mut bytes = self.per_member + class_bytes;
+        if !h.block_started {
+            self.out.members.start_block(&h.counts);
+            h.block_started = true;
+            bytes += h.counts.len() as u64;
         }
-        self.out.members.push(&h.counts, sk, s, instances, class);
-        let bytes = self.per_member + class_bytes;
+        self.out
+            .members
+            .push_over_block(&fill.counts, sk, s, instances, class);
         self.out.held += bytes;
         let hold = self.meter.hold(bytes, self.stage);
         self.metered(hold)
@@ -668,7 +696,8 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         let h = &mut self.head;
         let slot = &mut self.slots[slot_at];
         let at = slot.band_quality_at;
-        let key = band_key(&h.scratch.arena[at..at + nb]);
+        let mut key = Vec::with_capacity(2 * nb);
+        band_key(&h.scratch.arena[at..at + nb], &mut key);
         let found = h
             .classes
             .iter()
