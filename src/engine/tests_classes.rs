@@ -234,3 +234,31 @@ proptest! {
         assert_same(&src, &catalogue, &options);
     }
 }
+
+#[test]
+fn ranking_only_the_classes_shown_ranks_them_as_ranking_every_class_does() {
+    let catalogue = embedded_catalogue().unwrap_or_else(|d| panic!("{d:?}"));
+    let options = SolveOptions::default();
+    let k = case(LOOSE);
+    let problem = problem_of(&k, &catalogue, &options);
+    let parts = score::group_parts(&problem, None, None);
+    let gather = || {
+        budget::infallible(classes::gather(
+            &problem,
+            &options,
+            &parts,
+            &mut Unmetered,
+            Stage::Enumeration,
+        ))
+    };
+    let every = classes::Ranked::new(gather());
+    assert!(every.best.len() > 100, "the loose case has many classes");
+    for shown in [1, 5, 25, 100] {
+        let top = classes::Ranked::top(gather(), shown);
+        assert_eq!(top.n_classes, every.best.len());
+        assert_eq!(top.best, every.best[..shown]);
+        assert_eq!(top.others(shown), every.others(shown));
+    }
+    let all = classes::Ranked::top(gather(), usize::MAX);
+    assert_eq!(all.best, every.best);
+}
