@@ -13,8 +13,9 @@ use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 use std::time::Duration;
 
-/// A 25-heavy-atom, 8-heteroatom formula with a deliberately loose band list: thousands
-/// of group combinations are consistent, so the enumeration holds megabytes.
+/// A 25-heavy-atom, 8-heteroatom formula with a deliberately loose band list: hundreds of
+/// thousands of group combinations are consistent, so an enumeration without the default
+/// limit on them holds megabytes.
 const LOOSE: &str = "\
 case: INV-BUDGET-1
 title: invented loose case (many consistent combinations)
@@ -66,25 +67,37 @@ fn case(text: &str) -> Case {
 }
 
 fn metered(case: &Case, budget: Budget) -> Result<quiddity::engine::Outcome, LimitReached> {
+    metered_with(case, budget, &SolveOptions::default())
+}
+
+fn metered_with(
+    case: &Case,
+    budget: Budget,
+    options: &SolveOptions,
+) -> Result<quiddity::engine::Outcome, LimitReached> {
     let catalogue = embedded_catalogue().unwrap_or_else(|d| panic!("{d:?}"));
-    solve_within(
-        case,
-        &catalogue,
-        &SolveOptions::default(),
-        &mut Metered::new(budget),
-    )
+    solve_within(case, &catalogue, options, &mut Metered::new(budget))
+}
+
+/// Every consistent combination collected (no limit on their number).
+fn every_combination() -> SolveOptions {
+    SolveOptions {
+        enumeration_limit: usize::MAX,
+        ..SolveOptions::default()
+    }
 }
 
 #[test]
 fn a_tiny_memory_budget_stops_the_enumeration_with_its_limit_named() {
-    let stop = metered(
+    let stop = metered_with(
         &case(LOOSE),
         Budget {
             time: None,
             memory_bytes: Some(1_000_000),
         },
+        &every_combination(),
     )
-    .expect_err("1 MB cannot hold thousands of combinations");
+    .expect_err("1 MB cannot hold hundreds of thousands of combinations");
     assert_eq!(stop.limit, Limit::Memory { bytes: 1_000_000 });
     assert_eq!(stop.stage, Stage::Enumeration);
     assert!(
@@ -153,6 +166,8 @@ fn solve_over_its_memory_budget_exits_2_and_says_what_to_add() {
         "solve",
         path.to_str().unwrap_or_default(),
         "--json",
+        "--limit",
+        "1000000",
         "--memory-limit",
         "1",
     ]);
@@ -211,7 +226,9 @@ fn bad_limits_are_usage_errors() {
 fn batch_reports_the_case_over_budget_and_goes_on() {
     let input = tempfile::tempdir().unwrap_or_else(|e| panic!("{e}"));
     let out_dir = tempfile::tempdir().unwrap_or_else(|e| panic!("{e}"));
-    write(input.path(), "a-loose.yaml", LOOSE);
+    // Batch keeps the default limit on combinations; the mass-only case's formula
+    // leads and their pooled candidates are what outgrow 1 MB.
+    write(input.path(), "a-mass-only.yaml", MASS_ONLY);
     write(input.path(), "b-small.yaml", SMALL);
     let out = quiddity(&[
         "batch",
@@ -229,9 +246,9 @@ fn batch_reports_the_case_over_budget_and_goes_on() {
         serde_json::from_slice(&out.stdout).unwrap_or_else(|e| panic!("{e}"));
     let rows = rows.as_array().cloned().unwrap_or_default();
     assert_eq!(rows.len(), 2);
-    let loose = &rows[0];
-    assert_eq!(loose["file"], "a-loose.yaml");
-    let error = loose["error"].as_str().unwrap_or_default();
+    let heavy = &rows[0];
+    assert_eq!(heavy["file"], "a-mass-only.yaml");
+    let error = heavy["error"].as_str().unwrap_or_default();
     assert!(error.contains("memory limit of 1 MB"), "{error}");
     assert!(error.contains("--memory-limit"), "{error}");
     let small = &rows[1];

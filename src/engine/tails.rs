@@ -17,7 +17,7 @@
 //! The combinations, their scores, classes and the order in which they are found are
 //! those of checking every leaf of the full walk (the tests compare both paths).
 
-use super::classes::{class_bytes, Gathered, MEMBER_COLUMN_BYTES};
+use super::classes::{Gathered, MEMBER_COLUMN_BYTES};
 use super::constraints::band_explanation::{h_kind, BRANCH_QUALITY};
 use super::constraints::bonds::{self, NeedsSummary, Tally, Verdict};
 use super::constraints::ionic;
@@ -687,7 +687,8 @@ impl<M: Meter> Gatherer<'_, '_, M> {
     }
 
     /// The class of slot `slot_at` (met first now, or earlier) and the bytes a new
-    /// class holds; a slot's first member marks its groups as in some candidate.
+    /// class holds (its key lives only while its head is filled in; ranking keeps its
+    /// best member); a slot's first member marks its groups as in some candidate.
     fn class_of(&mut self, slot_at: usize, pattern: u32) -> (u32, u64) {
         if let Some(c) = self.slots[slot_at].class {
             return (c, 0);
@@ -707,10 +708,7 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         let class = found.unwrap_or_else(|| {
             let c = self.n_classes;
             self.n_classes += 1;
-            // As collapse::signature_key lays the key out.
-            let key_len =
-                2 + 2 * h.present.len() + slot.seen_split.count_ones() as usize + key.len();
-            bytes = class_bytes(key_len);
+            bytes = std::mem::size_of::<Option<usize>>() as u64;
             h.classes.push((slot.seen_split, key, c));
             c
         });
