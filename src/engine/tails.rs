@@ -193,6 +193,12 @@ struct Shared<'a, 'c> {
     sp3_skeleton: Vec<f64>,
     /// Per tail pattern (bit k: tail group k present): its summary.
     patterns: Vec<PartView>,
+    /// Per concrete group: its position in the tail, if it is a tail group.
+    tail_pos: Vec<Option<usize>>,
+    /// Per tail pattern: no `excludes` between two of its groups.
+    pattern_relations_hold: Vec<bool>,
+    /// Per tail pattern: its groups whose `requires_any` it does not meet itself.
+    pattern_needs_head: Vec<u32>,
     /// Per (carbons, DBE) left by a head: the tail fillings.
     tables: HashMap<(u32, u32), Rc<Vec<TailFill>>>,
 }
@@ -254,10 +260,41 @@ impl<'a, 'c> Shared<'a, 'c> {
                 v
             })
             .collect();
+        let mut tail_pos = vec![None; problem.groups.len()];
+        for (k, &g) in tail.iter().enumerate() {
+            tail_pos[g] = Some(k);
+        }
+        let in_pattern =
+            |pattern: u32, g: usize| tail_pos[g].is_some_and(|k| pattern & (1 << k) != 0);
+        let members = |pattern: u32| (0..tail.len()).filter(move |k| pattern & (1 << k) != 0);
+        let pattern_relations_hold = (0..1u32 << tail.len())
+            .map(|pattern| {
+                members(pattern).all(|k| {
+                    let t = tail[k];
+                    !problem.excludes[t]
+                        .iter()
+                        .any(|&j| j > t && in_pattern(pattern, j))
+                })
+            })
+            .collect();
+        let pattern_needs_head = (0..1u32 << tail.len())
+            .map(|pattern| {
+                members(pattern)
+                    .filter(|&k| {
+                        let t = tail[k];
+                        !problem.groups[t].group.requires_any.is_empty()
+                            && !problem.requires[t].iter().any(|&j| in_pattern(pattern, j))
+                    })
+                    .fold(0u32, |m, k| m | (1 << k))
+            })
+            .collect();
         Shared {
             problem,
             parts,
             tail,
+            tail_pos,
+            pattern_relations_hold,
+            pattern_needs_head,
             own_bands,
             demanded,
             by_sp3_skeleton,
@@ -306,17 +343,77 @@ impl<'a, 'c> Shared<'a, 'c> {
     }
 }
 
-/// True when no relation between the groups of `head` and `tail` fails (as
-/// `relations::check` finds for their union).
-fn relations_hold(problem: &Problem<'_>, head: &PartView, tail: &PartView) -> bool {
-    let present = |g: usize| head.set.contains(g) || tail.set.contains(g);
-    head.present.iter().chain(&tail.present).all(|&i| {
-        let excluded = problem.excludes[i].iter().any(|&j| j > i && present(j));
-        let requires = &problem.requires[i];
-        let unmet = !problem.groups[i].group.requires_any.is_empty()
-            && !requires.iter().any(|&j| present(j));
-        !excluded && !unmet
-    })
+/// The relations (`excludes`, `requires_any`) of a head with the tail groups, as bit
+/// masks over the tail (bit k: tail group k); with [`Shared`]'s per-pattern masks a
+/// slot's relations are a few bit operations (the same verdict as `relations::check`
+/// on the union).
+#[derive(Clone, Debug, Default)]
+struct HeadRelations {
+    /// The head's groups meet every relation among themselves, and each requirement the
+    /// head leaves unmet has a tail group that would meet it.
+    holds: bool,
+    /// Tail groups an `excludes` between them and a head group keeps out.
+    forbidden: u32,
+    /// Per requirement of a head group that the head leaves unmet: the tail groups
+    /// that would meet it.
+    unmet: Vec<u32>,
+    /// Tail groups whose requirement some head group meets.
+    met_by_head: u32,
+}
+
+impl HeadRelations {
+    /// The relations of the head `view` with the tail groups.
+    fn fill(&mut self, sh: &Shared<'_, '_>, view: &PartView) {
+        let problem = sh.problem;
+        let tail_bits = |gs: &[usize]| {
+            gs.iter()
+                .filter_map(|&g| sh.tail_pos[g])
+                .fold(0u32, |m, k| m | (1 << k))
+        };
+        self.holds = true;
+        self.forbidden = 0;
+        self.unmet.clear();
+        self.met_by_head = 0;
+        for &i in &view.present {
+            for &j in problem.excludes[i].iter().filter(|&&j| j > i) {
+                if view.set.contains(j) {
+                    self.holds = false;
+                }
+                if let Some(k) = sh.tail_pos[j] {
+                    self.forbidden |= 1 << k;
+                }
+            }
+            if !problem.groups[i].group.requires_any.is_empty()
+                && !problem.requires[i].iter().any(|&j| view.set.contains(j))
+            {
+                let by_tail = tail_bits(&problem.requires[i]);
+                if by_tail == 0 {
+                    self.holds = false;
+                }
+                self.unmet.push(by_tail);
+            }
+        }
+        for (k, &t) in sh.tail.iter().enumerate() {
+            if problem.excludes[t]
+                .iter()
+                .any(|&j| j > t && view.set.contains(j))
+            {
+                self.forbidden |= 1 << k;
+            }
+            if problem.requires[t].iter().any(|&j| view.set.contains(j)) {
+                self.met_by_head |= 1 << k;
+            }
+        }
+    }
+
+    /// True when the head with tail `pattern` meets every relation.
+    fn hold_with(&self, sh: &Shared<'_, '_>, pattern: u32) -> bool {
+        self.holds
+            && pattern & self.forbidden == 0
+            && self.unmet.iter().all(|&m| pattern & m != 0)
+            && sh.pattern_relations_hold[pattern as usize]
+            && sh.pattern_needs_head[pattern as usize] & !self.met_by_head == 0
+    }
 }
 
 /// Buffers reused from one slot to the next.
@@ -335,6 +432,7 @@ fn evaluate_slot(
     sh: &Shared<'_, '_>,
     head: &PartView,
     head_bands: &HeadBands,
+    head_relations: &HeadRelations,
     tail: &PartView,
     pattern: u32,
     skeleton_left: bool,
@@ -359,7 +457,7 @@ fn evaluate_slot(
     let holds = head.bands_present
         && tail.bands_present
         && skeleton_only & !by_skeleton == 0
-        && relations_hold(problem, head, tail);
+        && head_relations.hold_with(sh, pattern);
     let mut needs = NeedsSummary::default();
     if holds && skeleton_only != 0 {
         needs = skeleton_needs(sh, head, tail, skeleton_only, sp3_ok);
@@ -463,10 +561,7 @@ fn presence_values(
         values[2] = Some(score::round3(-unexplained));
     }
     let present = &mut scratch.present;
-    present.clear();
-    present.extend_from_slice(&head.present);
-    present.extend_from_slice(&tail.present);
-    present.sort_unstable();
+    merge_into(&head.present, &tail.present, present);
     if present.len() >= 2 {
         let twice = head.shared_twice | tail.shared_twice | (head.shared_once & tail.shared_once);
         let borrowed = present
@@ -482,6 +577,23 @@ fn presence_values(
     }
     let groups: f64 = present.iter().map(|&g| sh.parts.group[g]).sum();
     (values, groups)
+}
+
+/// Two lists of distinct groups in index order merged, in index order, into `out`.
+fn merge_into(a: &[usize], b: &[usize], out: &mut Vec<usize>) {
+    out.clear();
+    let (mut i, mut j) = (0, 0);
+    while i < a.len() && j < b.len() {
+        if a[i] < b[j] {
+            out.push(a[i]);
+            i += 1;
+        } else {
+            out.push(b[j]);
+            j += 1;
+        }
+    }
+    out.extend_from_slice(&a[i..]);
+    out.extend_from_slice(&b[j..]);
 }
 
 /// The per-band part of a class signature (as `collapse::signature_key` writes it),
@@ -540,6 +652,8 @@ struct HeadState {
     view: PartView,
     /// Its per-band qualities that no tail changes.
     bands: HeadBands,
+    /// Its relations with the tail groups.
+    relations: HeadRelations,
     /// Its open valences and atoms.
     tally: Tally,
     /// Its group instances.
@@ -613,6 +727,7 @@ impl<M: Meter> Gatherer<'_, '_, M> {
                 .max(view.quality[b])
                 .max(view.skeleton_quality[b])
         }));
+        h.relations.fill(sh, &h.view);
         h.tally = Tally::of(problem, counts, &h.present);
         h.instances = counts.iter().sum();
         h.classes.clear();
@@ -637,6 +752,7 @@ impl<M: Meter> Gatherer<'_, '_, M> {
                 &self.sh,
                 &h.view,
                 &h.bands,
+                &h.relations,
                 tail_view,
                 fill.pattern,
                 sk > 0,
