@@ -144,12 +144,14 @@ impl PartView {
     }
 }
 
-/// A head's per-band qualities that no tail changes.
+/// What a head fixes whatever its tail: per-band qualities and relations.
 #[derive(Clone, Debug, Default)]
 struct HeadBands {
     /// Per active band: best of the artefacts, the head's band rules and patterns and
     /// the skeleton rules whose needs the head meets.
     fixed: Vec<f64>,
+    /// Its relations with the tail groups.
+    relations: HeadRelations,
 }
 
 /// What a head and a tail pattern decide together, whatever the counts.
@@ -432,7 +434,6 @@ fn evaluate_slot(
     sh: &Shared<'_, '_>,
     head: &PartView,
     head_bands: &HeadBands,
-    head_relations: &HeadRelations,
     tail: &PartView,
     pattern: u32,
     skeleton_left: bool,
@@ -457,7 +458,7 @@ fn evaluate_slot(
     let holds = head.bands_present
         && tail.bands_present
         && skeleton_only & !by_skeleton == 0
-        && head_relations.hold_with(sh, pattern);
+        && head_bands.relations.hold_with(sh, pattern);
     let mut needs = NeedsSummary::default();
     if holds && skeleton_only != 0 {
         needs = skeleton_needs(sh, head, tail, skeleton_only, sp3_ok);
@@ -650,10 +651,8 @@ struct HeadState {
     present: Vec<usize>,
     /// Their band summary.
     view: PartView,
-    /// Its per-band qualities that no tail changes.
+    /// Its per-band qualities and relations that no tail changes.
     bands: HeadBands,
-    /// Its relations with the tail groups.
-    relations: HeadRelations,
     /// Its open valences and atoms.
     tally: Tally,
     /// Its group instances.
@@ -727,7 +726,7 @@ impl<M: Meter> Gatherer<'_, '_, M> {
                 .max(view.quality[b])
                 .max(view.skeleton_quality[b])
         }));
-        h.relations.fill(sh, &h.view);
+        h.bands.relations.fill(sh, &h.view);
         h.tally = Tally::of(problem, counts, &h.present);
         h.instances = counts.iter().sum();
         h.classes.clear();
@@ -752,7 +751,6 @@ impl<M: Meter> Gatherer<'_, '_, M> {
                 &self.sh,
                 &h.view,
                 &h.bands,
-                &h.relations,
                 tail_view,
                 fill.pattern,
                 sk > 0,
