@@ -232,7 +232,7 @@ impl Gathered {
 }
 
 /// Estimated bytes one member holds (its columns, counts one byte each).
-pub(super) fn member_bytes(problem: &Problem<'_>) -> u64 {
+fn member_bytes(problem: &Problem<'_>) -> u64 {
     problem.groups.len() as u64 + MEMBER_COLUMN_BYTES
 }
 
@@ -240,7 +240,7 @@ pub(super) fn member_bytes(problem: &Problem<'_>) -> u64 {
 pub(super) const MEMBER_COLUMN_BYTES: u64 = 4 + 4 + 8 + 4 + 4;
 
 /// Estimated bytes a new class holds: its key (in the index) and its entries.
-pub(super) fn class_bytes(key_len: usize) -> u64 {
+fn class_bytes(key_len: usize) -> u64 {
     (8 * key_len + std::mem::size_of::<(Box<[i64]>, u32)>() + 8) as u64
 }
 

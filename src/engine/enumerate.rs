@@ -63,22 +63,20 @@ struct Walk<'p, 'c, F> {
 /// Walks every exact composition using only the groups in `allowed`; calls `visit` with
 /// the counts (indexed like `problem.groups`) and the skeleton carbon count.
 /// Returns the number of leaves visited. Without an active formula nothing is walked.
-pub fn walk<F>(problem: &Problem<'_>, allowed: &[usize], visit: F) -> u64
+pub fn walk<F>(problem: &Problem<'_>, allowed: &[usize], mut visit: F) -> u64
 where
     F: FnMut(&[u32], u32) -> Flow,
 {
-    let mut visit = visit;
     walk_with(problem, allowed, false, &[], |counts, sk, _| {
         visit(counts, sk)
     })
 }
 
 /// Like [`walk`], cutting subtrees that the leaf checks would reject (module doc).
-pub fn walk_pruned<F>(problem: &Problem<'_>, allowed: &[usize], visit: F) -> u64
+pub fn walk_pruned<F>(problem: &Problem<'_>, allowed: &[usize], mut visit: F) -> u64
 where
     F: FnMut(&[u32], u32) -> Flow,
 {
-    let mut visit = visit;
     walk_with(problem, allowed, true, &[], |counts, sk, _| {
         visit(counts, sk)
     })

@@ -6,6 +6,7 @@ use super::constraints::{band_explanation, composition, dbe, diagnostic_bands, m
 use super::evaluate::Failure;
 use super::model::Problem;
 use super::outcome::*;
+use super::score::round3;
 use crate::case::MsEvidence;
 use crate::rules::{ExpectedShape, RuleRef};
 use std::collections::BTreeMap;
@@ -380,10 +381,6 @@ fn ms_clue_evidence(
             }
         })
         .collect()
-}
-
-fn round3(x: f64) -> f64 {
-    (x * 1000.0).round() / 1000.0
 }
 
 /// Every concrete group that no candidate holds, with the decisive evidence, plus family

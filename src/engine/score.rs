@@ -282,21 +282,25 @@ fn candidate_values(
     if unexplained != 0.0 {
         values[2] = Some(round3(-unexplained));
     }
-    if problem.has_ir
-        && !problem.sp3_ch_stretch_seen
-        && must_hold_sp3_ch(problem, counts, skeleton_c)
-    {
-        values[3] = Some(-P_NO_SP3_CH_STRETCH);
-    }
+    values[3] = no_sp3_stretch_term(problem, || must_hold_sp3_ch(problem, counts, skeleton_c));
     borrowed_into(problem, counts, scratch);
     if !scratch.borrowed.is_empty() {
         values[4] = Some(round3(-P_NO_OWN_BAND * scratch.borrowed.len() as f64));
     }
-    let instances: u32 = counts.iter().sum();
-    if instances > 1 {
-        values[5] = Some(round3(-P_PER_EXTRA_INSTANCE * f64::from(instances - 1)));
-    }
+    values[5] = parsimony_term(counts.iter().sum());
     values
+}
+
+/// The "no sp3 C–H stretch seen" term: it applies when the case has IR, no band lies in
+/// the sp3 C–H stretch range, and the candidate must hold sp3 C–H (`required`, asked
+/// only then).
+pub fn no_sp3_stretch_term(problem: &Problem<'_>, required: impl FnOnce() -> bool) -> Option<f64> {
+    (problem.has_ir && !problem.sp3_ch_stretch_seen && required()).then_some(-P_NO_SP3_CH_STRETCH)
+}
+
+/// The parsimony term of a candidate of `instances` group instances.
+pub fn parsimony_term(instances: u32) -> Option<f64> {
+    (instances > 1).then(|| round3(-P_PER_EXTRA_INSTANCE * f64::from(instances - 1)))
 }
 
 /// [`candidate_terms`], also noting each active band's best explanation quality in
@@ -346,21 +350,38 @@ fn candidate_terms_noting(
 /// hetero positions (so some sits on a saturated skeleton carbon), or holds a group with
 /// a saturated C–H of its own.
 pub fn must_hold_sp3_ch(problem: &Problem<'_>, counts: &[u32], skeleton_c: u32) -> bool {
-    if has_sp3_group(problem, counts) {
-        return true;
-    }
-    if skeleton_c == 0 || problem.formula.is_none() {
-        return false;
-    }
-    let (fixed, open) = counts
-        .iter()
-        .zip(&problem.groups)
-        .filter(|(n, _)| **n > 0)
-        .fold((0u32, 0u32), |(f, o), (n, g)| {
-            let b = g.group.bonds;
-            (f + n * g.h, o + n * (b.carbon_or_h + b.hetero_or_h))
-        });
-    problem.formula_h > fixed + open
+    let held_and_open = || {
+        counts
+            .iter()
+            .zip(&problem.groups)
+            .filter(|(n, _)| **n > 0)
+            .map(|(n, g)| {
+                let b = g.group.bonds;
+                u64::from(n * (g.h + b.carbon_or_h + b.hetero_or_h))
+            })
+            .sum()
+    };
+    sp3_ch_required(
+        problem,
+        has_sp3_group(problem, counts),
+        skeleton_c,
+        held_and_open,
+    )
+}
+
+/// [`must_hold_sp3_ch`] from what it depends on: whether a group holds sp3 C–H of its
+/// own, the skeleton carbons, and the hydrogens the groups hold plus their open
+/// positions that may carry H (`held_and_open`, asked only when it matters).
+pub fn sp3_ch_required(
+    problem: &Problem<'_>,
+    sp3_group: bool,
+    skeleton_c: u32,
+    held_and_open: impl FnOnce() -> u64,
+) -> bool {
+    sp3_group
+        || (skeleton_c > 0
+            && problem.formula.is_some()
+            && u64::from(problem.formula_h) > held_and_open())
 }
 
 /// True when an observed band lies inside the range of a skeleton C–H stretch rule that

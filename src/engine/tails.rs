@@ -146,10 +146,10 @@ impl PartView {
 
 /// What a head fixes whatever its tail: per-band qualities and relations.
 #[derive(Clone, Debug, Default)]
-struct HeadBands {
+struct HeadFixed {
     /// Per active band: best of the artefacts, the head's band rules and patterns and
     /// the skeleton rules whose needs the head meets.
-    fixed: Vec<f64>,
+    quality: Vec<f64>,
     /// Its relations with the tail groups.
     relations: HeadRelations,
 }
@@ -195,6 +195,8 @@ struct Shared<'a, 'c> {
     sp3_skeleton: Vec<f64>,
     /// Per tail pattern (bit k: tail group k present): its summary.
     patterns: Vec<PartView>,
+    /// Tail groups whose bands are seen (bit k: tail group k).
+    seen_split: u32,
     /// Per concrete group: its position in the tail, if it is a tail group.
     tail_pos: Vec<Option<usize>>,
     /// Per tail pattern: no `excludes` between two of its groups.
@@ -250,12 +252,11 @@ impl<'a, 'c> Shared<'a, 'c> {
             })
             .collect::<Vec<f64>>();
         let by_sp3_skeleton = band_mask(nb, |b| sp3_skeleton[b] != NONE);
+        // Tail positions present in a pattern.
+        let members = |pattern: u32| (0..tail.len()).filter(move |k| pattern & (1 << k) != 0);
         let patterns = (0..1u32 << tail.len())
             .map(|pattern| {
-                let mut present: Vec<usize> = (0..tail.len())
-                    .filter(|k| pattern & (1 << k) != 0)
-                    .map(|k| tail[k])
-                    .collect();
+                let mut present: Vec<usize> = members(pattern).map(|k| tail[k]).collect();
                 present.sort_unstable();
                 let mut v = PartView::default();
                 v.fill(problem, parts, &present);
@@ -268,7 +269,6 @@ impl<'a, 'c> Shared<'a, 'c> {
         }
         let in_pattern =
             |pattern: u32, g: usize| tail_pos[g].is_some_and(|k| pattern & (1 << k) != 0);
-        let members = |pattern: u32| (0..tail.len()).filter(move |k| pattern & (1 << k) != 0);
         let pattern_relations_hold = (0..1u32 << tail.len())
             .map(|pattern| {
                 members(pattern).all(|k| {
@@ -290,10 +290,14 @@ impl<'a, 'c> Shared<'a, 'c> {
                     .fold(0u32, |m, k| m | (1 << k))
             })
             .collect();
+        let seen_split = (0..tail.len())
+            .filter(|&k| !problem.groups[tail[k]].presence.matched.is_empty())
+            .fold(0u32, |m, k| m | (1 << k));
         Shared {
             problem,
             parts,
             tail,
+            seen_split,
             tail_pos,
             pattern_relations_hold,
             pattern_needs_head,
@@ -310,25 +314,22 @@ impl<'a, 'c> Shared<'a, 'c> {
 
     /// The tail fillings of (carbons, DBE) left, listed on first use.
     fn fills(&mut self, c_left: u32, dbe_left: u32) -> Rc<Vec<TailFill>> {
-        let (problem, tail) = (self.problem, self.tail);
+        let (problem, tail, patterns) = (self.problem, self.tail, &self.patterns);
         let table = self.tables.entry((c_left, dbe_left)).or_insert_with(|| {
             let mut full = vec![0u32; problem.groups.len()];
             enumerate::tails(problem, tail, c_left, dbe_left)
                 .into_iter()
                 .map(|counts| {
-                    let mut present = Vec::new();
                     let mut pattern = 0u32;
                     let mut carbons = 0;
                     for (k, &n) in counts.iter().enumerate() {
                         full[tail[k]] = n;
                         if n > 0 {
-                            present.push(tail[k]);
                             pattern |= 1 << k;
                             carbons += n * problem.groups[tail[k]].c;
                         }
                     }
-                    present.sort_unstable();
-                    let tally = Tally::of(problem, &full, &present);
+                    let tally = Tally::of(problem, &full, &patterns[pattern as usize].present);
                     tail.iter().for_each(|&g| full[g] = 0);
                     TailFill {
                         instances: counts.iter().sum(),
@@ -433,7 +434,7 @@ struct Scratch {
 fn evaluate_slot(
     sh: &Shared<'_, '_>,
     head: &PartView,
-    head_bands: &HeadBands,
+    head_fixed: &HeadFixed,
     tail: &PartView,
     pattern: u32,
     skeleton_left: bool,
@@ -444,7 +445,7 @@ fn evaluate_slot(
     let sp3_ok = skeleton_left || sp3_group;
     let direct = &mut scratch.direct;
     direct.clear();
-    let (fixed, tq, ts) = (&head_bands.fixed, &tail.quality, &tail.skeleton_quality);
+    let (fixed, tq, ts) = (&head_fixed.quality, &tail.quality, &tail.skeleton_quality);
     if sp3_ok {
         let sp3 = &sh.sp3_skeleton;
         direct.extend((0..fixed.len()).map(|b| fixed[b].max(tq[b]).max(ts[b]).max(sp3[b])));
@@ -458,7 +459,7 @@ fn evaluate_slot(
     let holds = head.bands_present
         && tail.bands_present
         && skeleton_only & !by_skeleton == 0
-        && head_bands.relations.hold_with(sh, pattern);
+        && head_fixed.relations.hold_with(sh, pattern);
     let mut needs = NeedsSummary::default();
     if holds && skeleton_only != 0 {
         needs = skeleton_needs(sh, head, tail, skeleton_only, sp3_ok);
@@ -476,10 +477,6 @@ fn evaluate_slot(
         }
     }));
     let (values, groups) = presence_values(sh, head, tail, band_quality_at, scratch);
-    let seen_split = (0..sh.tail.len())
-        .filter(|&k| pattern & (1 << k) != 0)
-        .filter(|&k| !problem.groups[sh.tail[k]].presence.matched.is_empty())
-        .fold(0u32, |m, k| m | (1 << k));
     SlotEval {
         holds,
         needs,
@@ -487,7 +484,7 @@ fn evaluate_slot(
         groups,
         values,
         band_quality_at,
-        seen_split,
+        seen_split: pattern & sh.seen_split,
         class: None,
     }
 }
@@ -631,7 +628,6 @@ pub fn gather<M: Meter>(
         slot_of: vec![u32::MAX; 2 << tail.len()],
         n_classes: 0,
         stop: None,
-        sp3_term_applies: problem.has_ir && !problem.sp3_ch_stretch_seen,
     };
     let allowed = problem.allowed_groups();
     enumerate::walk_heads(problem, &allowed, tail, |counts, c_left, dbe_left| {
@@ -652,7 +648,7 @@ struct HeadState {
     /// Their band summary.
     view: PartView,
     /// Its per-band qualities and relations that no tail changes.
-    bands: HeadBands,
+    fixed: HeadFixed,
     /// Its open valences and atoms.
     tally: Tally,
     /// Its group instances.
@@ -682,8 +678,6 @@ struct Gatherer<'a, 'c, M: Meter> {
     slot_of: Vec<u32>,
     n_classes: u32,
     stop: Option<M::Stop>,
-    /// The "no sp3 C–H stretch" term can apply (IR given, no sp3 C–H stretch seen).
-    sp3_term_applies: bool,
 }
 
 impl<M: Meter> Gatherer<'_, '_, M> {
@@ -719,14 +713,14 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         h.present
             .extend((0..counts.len()).filter(|&g| counts[g] > 0));
         h.view.fill(problem, sh.parts, &h.present);
-        h.bands.fixed.clear();
+        h.fixed.quality.clear();
         let view = &h.view;
-        h.bands.fixed.extend((0..problem.bands.len()).map(|b| {
+        h.fixed.quality.extend((0..problem.bands.len()).map(|b| {
             sh.artefact[b]
                 .max(view.quality[b])
                 .max(view.skeleton_quality[b])
         }));
-        h.bands.relations.fill(sh, &h.view);
+        h.fixed.relations.fill(sh, &h.view);
         h.tally = Tally::of(problem, counts, &h.present);
         h.instances = counts.iter().sum();
         h.classes.clear();
@@ -750,7 +744,7 @@ impl<M: Meter> Gatherer<'_, '_, M> {
             self.slots.push(evaluate_slot(
                 &self.sh,
                 &h.view,
-                &h.bands,
+                &h.fixed,
                 tail_view,
                 fill.pattern,
                 sk > 0,
@@ -769,20 +763,11 @@ impl<M: Meter> Gatherer<'_, '_, M> {
             return Flow::Stop;
         }
         let mut values = slot.values;
-        if self.sp3_term_applies
-            && (slot.sp3_group
-                || (sk > 0
-                    && problem.formula.is_some()
-                    && u64::from(problem.formula_h) > tally.h_held_and_open()))
-        {
-            values[3] = Some(-score::P_NO_SP3_CH_STRETCH);
-        }
+        values[3] = score::no_sp3_stretch_term(problem, || {
+            score::sp3_ch_required(problem, slot.sp3_group, sk, || tally.h_held_and_open())
+        });
         let instances = self.head.instances + fill.instances;
-        if instances > 1 {
-            values[5] = Some(score::round3(
-                -score::P_PER_EXTRA_INSTANCE * f64::from(instances - 1),
-            ));
-        }
+        values[5] = score::parsimony_term(instances);
         let s = score::total(slot.groups, &values);
         let (class, class_bytes) = self.class_of(slot_at, fill.pattern);
         let h = &mut self.head;
@@ -827,13 +812,12 @@ impl<M: Meter> Gatherer<'_, '_, M> {
             c
         });
         slot.class = Some(class);
-        for &g in &h.present {
+        for &g in h
+            .present
+            .iter()
+            .chain(&self.sh.patterns[pattern as usize].present)
+        {
             self.out.in_some_candidate[g] = true;
-        }
-        for (k, &g) in self.sh.tail.iter().enumerate() {
-            if pattern & (1 << k) != 0 {
-                self.out.in_some_candidate[g] = true;
-            }
         }
         (class, bytes)
     }
