@@ -32,6 +32,8 @@ pub struct Members {
     tail_pos: Vec<Option<usize>>,
     /// Tail groups (the stride of `tails`).
     n_tail: usize,
+    /// The tail positions in the order of their groups' indices.
+    tail_order: Vec<usize>,
     /// Group counts, `n_groups` per block.
     blocks: Columns,
     /// Blocks started.
@@ -58,10 +60,13 @@ impl Members {
         for (k, &g) in tail.iter().enumerate() {
             tail_pos[g] = Some(k);
         }
+        let mut tail_order: Vec<usize> = (0..tail.len()).collect();
+        tail_order.sort_unstable_by_key(|&k| tail[k]);
         Members {
             n_groups,
             tail_pos,
             n_tail: tail.len(),
+            tail_order,
             ..Members::default()
         }
     }
@@ -127,6 +132,17 @@ impl Members {
             return self
                 .blocks
                 .cmp_runs(ra * self.n_groups, rb * self.n_groups, self.n_groups);
+        }
+        if self.block[a] == self.block[b] {
+            // One head: only the tail counts differ (members of one class always share
+            // their head).
+            let (ta, tb) = (a * self.n_tail, b * self.n_tail);
+            return self
+                .tail_order
+                .iter()
+                .map(|&k| self.tails.get(ta + k).cmp(&self.tails.get(tb + k)))
+                .find(|o| o.is_ne())
+                .unwrap_or(Ordering::Equal);
         }
         (0..self.n_groups)
             .map(|g| self.count(a, g).cmp(&self.count(b, g)))

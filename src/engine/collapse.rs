@@ -50,7 +50,7 @@ pub fn signature(problem: &Problem<'_>, counts: &[u32], band_quality: &[Option<f
         .collect();
     let bands = band_quality
         .iter()
-        .map(|q| q.map(|q| (q * 1000.0).round() as i64))
+        .map(|q| q.map(|q| super::score::round_half_away(q * 1000.0) as i64))
         .collect();
     Signature {
         fixed,
@@ -81,7 +81,7 @@ pub fn signature_key(
     key.extend((0..counts.len()).filter(seen_split).map(|g| g as i64));
     for q in band_quality {
         match q {
-            Some(q) => key.extend([1, (q * 1000.0).round() as i64]),
+            Some(q) => key.extend([1, super::score::round_half_away(q * 1000.0) as i64]),
             None => key.extend([0, 0]),
         }
     }

@@ -156,14 +156,36 @@ pub fn group_terms(
 
 /// `x` rounded to 3 decimals, as every score term is.
 pub fn round3(x: f64) -> f64 {
-    (x * 1000.0).round() / 1000.0
+    round_half_away(x * 1000.0) / 1000.0
+}
+
+/// `y` rounded to the nearest integer, halves away from zero: bit for bit what
+/// `f64::round` gives, without a call into the C library (a loose solve rounds
+/// millions of terms).
+pub fn round_half_away(y: f64) -> f64 {
+    // Below 2^52 in magnitude the truncation fits an i64 and the fraction is exact;
+    // beyond (and for NaN) the standard library decides.
+    if y.is_nan() || y.abs() >= 4_503_599_627_370_496.0 {
+        return y.round();
+    }
+    let t = y as i64 as f64;
+    let f = y - t;
+    let r = if f >= 0.5 {
+        t + 1.0
+    } else if f <= -0.5 {
+        t - 1.0
+    } else {
+        t
+    };
+    // A zero result keeps the sign of `y`, as `f64::round` does.
+    r.copysign(y)
 }
 
 /// The score from the sum of the group parts and the candidate terms' values (in
 /// display order, see `candidate_values`), rounded to 2 decimals.
 pub fn total(groups: f64, values: &[Option<f64>; 6]) -> f64 {
     let rest: f64 = values.iter().flatten().sum();
-    ((groups + rest) * 100.0).round() / 100.0
+    round_half_away((groups + rest) * 100.0) / 100.0
 }
 
 /// Per-group score parts, computed once per solve: the sum of [`group_terms`].
@@ -508,4 +530,58 @@ pub fn terms(
         .collect();
     out.extend(candidate_terms(problem, counts, skeleton_c, parts));
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::round_half_away;
+    use proptest::prelude::*;
+
+    /// Bit for bit the standard library's rounding (sign of zero included).
+    fn agrees(y: f64) -> bool {
+        round_half_away(y).to_bits() == y.round().to_bits()
+    }
+
+    #[test]
+    fn rounding_agrees_with_the_standard_library_at_the_edges() {
+        let edges = [
+            0.0,
+            -0.0,
+            0.5,
+            -0.5,
+            0.49999999999999994,
+            -0.49999999999999994,
+            1.5,
+            2.5,
+            -2.5,
+            0.3,
+            -0.3,
+            4_503_599_627_370_495.5,
+            4_503_599_627_370_496.0,
+            -4_503_599_627_370_497.0,
+            1e300,
+            f64::MIN_POSITIVE,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+        ];
+        for y in edges {
+            assert!(agrees(y), "{y}");
+        }
+        assert!(round_half_away(f64::NAN).is_nan());
+    }
+
+    proptest! {
+        #[test]
+        fn rounding_agrees_with_the_standard_library(bits in any::<u64>()) {
+            let y = f64::from_bits(bits);
+            prop_assume!(!y.is_nan());
+            prop_assert!(agrees(y));
+        }
+
+        #[test]
+        fn rounding_agrees_on_scores_and_qualities(y in -1.0e6f64..1.0e6) {
+            prop_assert!(agrees(y));
+            prop_assert!(agrees(y * 1000.0));
+        }
+    }
 }

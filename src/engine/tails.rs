@@ -46,6 +46,16 @@ const NONE: f64 = f64::NEG_INFINITY;
 /// Active bands at most for a factored walk (bands are kept as bits of a word).
 const MAX_BANDS: usize = 64;
 
+/// The larger of two qualities or credits (never NaN): `f64::max` without its NaN
+/// handling, on the hot path of a loose solve.
+fn larger(a: f64, b: f64) -> f64 {
+    if a >= b {
+        a
+    } else {
+        b
+    }
+}
+
 /// Bits of the bands for which `f` holds.
 fn band_mask(nb: usize, f: impl Fn(usize) -> bool) -> u64 {
     (0..nb).filter(|&b| f(b)).fold(0, |m, b| m | (1 << b))
@@ -63,6 +73,8 @@ struct PartView {
     /// Per active band: best quality of the skeleton rules whose `needs_any` the set
     /// meets.
     skeleton_quality: Vec<f64>,
+    /// Per active band: the better of `quality` and `skeleton_quality`.
+    best: Vec<f64>,
     /// Per active band: best credit of the set's rules (`score::Parts::credits`).
     credit: Vec<f64>,
     /// Bands some band rule or pattern of the set explains.
@@ -81,55 +93,107 @@ struct PartView {
     bands_present: bool,
 }
 
+/// Per concrete group, what it brings to each active band; a set's summary is the
+/// best (or the union) over its groups.
+#[derive(Clone, Debug)]
+struct GroupBands {
+    /// Per group, per active band: best quality of its band rules and of the patterns
+    /// that name it.
+    quality: Vec<Vec<f64>>,
+    /// Per group, per active band: best quality of the skeleton rules whose
+    /// `needs_any` it meets.
+    skeleton: Vec<Vec<f64>>,
+    /// Per group: the skeleton rules whose `needs_any` it meets.
+    skeleton_rules: Vec<Vec<usize>>,
+    /// Per group: the active bands it explains (`Problem::explained_by_groups`).
+    own: Vec<u64>,
+}
+
+impl GroupBands {
+    fn new(problem: &Problem<'_>) -> Self {
+        let (ng, nb) = (problem.groups.len(), problem.bands.len());
+        let mut quality = vec![vec![NONE; nb]; ng];
+        let mut skeleton = vec![vec![NONE; nb]; ng];
+        let mut skeleton_rules = vec![Vec::new(); ng];
+        for (si, (gs, _)) in problem.skeleton_needs.iter().enumerate() {
+            for &g in gs {
+                if !skeleton_rules[g].contains(&si) {
+                    skeleton_rules[g].push(si);
+                }
+            }
+        }
+        for (b, ex) in problem.explainers.iter().enumerate() {
+            for &(g, _, q) in &ex.groups {
+                quality[g][b] = quality[g][b].max(q);
+            }
+            for (_, gs, q) in &ex.patterns {
+                for &g in gs {
+                    quality[g][b] = quality[g][b].max(*q);
+                }
+            }
+            for &(si, q) in &ex.skeleton {
+                for &g in &problem.skeleton_needs[si].0 {
+                    skeleton[g][b] = skeleton[g][b].max(q);
+                }
+            }
+        }
+        let own = (0..ng)
+            .map(|g| band_mask(nb, |b| problem.explained_by_groups[b].contains(g)))
+            .collect();
+        GroupBands {
+            quality,
+            skeleton,
+            skeleton_rules,
+            own,
+        }
+    }
+}
+
+/// Per-band maxima of `rows` (over the groups `present`) into `out`.
+fn best_of(rows: &[Vec<f64>], present: &[usize], nb: usize, out: &mut Vec<f64>) {
+    out.clear();
+    out.resize(nb, NONE);
+    for &g in present {
+        for (o, q) in out.iter_mut().zip(&rows[g]) {
+            *o = o.max(*q);
+        }
+    }
+}
+
 impl PartView {
     /// Summarises the groups `present` (index order).
-    fn fill(&mut self, problem: &Problem<'_>, parts: &Parts, present: &[usize]) {
+    fn fill(&mut self, problem: &Problem<'_>, parts: &Parts, gb: &GroupBands, present: &[usize]) {
         let nb = problem.bands.len();
         self.present.clear();
         self.present.extend_from_slice(present);
         self.set.clear();
         present.iter().for_each(|&g| self.set.insert(g));
-        let set = &self.set;
-        self.quality.clear();
-        self.quality.extend(problem.explainers.iter().map(|ex| {
-            let rules = ex
-                .groups
-                .iter()
-                .filter(|(g, _, _)| set.contains(*g))
-                .map(|r| r.2);
-            let patterns = ex
-                .patterns
-                .iter()
-                .filter(|(_, gs, _)| gs.iter().any(|&g| set.contains(g)))
-                .map(|p| p.2);
-            rules.chain(patterns).fold(NONE, f64::max)
-        }));
+        best_of(&gb.quality, present, nb, &mut self.quality);
         self.by_groups = band_mask(nb, |b| self.quality[b] != NONE);
         self.skeleton_need.clear();
-        self.skeleton_need.extend(
-            problem
-                .skeleton_needs
-                .iter()
-                .map(|(gs, _)| gs.iter().any(|&g| set.contains(g))),
-        );
-        let need = &self.skeleton_need;
-        self.skeleton_quality.clear();
-        self.skeleton_quality
-            .extend(problem.explainers.iter().map(|ex| {
-                ex.skeleton
-                    .iter()
-                    .filter(|(si, _)| need[*si])
-                    .map(|(_, q)| *q)
-                    .fold(NONE, f64::max)
-            }));
+        self.skeleton_need
+            .resize(problem.skeleton_needs.len(), false);
+        for &g in present {
+            for &si in &gb.skeleton_rules[g] {
+                self.skeleton_need[si] = true;
+            }
+        }
+        best_of(&gb.skeleton, present, nb, &mut self.skeleton_quality);
         self.by_skeleton = band_mask(nb, |b| self.skeleton_quality[b] != NONE);
-        let shared: Vec<u32> = problem
-            .explained_by_groups
-            .iter()
-            .map(|s| s.intersection_count(set))
-            .collect();
-        self.shared_once = band_mask(nb, |b| shared[b] >= 1);
-        self.shared_twice = band_mask(nb, |b| shared[b] >= 2);
+        self.best.clear();
+        self.best.extend(
+            self.quality
+                .iter()
+                .zip(&self.skeleton_quality)
+                .map(|(q, s)| q.max(*s)),
+        );
+        let (mut once, mut twice) = (0u64, 0u64);
+        for &g in present {
+            twice |= once & gb.own[g];
+            once |= gb.own[g];
+        }
+        self.shared_once = once;
+        self.shared_twice = twice;
         self.credit.clear();
         self.credit.resize(nb, 0.0);
         for &g in present {
@@ -150,6 +214,9 @@ struct HeadFixed {
     /// Per active band: best of the artefacts, the head's band rules and patterns and
     /// the skeleton rules whose needs the head meets.
     quality: Vec<f64>,
+    /// The same with the skeleton rules that need an sp3 carbon (when the combination
+    /// has one).
+    quality_sp3: Vec<f64>,
     /// Its relations with the tail groups.
     relations: HeadRelations,
 }
@@ -163,17 +230,23 @@ struct SlotEval {
     needs: NeedsSummary,
     /// Some group present holds an sp3 C–H of its own.
     sp3_group: bool,
+    /// Skeleton carbons remain.
+    skeleton_left: bool,
+    /// Tail groups present whose bands are seen (bit k: tail group k).
+    seen_split: u32,
+    /// Its score terms and class, worked out with its first consistent combination.
+    priced: Option<Priced>,
+}
+
+/// The score terms that depend on presence alone, and the class, of a slot.
+#[derive(Clone, Copy, Debug)]
+struct Priced {
     /// Sum of the group parts of the groups present (`score::Parts::group`).
     groups: f64,
     /// The candidate terms that depend on presence alone (slots 3 and 5 left empty).
     values: [Option<f64>; 6],
-    /// Where its per-band best explanation qualities start in the head's arena (the
-    /// signature compares them).
-    band_quality_at: usize,
-    /// Tail groups present whose bands are seen (bit k: tail group k).
-    seen_split: u32,
-    /// The class of the combinations with this head and pattern, once one is found.
-    class: Option<u32>,
+    /// The class of the combinations with this head and pattern.
+    class: u32,
 }
 
 /// Everything fixed for one solve.
@@ -181,8 +254,10 @@ struct Shared<'a, 'c> {
     problem: &'a Problem<'c>,
     parts: &'a Parts,
     tail: &'a [usize],
-    /// Per concrete group: the active bands it explains (`Problem::explained_by_groups`).
-    own_bands: Vec<u64>,
+    /// Per concrete group: its band contributions.
+    group_bands: GroupBands,
+    /// Per concrete group: the tally of one instance (`Tally::unit`).
+    units: Vec<Tally>,
     /// Demanded bands no artefact explains.
     demanded: u64,
     /// Bands a skeleton rule that needs an sp3 carbon explains.
@@ -193,6 +268,11 @@ struct Shared<'a, 'c> {
     artefact: Vec<f64>,
     /// Per active band: best quality of the skeleton rules that need an sp3 carbon.
     sp3_skeleton: Vec<f64>,
+    /// Per active band: the penalty when nothing explains it (`score::unexplained_penalty`).
+    penalty: Vec<f64>,
+    /// Per active band: the band it is a branch of (`Explainers::branch_of`), or
+    /// `usize::MAX`.
+    branch_of: Vec<usize>,
     /// Per tail pattern (bit k: tail group k present): its summary.
     patterns: Vec<PartView>,
     /// Tail groups whose bands are seen (bit k: tail group k).
@@ -225,8 +305,9 @@ struct TailFill {
 impl<'a, 'c> Shared<'a, 'c> {
     fn new(problem: &'a Problem<'c>, parts: &'a Parts, tail: &'a [usize]) -> Self {
         let nb = problem.bands.len();
-        let own_bands = (0..problem.groups.len())
-            .map(|g| band_mask(nb, |b| problem.explained_by_groups[b].contains(g)))
+        let group_bands = GroupBands::new(problem);
+        let units = (0..problem.groups.len())
+            .map(|g| Tally::unit(problem, g))
             .collect();
         let demanded = band_mask(nb, |b| {
             let ex = &problem.explainers[b];
@@ -252,6 +333,16 @@ impl<'a, 'c> Shared<'a, 'c> {
             })
             .collect::<Vec<f64>>();
         let by_sp3_skeleton = band_mask(nb, |b| sp3_skeleton[b] != NONE);
+        let penalty = problem
+            .bands
+            .iter()
+            .map(|(_, b)| unexplained_penalty(b.band.at, b.band.strength))
+            .collect();
+        let branch_of = problem
+            .explainers
+            .iter()
+            .map(|ex| ex.branch_of.unwrap_or(usize::MAX))
+            .collect();
         // Tail positions present in a pattern.
         let members = |pattern: u32| (0..tail.len()).filter(move |k| pattern & (1 << k) != 0);
         let patterns = (0..1u32 << tail.len())
@@ -259,7 +350,7 @@ impl<'a, 'c> Shared<'a, 'c> {
                 let mut present: Vec<usize> = members(pattern).map(|k| tail[k]).collect();
                 present.sort_unstable();
                 let mut v = PartView::default();
-                v.fill(problem, parts, &present);
+                v.fill(problem, parts, &group_bands, &present);
                 v
             })
             .collect();
@@ -301,12 +392,15 @@ impl<'a, 'c> Shared<'a, 'c> {
             tail_pos,
             pattern_relations_hold,
             pattern_needs_head,
-            own_bands,
+            group_bands,
+            units,
             demanded,
             by_sp3_skeleton,
             h_kinds,
             artefact,
             sp3_skeleton,
+            penalty,
+            branch_of,
             patterns,
             tables: HashMap::new(),
         }
@@ -314,7 +408,8 @@ impl<'a, 'c> Shared<'a, 'c> {
 
     /// The tail fillings of (carbons, DBE) left, listed on first use.
     fn fills(&mut self, c_left: u32, dbe_left: u32) -> Rc<Vec<TailFill>> {
-        let (problem, tail, patterns) = (self.problem, self.tail, &self.patterns);
+        let (problem, tail, patterns, units) =
+            (self.problem, self.tail, &self.patterns, &self.units);
         let table = self.tables.entry((c_left, dbe_left)).or_insert_with(|| {
             let mut full = vec![0u32; problem.groups.len()];
             enumerate::tails(problem, tail, c_left, dbe_left)
@@ -329,7 +424,7 @@ impl<'a, 'c> Shared<'a, 'c> {
                             carbons += n * problem.groups[tail[k]].c;
                         }
                     }
-                    let tally = Tally::of(problem, &full, &patterns[pattern as usize].present);
+                    let tally = Tally::of_units(units, &full, &patterns[pattern as usize].present);
                     tail.iter().for_each(|&g| full[g] = 0);
                     TailFill {
                         instances: counts.iter().sum(),
@@ -424,34 +519,27 @@ impl HeadRelations {
 struct Scratch {
     /// Per active band: best direct explanation quality.
     direct: Vec<f64>,
+    /// Per active band: best explanation quality.
+    band_quality: Vec<f64>,
     /// The groups present, in index order.
     present: Vec<usize>,
-    /// Per slot of the head, per active band: best explanation quality.
-    arena: Vec<f64>,
+    /// The class key of a slot (`band_key`).
+    key: Vec<i64>,
 }
 
-/// Evaluates a head with a tail pattern, with or without skeleton carbons left.
-fn evaluate_slot(
+/// Judges a head with a tail pattern, with or without skeleton carbons left: what
+/// presence, relations and band explanation decide (the score terms wait for a
+/// consistent combination, see [`price_slot`]).
+fn judge_slot(
     sh: &Shared<'_, '_>,
     head: &PartView,
     head_fixed: &HeadFixed,
     tail: &PartView,
     pattern: u32,
     skeleton_left: bool,
-    scratch: &mut Scratch,
 ) -> SlotEval {
-    let problem = sh.problem;
     let sp3_group = head.sp3 || tail.sp3;
     let sp3_ok = skeleton_left || sp3_group;
-    let direct = &mut scratch.direct;
-    direct.clear();
-    let (fixed, tq, ts) = (&head_fixed.quality, &tail.quality, &tail.skeleton_quality);
-    if sp3_ok {
-        let sp3 = &sh.sp3_skeleton;
-        direct.extend((0..fixed.len()).map(|b| fixed[b].max(tq[b]).max(ts[b]).max(sp3[b])));
-    } else {
-        direct.extend((0..fixed.len()).map(|b| fixed[b].max(tq[b]).max(ts[b])));
-    }
     let by_skeleton =
         head.by_skeleton | tail.by_skeleton | if sp3_ok { sh.by_sp3_skeleton } else { 0 };
     // As band_explanation::check: a demanded band no group explains needs the skeleton.
@@ -464,29 +552,86 @@ fn evaluate_slot(
     if holds && skeleton_only != 0 {
         needs = skeleton_needs(sh, head, tail, skeleton_only, sp3_ok);
     }
-    let band_quality_at = scratch.arena.len();
-    let direct = &scratch.direct;
-    scratch.arena.extend((0..direct.len()).map(|b| {
-        if direct[b] != NONE {
-            direct[b]
-        } else {
-            match problem.explainers[b].branch_of {
-                Some(j) => BRANCH_QUALITY * direct[j],
-                None => NONE,
-            }
-        }
-    }));
-    let (values, groups) = presence_values(sh, head, tail, band_quality_at, scratch);
     SlotEval {
         holds,
         needs,
         sp3_group,
-        groups,
-        values,
-        band_quality_at,
+        skeleton_left,
         seen_split: pattern & sh.seen_split,
-        class: None,
+        priced: None,
     }
+}
+
+/// The per-band best explanation qualities of a head with a tail pattern (into
+/// `scratch.band_quality`), and the score terms that depend on presence alone (as
+/// `score::candidate_values` computes them; slots 3 and 5 are left to the counts) with
+/// the sum of the group parts.
+fn price_slot(
+    sh: &Shared<'_, '_>,
+    head: &PartView,
+    head_fixed: &HeadFixed,
+    tail: &PartView,
+    sp3_ok: bool,
+    scratch: &mut Scratch,
+) -> ([Option<f64>; 6], f64) {
+    let nb = sh.problem.bands.len();
+    let base = if sp3_ok {
+        &head_fixed.quality_sp3[..nb]
+    } else {
+        &head_fixed.quality[..nb]
+    };
+    let tail_best = &tail.best[..nb];
+    scratch.direct.resize(nb, NONE);
+    let direct = &mut scratch.direct[..nb];
+    for ((d, h), t) in direct.iter_mut().zip(base).zip(tail_best) {
+        *d = larger(*h, *t);
+    }
+    let direct = &scratch.direct[..nb];
+    scratch.band_quality.resize(nb, NONE);
+    let band_quality = &mut scratch.band_quality[..nb];
+    let (mut seen, mut explained, mut unexplained) = (0.0, 0.0, 0.0);
+    let (head_credit, tail_credit) = (&head.credit[..nb], &tail.credit[..nb]);
+    let (branch_of, penalty) = (&sh.branch_of[..nb], &sh.penalty[..nb]);
+    for b in 0..nb {
+        let mut q = direct[b];
+        if q == NONE && branch_of[b] != usize::MAX {
+            q = BRANCH_QUALITY * direct[branch_of[b]];
+        }
+        band_quality[b] = q;
+        if q != NONE {
+            explained += W_EXPLAINED * q;
+        } else {
+            unexplained += penalty[b];
+        }
+        seen += larger(head_credit[b], tail_credit[b]);
+    }
+    let mut values = [None; 6];
+    if seen != 0.0 {
+        values[0] = Some(score::round3(seen));
+    }
+    if explained != 0.0 {
+        values[1] = Some(score::round3(explained));
+    }
+    if unexplained != 0.0 {
+        values[2] = Some(score::round3(-unexplained));
+    }
+    let present = &mut scratch.present;
+    merge_into(&head.present, &tail.present, present);
+    if present.len() >= 2 {
+        let twice = head.shared_twice | tail.shared_twice | (head.shared_once & tail.shared_once);
+        let borrowed = present
+            .iter()
+            .filter(|&&g| {
+                let own = sh.group_bands.own[g];
+                own != 0 && own & !twice == 0
+            })
+            .count();
+        if borrowed > 0 {
+            values[4] = Some(score::round3(-score::P_NO_OWN_BAND * borrowed as f64));
+        }
+    }
+    let groups: f64 = present.iter().map(|&g| sh.parts.group[g]).sum();
+    (values, groups)
 }
 
 /// What the demanded bands in `bands` (explained by no group, each by some skeleton
@@ -526,57 +671,6 @@ fn skeleton_needs(
     needs
 }
 
-/// The candidate terms that depend on presence alone (as `score::candidate_values`
-/// computes them; slots 3 and 5 are left to the counts) and the sum of the group parts.
-fn presence_values(
-    sh: &Shared<'_, '_>,
-    head: &PartView,
-    tail: &PartView,
-    band_quality_at: usize,
-    scratch: &mut Scratch,
-) -> ([Option<f64>; 6], f64) {
-    let problem = sh.problem;
-    let nb = problem.bands.len();
-    let band_quality = &scratch.arena[band_quality_at..band_quality_at + nb];
-    let mut values = [None; 6];
-    let seen: f64 = (0..nb).map(|b| head.credit[b].max(tail.credit[b])).sum();
-    if seen != 0.0 {
-        values[0] = Some(score::round3(seen));
-    }
-    let mut explained = 0.0;
-    let mut unexplained = 0.0;
-    for (&q, (_, b)) in band_quality.iter().zip(&problem.bands) {
-        if q != NONE {
-            explained += W_EXPLAINED * q;
-        } else {
-            unexplained += unexplained_penalty(b.band.at, b.band.strength);
-        }
-    }
-    if explained != 0.0 {
-        values[1] = Some(score::round3(explained));
-    }
-    if unexplained != 0.0 {
-        values[2] = Some(score::round3(-unexplained));
-    }
-    let present = &mut scratch.present;
-    merge_into(&head.present, &tail.present, present);
-    if present.len() >= 2 {
-        let twice = head.shared_twice | tail.shared_twice | (head.shared_once & tail.shared_once);
-        let borrowed = present
-            .iter()
-            .filter(|&&g| {
-                let own = sh.own_bands[g];
-                own != 0 && own & !twice == 0
-            })
-            .count();
-        if borrowed > 0 {
-            values[4] = Some(score::round3(-score::P_NO_OWN_BAND * borrowed as f64));
-        }
-    }
-    let groups: f64 = present.iter().map(|&g| sh.parts.group[g]).sum();
-    (values, groups)
-}
-
 /// Two lists of distinct groups in index order merged, in index order, into `out`.
 fn merge_into(a: &[usize], b: &[usize], out: &mut Vec<usize>) {
     out.clear();
@@ -594,17 +688,17 @@ fn merge_into(a: &[usize], b: &[usize], out: &mut Vec<usize>) {
     out.extend_from_slice(&b[j..]);
 }
 
-/// The per-band part of a class signature (as `collapse::signature_key` writes it),
-/// into `key`.
+/// The per-band part of a class signature (as `collapse::signature_key` rounds it),
+/// one entry per band, `i64::MIN` for a band nothing explains, into `key`.
 fn band_key(band_quality: &[f64], key: &mut Vec<i64>) {
     key.clear();
-    for &q in band_quality {
+    key.extend(band_quality.iter().map(|&q| {
         if q != NONE {
-            key.extend([1, (q * 1000.0).round() as i64]);
+            score::round_half_away(q * 1000.0) as i64
         } else {
-            key.extend([0, 0]);
+            i64::MIN
         }
-    }
+    }));
 }
 
 /// [`super::classes::gather`] for a case whose walk ends with the split groups `tail`.
@@ -653,8 +747,12 @@ struct HeadState {
     tally: Tally,
     /// Its group instances.
     instances: u32,
-    /// Its classes: (seen split groups, band key, class).
-    classes: Vec<(u32, Vec<i64>, u32)>,
+    /// Its classes: (seen split groups, class), in the order met.
+    classes: Vec<(u32, u32)>,
+    /// Their band keys (`band_key`), one after the other.
+    class_keys: Vec<i64>,
+    /// The band qualities their keys were made from, one after the other.
+    class_qualities: Vec<f64>,
     /// Its counts (tail groups at zero).
     counts: Vec<u32>,
     /// Whether its counts are held as a block of the members (from its first member).
@@ -712,22 +810,29 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         h.present.clear();
         h.present
             .extend((0..counts.len()).filter(|&g| counts[g] > 0));
-        h.view.fill(problem, sh.parts, &h.present);
-        h.fixed.quality.clear();
+        h.view.fill(problem, sh.parts, &sh.group_bands, &h.present);
         let view = &h.view;
-        h.fixed.quality.extend((0..problem.bands.len()).map(|b| {
-            sh.artefact[b]
-                .max(view.quality[b])
-                .max(view.skeleton_quality[b])
-        }));
+        h.fixed.quality.clear();
+        h.fixed
+            .quality
+            .extend(sh.artefact.iter().zip(&view.best).map(|(a, v)| a.max(*v)));
+        h.fixed.quality_sp3.clear();
+        h.fixed.quality_sp3.extend(
+            h.fixed
+                .quality
+                .iter()
+                .zip(&sh.sp3_skeleton)
+                .map(|(q, s)| q.max(*s)),
+        );
         h.fixed.relations.fill(sh, &h.view);
-        h.tally = Tally::of(problem, counts, &h.present);
+        h.tally = Tally::of_units(&sh.units, counts, &h.present);
         h.instances = counts.iter().sum();
         h.classes.clear();
+        h.class_keys.clear();
+        h.class_qualities.clear();
         h.counts.clear();
         h.counts.extend_from_slice(counts);
         h.block_started = false;
-        h.scratch.arena.clear();
         self.slots.clear();
         self.slot_of.iter_mut().for_each(|s| *s = u32::MAX);
     }
@@ -738,17 +843,16 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         let sk = fill.skeleton_c;
         let slot_idx = (fill.pattern as usize) << 1 | usize::from(sk > 0);
         if self.slot_of[slot_idx] == u32::MAX {
-            let h = &mut self.head;
+            let h = &self.head;
             let tail_view = &self.sh.patterns[fill.pattern as usize];
             self.slot_of[slot_idx] = self.slots.len() as u32;
-            self.slots.push(evaluate_slot(
+            self.slots.push(judge_slot(
                 &self.sh,
                 &h.view,
                 &h.fixed,
                 tail_view,
                 fill.pattern,
                 sk > 0,
-                &mut h.scratch,
             ));
         }
         let slot_at = self.slot_of[slot_idx] as usize;
@@ -762,14 +866,16 @@ impl<M: Meter> Gatherer<'_, '_, M> {
             self.out.truncated = true;
             return Flow::Stop;
         }
-        let mut values = slot.values;
+        let sp3_group = slot.sp3_group;
+        let (priced, class_bytes) = self.priced(slot_at, fill.pattern);
+        let mut values = priced.values;
         values[3] = score::no_sp3_stretch_term(problem, || {
-            score::sp3_ch_required(problem, slot.sp3_group, sk, || tally.h_held_and_open())
+            score::sp3_ch_required(problem, sp3_group, sk, || tally.h_held_and_open())
         });
         let instances = self.head.instances + fill.instances;
         values[5] = score::parsimony_term(instances);
-        let s = score::total(slot.groups, &values);
-        let (class, class_bytes) = self.class_of(slot_at, fill.pattern);
+        let s = score::total(priced.groups, &values);
+        let class = priced.class;
         let h = &mut self.head;
         let mut bytes = self.per_member + class_bytes;
         if !h.block_started {
@@ -785,40 +891,68 @@ impl<M: Meter> Gatherer<'_, '_, M> {
         self.metered(hold)
     }
 
-    /// The class of slot `slot_at` (met first now, or earlier) and the bytes a new
-    /// class holds (its key lives only while its head is filled in; ranking keeps its
-    /// best member); a slot's first member marks its groups as in some candidate.
-    fn class_of(&mut self, slot_at: usize, pattern: u32) -> (u32, u64) {
-        if let Some(c) = self.slots[slot_at].class {
-            return (c, 0);
+    /// The score terms and class of slot `slot_at` (worked out now, with its first
+    /// consistent combination, or earlier) and the bytes a new class holds (its key
+    /// lives only while its head is filled in; ranking keeps its best member); a slot's
+    /// first member marks its groups as in some candidate.
+    fn priced(&mut self, slot_at: usize, pattern: u32) -> (Priced, u64) {
+        if let Some(p) = self.slots[slot_at].priced {
+            return (p, 0);
         }
-        let nb = self.sh.problem.bands.len();
         let h = &mut self.head;
         let slot = &mut self.slots[slot_at];
-        let at = slot.band_quality_at;
-        let mut key = Vec::with_capacity(2 * nb);
-        band_key(&h.scratch.arena[at..at + nb], &mut key);
-        let found = h
+        let tail_view = &self.sh.patterns[pattern as usize];
+        let sp3_ok = slot.skeleton_left || slot.sp3_group;
+        let (values, groups) = price_slot(
+            &self.sh,
+            &h.view,
+            &h.fixed,
+            tail_view,
+            sp3_ok,
+            &mut h.scratch,
+        );
+        let qualities = &h.scratch.band_quality;
+        let nb = qualities.len();
+        let seen = slot.seen_split;
+        // The same qualities make the same key; the keys of a head's classes differ, so
+        // the class with the same qualities is the one with the same key.
+        let same_qualities = h
             .classes
             .iter()
-            .find(|(seen, k, _)| *seen == slot.seen_split && *k == key)
-            .map(|(_, _, c)| *c);
+            .enumerate()
+            .find(|(i, (s, _))| {
+                *s == seen && h.class_qualities[i * nb..(i + 1) * nb] == qualities[..]
+            })
+            .map(|(_, (_, c))| *c);
         let mut bytes = 0;
-        let class = found.unwrap_or_else(|| {
-            let c = self.n_classes;
-            self.n_classes += 1;
-            bytes = std::mem::size_of::<Option<usize>>() as u64;
-            h.classes.push((slot.seen_split, key, c));
-            c
+        let class = same_qualities.unwrap_or_else(|| {
+            let key = &mut h.scratch.key;
+            band_key(qualities, key);
+            let same_key = h
+                .classes
+                .iter()
+                .enumerate()
+                .find(|(i, (s, _))| *s == seen && h.class_keys[i * nb..(i + 1) * nb] == key[..])
+                .map(|(_, (_, c))| *c);
+            same_key.unwrap_or_else(|| {
+                let c = self.n_classes;
+                self.n_classes += 1;
+                bytes = std::mem::size_of::<Option<usize>>() as u64;
+                h.classes.push((seen, c));
+                h.class_keys.extend_from_slice(key);
+                h.class_qualities.extend_from_slice(qualities);
+                c
+            })
         });
-        slot.class = Some(class);
-        for &g in h
-            .present
-            .iter()
-            .chain(&self.sh.patterns[pattern as usize].present)
-        {
+        let priced = Priced {
+            groups,
+            values,
+            class,
+        };
+        slot.priced = Some(priced);
+        for &g in h.present.iter().chain(&tail_view.present) {
             self.out.in_some_candidate[g] = true;
         }
-        (class, bytes)
+        (priced, bytes)
     }
 }

@@ -89,44 +89,73 @@ pub struct Tally {
 impl Tally {
     /// Sums the open valences and atoms of the present groups.
     pub fn of(problem: &Problem<'_>, counts: &[u32], present: &[usize]) -> Self {
-        let mut t = Self::default();
-        for (g, n) in present.iter().map(|&i| (&problem.groups[i], counts[i])) {
-            if n == 0 {
-                continue;
-            }
-            let n = u64::from(n);
-            let b = g.group.bonds;
-            t.h_fixed += n * u64::from(g.h);
-            t.hetero_must += n * u64::from(b.hetero);
-            t.hetero_or_h += n * u64::from(b.hetero_or_h);
-            t.carbon_must += n * u64::from(b.carbon);
-            t.carbon_or_h += n * u64::from(b.carbon_or_h);
-            if !g.has_atoms && g.group.dbe > 0 {
-                t.plain_rings += n;
-            }
-            t.ring_capable_atoms += n * atoms_bonding_twice(&g.group.atoms);
-            if g.has_atoms {
-                t.group_nodes += n;
-                let heavy = u64::from(g.group.atoms.n_atoms() - g.h);
-                t.group_heavy_atoms += n * heavy;
-                if heavy > 1 {
-                    t.multi_atom_nodes += n;
-                }
-                let own_carbons = if b.carbon + b.carbon_or_h > 0 {
-                    u64::from(g.c)
-                } else {
-                    0
-                };
-                t.group_bondable_carbons += n * own_carbons;
-                let must = u64::from(b.hetero + b.carbon);
-                t.most_partners_needed = t.most_partners_needed.max(must + heavy);
-                t.most_carbon_partners_needed = t
-                    .most_carbon_partners_needed
-                    .max(u64::from(b.hetero) + own_carbons);
-            }
-            t.sp3_group_h |= g.sp3_ch;
+        present.iter().fold(Self::default(), |t, &i| {
+            t.plus(&Self::unit(problem, i).times(counts[i]))
+        })
+    }
+
+    /// [`Tally::of`] from the tallies of one instance of each group ([`Tally::unit`]).
+    pub fn of_units(units: &[Tally], counts: &[u32], present: &[usize]) -> Self {
+        present
+            .iter()
+            .fold(Self::default(), |t, &i| t.plus(&units[i].times(counts[i])))
+    }
+
+    /// The open valences and atoms of one instance of group `i`.
+    pub fn unit(problem: &Problem<'_>, i: usize) -> Self {
+        let g = &problem.groups[i];
+        let b = g.group.bonds;
+        let mut t = Self {
+            h_fixed: u64::from(g.h),
+            hetero_must: u64::from(b.hetero),
+            hetero_or_h: u64::from(b.hetero_or_h),
+            carbon_must: u64::from(b.carbon),
+            carbon_or_h: u64::from(b.carbon_or_h),
+            plain_rings: u64::from(!g.has_atoms && g.group.dbe > 0),
+            ring_capable_atoms: atoms_bonding_twice(&g.group.atoms),
+            sp3_group_h: g.sp3_ch,
+            ..Self::default()
+        };
+        if g.has_atoms {
+            t.group_nodes = 1;
+            let heavy = u64::from(g.group.atoms.n_atoms() - g.h);
+            t.group_heavy_atoms = heavy;
+            t.multi_atom_nodes = u64::from(heavy > 1);
+            let own_carbons = if b.carbon + b.carbon_or_h > 0 {
+                u64::from(g.c)
+            } else {
+                0
+            };
+            t.group_bondable_carbons = own_carbons;
+            t.most_partners_needed = u64::from(b.hetero + b.carbon) + heavy;
+            t.most_carbon_partners_needed = u64::from(b.hetero) + own_carbons;
         }
         t
+    }
+
+    /// `n` instances of a one-instance tally: the sums scaled, the largest needs and
+    /// the flag kept (nothing for `n` = 0).
+    fn times(&self, n: u32) -> Tally {
+        if n == 0 {
+            return Tally::default();
+        }
+        let n = u64::from(n);
+        Tally {
+            h_fixed: n * self.h_fixed,
+            hetero_must: n * self.hetero_must,
+            hetero_or_h: n * self.hetero_or_h,
+            carbon_must: n * self.carbon_must,
+            carbon_or_h: n * self.carbon_or_h,
+            group_nodes: n * self.group_nodes,
+            group_heavy_atoms: n * self.group_heavy_atoms,
+            group_bondable_carbons: n * self.group_bondable_carbons,
+            multi_atom_nodes: n * self.multi_atom_nodes,
+            sp3_group_h: self.sp3_group_h,
+            plain_rings: n * self.plain_rings,
+            ring_capable_atoms: n * self.ring_capable_atoms,
+            most_partners_needed: self.most_partners_needed,
+            most_carbon_partners_needed: self.most_carbon_partners_needed,
+        }
     }
 
     /// The tally of two disjoint parts of a candidate together.
