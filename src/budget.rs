@@ -152,15 +152,24 @@ impl LimitReached {
 }
 
 /// Something that meters work. See the module documentation.
-pub trait Meter {
+pub trait Meter: Send + Sized {
     /// What a stop is ([`Infallible`] for a meter that never stops).
-    type Stop;
+    type Stop: Send;
     /// One unit of work was done.
     fn tick(&mut self, stage: Stage) -> Result<(), Self::Stop>;
     /// `bytes` more are held from now on.
     fn hold(&mut self, bytes: u64, stage: Stage) -> Result<(), Self::Stop>;
     /// `bytes` held before are given back.
     fn release(&mut self, bytes: u64);
+    /// Estimated bytes held now.
+    fn held(&self) -> u64;
+    /// A meter for work done at the same time on another thread, under this one's
+    /// budget: the same deadline and half of the memory not yet held, which this meter
+    /// lends until [`Meter::rejoin`]. `None` when the meter cannot be split.
+    fn split(&mut self) -> Option<Self>;
+    /// Takes back a meter [`Meter::split`] off this one: the memory lent and what the
+    /// part still holds.
+    fn rejoin(&mut self, part: Self);
 }
 
 /// A meter that never stops.
@@ -176,6 +185,13 @@ impl Meter for Unmetered {
         Ok(())
     }
     fn release(&mut self, _: u64) {}
+    fn held(&self) -> u64 {
+        0
+    }
+    fn split(&mut self) -> Option<Unmetered> {
+        Some(Unmetered)
+    }
+    fn rejoin(&mut self, _: Unmetered) {}
 }
 
 /// A meter enforcing a [`Budget`] from the moment it is made.
@@ -200,12 +216,8 @@ impl Metered {
         }
     }
 
-    /// Estimated bytes held now.
-    pub fn held(&self) -> u64 {
-        self.held
-    }
-
-    /// Largest estimate of bytes held so far.
+    /// Largest estimate of bytes held so far (while parts were split off, an upper
+    /// bound: their peaks are added).
     pub fn peak(&self) -> u64 {
         self.peak
     }
@@ -252,6 +264,35 @@ impl Meter for Metered {
     fn release(&mut self, bytes: u64) {
         self.held = self.held.saturating_sub(bytes);
     }
+
+    fn held(&self) -> u64 {
+        self.held
+    }
+
+    fn split(&mut self) -> Option<Metered> {
+        let mut budget = self.budget;
+        if let Some(limit) = &mut self.budget.memory_bytes {
+            let half = limit.saturating_sub(self.held) / 2;
+            *limit -= half;
+            budget.memory_bytes = Some(half);
+        }
+        Some(Metered {
+            budget,
+            deadline: self.deadline,
+            held: 0,
+            peak: 0,
+            ticks: 0,
+        })
+    }
+
+    fn rejoin(&mut self, part: Metered) {
+        if let (Some(limit), Some(lent)) = (&mut self.budget.memory_bytes, part.budget.memory_bytes)
+        {
+            *limit += lent;
+        }
+        self.held = self.held.saturating_add(part.held);
+        self.peak = self.peak.saturating_add(part.peak).max(self.held);
+    }
 }
 
 /// The value of a result whose meter cannot stop.
@@ -285,6 +326,27 @@ mod tests {
             stop.message()
         );
         assert!(stop.advice().contains("formula:"), "{}", stop.advice());
+    }
+
+    #[test]
+    fn a_split_meter_lends_half_of_the_memory_left_and_takes_it_back() {
+        let mut m = Metered::new(Budget {
+            time: None,
+            memory_bytes: Some(100),
+        });
+        assert!(m.hold(20, Stage::Enumeration).is_ok());
+        let mut part = m.split().expect("a budget meter splits");
+        // 80 left: 40 lent, 40 kept.
+        assert!(part.hold(40, Stage::Enumeration).is_ok());
+        assert!(part.hold(1, Stage::Enumeration).is_err());
+        assert!(m.hold(40, Stage::Enumeration).is_ok());
+        assert!(m.hold(1, Stage::Enumeration).is_err());
+        m.release(41);
+        part.release(41);
+        m.rejoin(part);
+        assert_eq!(m.held(), 20);
+        assert!(m.hold(80, Stage::Enumeration).is_ok());
+        assert!(m.hold(1, Stage::Enumeration).is_err());
     }
 
     #[test]

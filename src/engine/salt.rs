@@ -525,10 +525,7 @@ pub fn solve_readings<M: Meter>(
     let Some(stated) = &case.formula else {
         return solve_stated_within(case, catalogue, options, meter, Stage::Enumeration);
     };
-    let mut solved: Vec<Outcome> = Vec::with_capacity(readings.len());
-    for r in readings {
-        solved.push(solve_reading(case, stated, catalogue, options, r, meter)?);
-    }
+    let mut solved = solve_each(case, stated, catalogue, options, readings, meter)?;
     let best = (0..solved.len())
         .max_by(|&a, &b| {
             let key = |i: usize| {
@@ -643,6 +640,63 @@ fn dbe_statement(stated: &Composition, organic: &Composition, reading: &Reading)
     )
 }
 
+/// Each reading solved, in order. Two readings or more are solved at once on two
+/// threads when the machine has two cores and the meter splits (half the memory left
+/// for each side); the outcomes are those of solving them one after the other. A stop
+/// on either side solves them again one after the other under the whole budget, so a
+/// case stops only where it would have stopped on one thread (past the deadline, the
+/// second run stops at its first clock read).
+fn solve_each<M: Meter>(
+    case: &Case,
+    stated: &StatedFormula,
+    catalogue: &Catalogue,
+    options: &SolveOptions,
+    readings: &[Reading],
+    meter: &mut M,
+) -> Result<Vec<Outcome>, M::Stop> {
+    let in_turn = |readings: &[Reading], meter: &mut M| {
+        readings
+            .iter()
+            .map(|r| solve_reading(case, stated, catalogue, options, r, meter))
+            .collect::<Result<Vec<Outcome>, M::Stop>>()
+    };
+    let two_cores = std::thread::available_parallelism().is_ok_and(|n| n.get() >= 2);
+    if readings.len() < 2 || !two_cores {
+        return in_turn(readings, meter);
+    }
+    let Some(mut part) = meter.split() else {
+        return in_turn(readings, meter);
+    };
+    let held_before = meter.held();
+    let (here, there) = readings.split_at(readings.len().div_ceil(2));
+    let (first, second) = std::thread::scope(|scope| {
+        let other = scope.spawn(|| {
+            let r = in_turn(there, &mut part);
+            (r, part)
+        });
+        let first = in_turn(here, meter);
+        let (second, part) = other
+            .join()
+            .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
+        meter.rejoin(part);
+        (first, second)
+    });
+    match (first, second) {
+        (Ok(mut a), Ok(b)) => {
+            a.extend(b);
+            Ok(a)
+        }
+        _ => {
+            // What the stopped attempt still holds is given back first.
+            let left = meter.held().saturating_sub(held_before);
+            meter.release(left);
+            in_turn(readings, meter)
+        }
+    }
+}
+
+/// One reading solved: its organic part taken as the formula, with its ionic sites
+/// (and the water bands of a hydrate).
 fn solve_reading<M: Meter>(
     case: &Case,
     stated: &StatedFormula,
@@ -855,5 +909,98 @@ mod tests {
         assert_eq!(r.len(), 1);
         assert_eq!(r[0].kind, ReadingKind::RequiredHydrohalide);
         assert_eq!(r[0].organic.to_string(), "CH5N");
+    }
+
+    /// A budget meter that never splits: readings are solved one after the other.
+    struct InTurn(crate::budget::Metered);
+
+    impl Meter for InTurn {
+        type Stop = crate::budget::LimitReached;
+        fn tick(&mut self, stage: Stage) -> Result<(), Self::Stop> {
+            self.0.tick(stage)
+        }
+        fn hold(&mut self, bytes: u64, stage: Stage) -> Result<(), Self::Stop> {
+            self.0.hold(bytes, stage)
+        }
+        fn release(&mut self, bytes: u64) {
+            self.0.release(bytes)
+        }
+        fn held(&self) -> u64 {
+            self.0.held()
+        }
+        fn split(&mut self) -> Option<Self> {
+            None
+        }
+        fn rejoin(&mut self, _: Self) {}
+    }
+
+    /// An invented loose case whose Cl with N is read both ways (covalent and HCl).
+    fn two_reading_case() -> Case {
+        let src = concat!(
+            "# invented test case\n",
+            "formula: C12H18ClNO2\n",
+            "ir:\n  technique: KBr\n  bands:\n",
+            "    - { at: 3300, strength: medium }\n",
+            "    - { at: 2950, strength: medium }\n",
+            "    - { at: 1730, strength: strong }\n",
+            "    - { at: 1600, strength: medium }\n",
+            "    - { at: 1240, strength: strong }\n",
+            "    - { at: 750, strength: medium }\n",
+        );
+        let (case, d) = parse(src, "t.yaml");
+        case.unwrap_or_else(|| panic!("{d:?}"))
+    }
+
+    fn solved_with<M: Meter>(case: &Case, meter: &mut M) -> Result<String, M::Stop> {
+        let catalogue = crate::rules::embedded_catalogue().expect("shipped catalogue loads");
+        let rs = readings(case);
+        assert_eq!(rs.len(), 2, "the case is read two ways");
+        let o = solve_readings(case, &catalogue, &SolveOptions::default(), &rs, meter)?;
+        Ok(serde_json::to_string(&o).expect("an outcome serialises"))
+    }
+
+    #[test]
+    fn readings_solved_at_once_conclude_what_readings_solved_in_turn_do() {
+        let case = two_reading_case();
+        let mut in_turn = InTurn(crate::budget::Metered::new(
+            crate::budget::Budget::UNLIMITED,
+        ));
+        let expected = solved_with(&case, &mut in_turn).expect("no limit");
+        let at_once = solved_with(&case, &mut crate::budget::Unmetered).expect("never stops");
+        assert_eq!(at_once, expected);
+        let metered = solved_with(
+            &case,
+            &mut crate::budget::Metered::new(crate::budget::Budget::UNLIMITED),
+        )
+        .expect("no limit");
+        assert_eq!(metered, expected);
+    }
+
+    #[test]
+    fn a_case_that_fits_its_memory_budget_in_turn_is_not_stopped_by_solving_at_once() {
+        let case = two_reading_case();
+        let mut in_turn = InTurn(crate::budget::Metered::new(
+            crate::budget::Budget::UNLIMITED,
+        ));
+        let expected = solved_with(&case, &mut in_turn).expect("no limit");
+        // One after the other, the case peaks at the larger reading's hold; at once, each
+        // side gets half of it, which the larger reading overruns: the readings are then
+        // solved again in turn under the whole budget.
+        let peak = in_turn.0.peak();
+        assert!(peak > 0);
+        let budget = crate::budget::Budget {
+            time: None,
+            memory_bytes: Some(peak),
+        };
+        let mut tight = crate::budget::Metered::new(budget);
+        let solved = solved_with(&case, &mut tight).expect("fits in turn");
+        assert_eq!(solved, expected);
+        // One byte less does not fit either way.
+        let budget = crate::budget::Budget {
+            time: None,
+            memory_bytes: Some(peak - 1),
+        };
+        let stop = solved_with(&case, &mut crate::budget::Metered::new(budget)).unwrap_err();
+        assert_eq!(stop.limit, crate::budget::Limit::Memory { bytes: peak - 1 });
     }
 }
