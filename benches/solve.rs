@@ -1,4 +1,6 @@
-//! Benchmarks of `engine::solve` with the shipped catalogue (single thread):
+//! Benchmarks of `engine::solve` with the shipped catalogue (one thread per salt
+//! reading: the loose case is read covalent and as a hydrochloride, solved at once on
+//! a two-core machine):
 //! - a 25-heavy-atom, 8-heteroatom case (C17H17ClN2O4S) with 15 bands (target < 50 ms),
 //!   with the default enumeration limit and listing every consistent candidate (no
 //!   limit; the counts of combinations and of classes after collapsing are printed);
