@@ -701,6 +701,22 @@ fn band_key(band_quality: &[f64], key: &mut Vec<i64>) {
     }));
 }
 
+/// The class among a head's `classes` with `seen` split groups whose row of
+/// `rows` (one per class, one after the other) is `row`.
+fn class_with<T: PartialEq>(
+    classes: &[(u32, u32)],
+    rows: &[T],
+    seen: u32,
+    row: &[T],
+) -> Option<u32> {
+    let n = row.len();
+    classes
+        .iter()
+        .enumerate()
+        .find(|(i, (s, _))| *s == seen && rows[i * n..(i + 1) * n] == *row)
+        .map(|(_, (_, c))| *c)
+}
+
 /// [`super::classes::gather`] for a case whose walk ends with the split groups `tail`.
 pub fn gather<M: Meter>(
     problem: &Problem<'_>,
@@ -912,28 +928,15 @@ impl<M: Meter> Gatherer<'_, '_, M> {
             &mut h.scratch,
         );
         let qualities = &h.scratch.band_quality;
-        let nb = qualities.len();
         let seen = slot.seen_split;
         // The same qualities make the same key; the keys of a head's classes differ, so
         // the class with the same qualities is the one with the same key.
-        let same_qualities = h
-            .classes
-            .iter()
-            .enumerate()
-            .find(|(i, (s, _))| {
-                *s == seen && h.class_qualities[i * nb..(i + 1) * nb] == qualities[..]
-            })
-            .map(|(_, (_, c))| *c);
+        let same_qualities = class_with(&h.classes, &h.class_qualities, seen, qualities);
         let mut bytes = 0;
         let class = same_qualities.unwrap_or_else(|| {
             let key = &mut h.scratch.key;
             band_key(qualities, key);
-            let same_key = h
-                .classes
-                .iter()
-                .enumerate()
-                .find(|(i, (s, _))| *s == seen && h.class_keys[i * nb..(i + 1) * nb] == key[..])
-                .map(|(_, (_, c))| *c);
+            let same_key = class_with(&h.classes, &h.class_keys, seen, key);
             same_key.unwrap_or_else(|| {
                 let c = self.n_classes;
                 self.n_classes += 1;
